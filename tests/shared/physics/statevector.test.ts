@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import QuantumCircuit from 'quantum-circuit';
+// @ts-expect-error quantum-circuit ships no type declarations (its API is typed locally below)
+import QuantumCircuitUntyped from 'quantum-circuit';
 import type { CompiledCircuit, Gate, GateName, ObservableSpec, PauliFactor } from '../../../shared/physics/circuit';
 import {
   DEFAULT_MAX_QUBITS,
@@ -8,6 +9,13 @@ import {
   statevectorBytes,
   statevectorExpectation,
 } from '../../../shared/physics/statevector';
+
+interface QCInstance {
+  appendGate(name: string, wires: number | number[], options?: { params: Record<string, number | undefined> }): void;
+  run(): void;
+  stateAsSimpleArray(): { re: number; im: number }[];
+}
+const QuantumCircuit = QuantumCircuitUntyped as new (n: number) => QCInstance;
 
 // ---------------------------------------------------------------------------------------------
 // Local helpers (deliberately independent of shared/physics/lattices.ts and kicked-ising.ts)
@@ -67,7 +75,7 @@ function kickedIsingChain(n: number, thetaJ: number, thetaH: number, steps: numb
 }
 
 /** The same circuit in the quantum-circuit npm package (sx is its 'srn', rzz its 'zz'). */
-function toQC(c: CompiledCircuit, extra: Gate[] = []): InstanceType<typeof QuantumCircuit> {
+function toQC(c: CompiledCircuit, extra: Gate[] = []): QCInstance {
   const qc = new QuantumCircuit(c.nQubits);
   for (const g of [...c.gates, ...extra]) {
     const wires = g.qubits.length === 1 ? g.qubits[0] : [...g.qubits];
@@ -85,8 +93,8 @@ function toQC(c: CompiledCircuit, extra: Gate[] = []): InstanceType<typeof Quant
 }
 
 /** Amplitudes of a quantum-circuit run (its wire w is bit w of the index: checked below). */
-function qcAmps(qc: InstanceType<typeof QuantumCircuit>): { re: number; im: number }[] {
-  return qc.stateAsSimpleArray().map((z: { re: number; im: number }) => ({ re: z.re ?? 0, im: z.im ?? 0 }));
+function qcAmps(qc: QCInstance): { re: number; im: number }[] {
+  return qc.stateAsSimpleArray().map((z) => ({ re: z.re ?? 0, im: z.im ?? 0 }));
 }
 
 /**

@@ -1,0 +1,149 @@
+/**
+ * The app factory: everything the server does, given a database, a mailer, a clock and a config.
+ * Tests build a fresh app on a fresh database with it; server/index.ts builds the real one.
+ */
+import { randomUUID } from 'node:crypto';
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type ErrorRequestHandler, type Request, type Response, type NextFunction } from 'express';
+import helmet from 'helmet';
+import { toNodeHandler } from 'better-auth/node';
+import type { Config } from './config';
+import type { Database } from './db/client';
+import type { Mailer } from './mail/mailer';
+import type { Logger } from './log';
+import { createAuth, CLIENT_IP_HEADER, type Auth } from './auth';
+import { AppError } from './errors';
+import { actorMiddleware } from './middleware/actor';
+import { signInThrottle } from './middleware/sign-in-throttle';
+import { originCheck } from './middleware/origin-check';
+import { RouteTable } from './routes/registry';
+import { registerAllRoutes } from './routes';
+
+export interface AppDeps {
+  database: Database;
+  mailer: Mailer;
+  config: Config;
+  log: Logger;
+  /** the clock; tests move it */
+  now?: () => Date;
+  /** serve the built client from dist/ (default: when dist/index.html exists) */
+  serveClient?: boolean;
+  /** install extra middleware before the client (the Vite dev server in `npm run dev`) */
+  beforeClient?: (app: express.Express) => void | Promise<void>;
+}
+
+export interface AppContext {
+  database: Database;
+  db: Database['db'];
+  auth: Auth;
+  mailer: Mailer;
+  config: Config;
+  log: Logger;
+  now: () => Date;
+}
+
+export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
+
+export async function createApp(deps: AppDeps) {
+  const now = deps.now ?? (() => new Date());
+  const { config, log, database } = deps;
+  const auth = createAuth({ db: database.db, config, mailer: deps.mailer, log });
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now };
+  const routes = new RouteTable();
+  registerAllRoutes(routes, ctx);
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxyHops);
+  app.set('query parser', 'simple');
+
+  app.use((req: Request, res: Response, next: NextFunction) => {
+    req.requestId = randomUUID();
+    res.setHeader('X-Request-Id', req.requestId);
+    const t0 = performance.now();
+    res.on('finish', () => {
+      if (!req.path.startsWith('/api')) return;
+      log.info('http', {
+        id: req.requestId, method: req.method, path: req.path, status: res.statusCode,
+        ms: Math.round(performance.now() - t0), actor: req.actor?.kind === 'user' ? req.actor.user.id : req.actor?.kind,
+      });
+    });
+    // the only client address better-auth sees is the one Express derived from the socket
+    delete req.headers[CLIENT_IP_HEADER];
+    req.headers[CLIENT_IP_HEADER] = req.ip ?? req.socket.remoteAddress ?? 'unknown';
+    next();
+  });
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: deps.beforeClient
+        ? false // the Vite dev server injects inline scripts; production keeps the strict policy
+        : {
+            directives: {
+              defaultSrc: ["'self'"],
+              scriptSrc: ["'self'"],
+              styleSrc: ["'self'", "'unsafe-inline'"],
+              imgSrc: ["'self'", 'data:'],
+              fontSrc: ["'self'", 'data:'],
+              objectSrc: ["'none'"],
+              baseUri: ["'none'"],
+              frameAncestors: ["'none'"],
+              formAction: ["'self'"],
+            },
+          },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+
+  // better-auth: a body limit in front of it, the sign-in throttle, then its handler
+  const authJson = express.json({ limit: '64kb' });
+  app.use('/api/auth', authJson);
+  app.post('/api/auth/sign-in/email', signInThrottle());
+  app.all('/api/auth/{*any}', toNodeHandler(auth));
+
+  app.use('/api', express.json({ limit: config.jsonLimitBytes }));
+  app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
+  app.use('/api', originCheck([config.baseUrl, ...config.trustedOrigins]));
+  const api = express.Router();
+  routes.mount(api, database.db);
+  app.use('/api', api);
+  app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
+    next(new AppError('not_found', `There is no API route ${req.method} ${req.path}. The routes are listed at /api/openapi.json.`)),
+  );
+
+  if (deps.beforeClient) await deps.beforeClient(app);
+  const serveClient = deps.serveClient ?? existsSync(path.join(DIST_DIR, 'index.html'));
+  if (serveClient) {
+    app.use(express.static(DIST_DIR, { index: false, maxAge: '1h', setHeaders: (res, p) => {
+      if (p.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+    } }));
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(DIST_DIR, 'index.html')));
+  }
+
+  app.use(errorHandler(log));
+  return { app, auth, routes, ctx };
+}
+
+export function errorHandler(log: Logger): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    let e: AppError;
+    if (err instanceof AppError) e = err;
+    else if (err?.type === 'entity.too.large') e = new AppError('payload_too_large', `The request body is larger than the limit of ${err.limit} bytes.`);
+    else if (err?.type === 'entity.parse.failed') e = new AppError('bad_request', `The request body is not valid JSON (${String(err.message).slice(0, 160)}). Send a JSON document with Content-Type: application/json.`);
+    else if (err?.type === 'encoding.unsupported' || err?.type === 'charset.unsupported') e = new AppError('unsupported_media_type', 'Unsupported content encoding or charset; send UTF-8 JSON without compression.');
+    else if (err?.type === 'request.aborted') e = new AppError('bad_request', 'The request was aborted by the client.');
+    else if (typeof err?.status === 'number' && err.status >= 400 && err.status < 500) e = new AppError('bad_request', String(err.message ?? 'Bad request').slice(0, 200));
+    else {
+      log.error('unhandled', { id: req.requestId, path: req.path, error: String(err?.message ?? err), stack: String(err?.stack ?? '').split('\n').slice(0, 6).join(' | ') });
+      e = new AppError('internal', `Something went wrong on our side. Quote request id ${req.requestId} if you report it.`);
+    }
+    if (e.code === 'unauthenticated' || e.code === 'forbidden') {
+      log.warn('authz.denied', { id: req.requestId, method: req.method, path: req.path, code: e.code, actor: req.actor?.kind === 'user' ? req.actor.user.id : req.actor?.kind ?? 'visitor' });
+    }
+    if (res.headersSent) return;
+    for (const [k, v] of Object.entries(e.headers)) res.setHeader(k, v);
+    res.status(e.status).json({ error: { code: e.code, message: e.message, problems: e.problems, requestId: req.requestId } });
+  };
+}

@@ -1,0 +1,89 @@
+/**
+ * Boots a complete server process: lock, database, migrations, fake SMTP, mailer, seed, app, HTTP
+ * listener and clean shutdown. Used by server/index.ts (npm start / npm run dev) and by tests that
+ * start real child processes.
+ */
+import http from 'node:http';
+import path from 'node:path';
+import type { Config } from './config';
+import { openDatabase, type Database } from './db/client';
+import { applyMigrations } from './db/migrate';
+import { lockDataDir, type DirLock } from './db/lock';
+import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { createMailer, type Mailer } from './mail/mailer';
+import { createApp } from './app';
+import { createLogger, type Logger } from './log';
+import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './db/seed';
+
+export interface Running {
+  url: string;
+  config: Config;
+  database: Database;
+  log: Logger;
+  server: http.Server;
+  smtp?: FakeSmtp;
+  stop(): Promise<void>;
+}
+
+export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolean } = {}): Promise<Running> {
+  const log = createLogger(config.logLevel);
+  let lock: DirLock | undefined;
+  if (!config.databaseUrl) lock = await lockDataDir(config.dataDir);
+  const database = await openDatabase({ databaseUrl: config.databaseUrl, dataDir: config.databaseUrl ? undefined : path.join(config.dataDir, 'pglite') });
+  await applyMigrations(database);
+
+  let smtp: FakeSmtp | undefined;
+  let mailer: Mailer;
+  if (config.smtpUrl) {
+    mailer = createMailer({ url: config.smtpUrl, from: config.mailFrom });
+  } else {
+    smtp = await startFakeSmtp(database.db, config.fakeSmtpPort).catch(() => startFakeSmtp(database.db, 0));
+    mailer = createMailer({ port: smtp.port, from: config.mailFrom });
+  }
+
+  const server = http.createServer();
+  const { app, ctx } = await createApp({
+    database, mailer, config, log,
+    beforeClient: opts.dev
+      ? async (a) => {
+          const { createServer } = await import('vite');
+          const vite = await createServer({ server: { middlewareMode: true, ws: { server } }, appType: 'spa' });
+          a.use(vite.middlewares);
+        }
+      : undefined,
+  });
+  server.on('request', app);
+
+  let seeded = false;
+  if (config.seedDemo) seeded = await seedDemo(ctx);
+
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(config.port, config.host, () => resolve());
+  });
+  const addr = server.address();
+  const port = typeof addr === 'object' && addr ? addr.port : config.port;
+  const url = config.baseUrl.includes(`:${config.port}`) && config.port === 0 ? `http://localhost:${port}` : config.baseUrl;
+  if (!opts.quiet) {
+    console.log(`\nParallax is running at ${url}  (database: ${database.kind} ${database.location}${smtp ? `, fake mail on port ${smtp.port}` : ''})`);
+    if (config.seedDemo) {
+      console.log(seeded ? 'Demo scenario seeded. Demo accounts:' : 'Demo accounts:');
+      for (const a of DEMO_ACCOUNTS) console.log(`  ${a.role.padEnd(10)} ${a.email.padEnd(30)} ${DEMO_PASSWORD}   (${a.name}${a.team ? `, ${a.team}` : ''})`);
+    }
+  }
+
+  let stopping: Promise<void> | undefined;
+  const stop = () =>
+    (stopping ??= (async () => {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeIdleConnections?.();
+        setTimeout(() => server.closeAllConnections?.(), 10_000).unref();
+      });
+      mailer.close();
+      await smtp?.close();
+      await database.close();
+      await lock?.release();
+    })());
+  return { url, config, database, log, server, smtp, stop };
+}

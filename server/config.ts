@@ -1,0 +1,75 @@
+/** Every setting the server reads, from the environment, in one place (README lists them). */
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+
+export interface ScryptCost { N: number; r: number; p: number }
+
+export interface Config {
+  port: number;
+  host: string;
+  /** public origin of the app, used in e-mail links and the origin check */
+  baseUrl: string;
+  dataDir: string;
+  databaseUrl?: string;
+  /** when set, mail goes to this SMTP server instead of the in-process fake */
+  smtpUrl?: string;
+  /** port of the in-process fake SMTP server (0 = any free port) */
+  fakeSmtpPort: number;
+  mailFrom: string;
+  authSecret: string;
+  /** scrypt cost for passwords: N = 2^15, r = 8, p = 3 meets OWASP ASVS 5.0 level 2 */
+  passwordHash: ScryptCost;
+  /** absolute session lifetime in seconds, however active the session is */
+  sessionMaxAgeSec: number;
+  /** number of reverse proxies in front of the app (Express 'trust proxy' hop count) */
+  trustProxyHops: number;
+  /** the maximum JSON body for any route, auth routes included */
+  jsonLimitBytes: number;
+  /** maximum upload size for entry files */
+  uploadLimitBytes: number;
+  /** extra origins trusted for cookie-bearing writes (e.g. the Vite dev server) */
+  trustedOrigins: string[];
+  seedDemo: boolean;
+  logLevel: 'debug' | 'info' | 'warn' | 'error' | 'silent';
+  /** run reference jobs in this process */
+  runWorker: boolean;
+}
+
+export const ASVS_SCRYPT: ScryptCost = { N: 2 ** 15, r: 8, p: 3 };
+
+function secretFor(dataDir: string): string {
+  if (process.env.AUTH_SECRET) return process.env.AUTH_SECRET;
+  mkdirSync(dataDir, { recursive: true });
+  const f = path.join(dataDir, 'auth-secret');
+  if (existsSync(f)) return readFileSync(f, 'utf8').trim();
+  const s = randomBytes(32).toString('base64url');
+  writeFileSync(f, s, { mode: 0o600 });
+  return s;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const port = Number(env.PORT ?? 3000);
+  const host = env.HOST ?? '127.0.0.1';
+  const dataDir = path.resolve(env.DATA_DIR ?? './data');
+  return {
+    port,
+    host,
+    baseUrl: (env.BASE_URL ?? `http://localhost:${port}`).replace(/\/$/, ''),
+    dataDir,
+    databaseUrl: env.DATABASE_URL || undefined,
+    smtpUrl: env.SMTP_URL || undefined,
+    fakeSmtpPort: Number(env.FAKE_SMTP_PORT ?? 2525),
+    mailFrom: env.MAIL_FROM ?? 'Parallax <no-reply@parallax.localhost>',
+    authSecret: secretFor(dataDir),
+    passwordHash: ASVS_SCRYPT,
+    sessionMaxAgeSec: Number(env.SESSION_MAX_AGE_DAYS ?? 30) * 86400,
+    trustProxyHops: Number(env.TRUST_PROXY_HOPS ?? 0),
+    jsonLimitBytes: 1024 * 1024 * Number(env.JSON_LIMIT_MIB ?? 12),
+    uploadLimitBytes: 1024 * 1024 * Number(env.UPLOAD_LIMIT_MIB ?? 10),
+    trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
+    seedDemo: env.SEED_DEMO !== '0',
+    logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',
+    runWorker: env.RUN_WORKER !== '0',
+  };
+}

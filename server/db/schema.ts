@@ -1,0 +1,298 @@
+/**
+ * The database schema, in the product's vocabulary. Auth tables follow better-auth's model
+ * (core + admin + organization + api-key plugins); a Parallax "team" is a better-auth
+ * organization. Migrations are generated from this file by `npm run db:generate`.
+ */
+import { sql } from 'drizzle-orm';
+import {
+  bigserial, boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex, uuid,
+} from 'drizzle-orm/pg-core';
+
+const ts = (name: string) => timestamp(name, { withTimezone: true, mode: 'date' });
+const created = () => ts('created_at').notNull().defaultNow();
+
+// ---------------------------------------------------------------- auth (better-auth model)
+export const user = pgTable('user', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  email: text('email').notNull().unique(),
+  emailVerified: boolean('email_verified').notNull().default(false),
+  image: text('image'),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+  role: text('role'),
+  banned: boolean('banned').default(false),
+  banReason: text('ban_reason'),
+  banExpires: ts('ban_expires'),
+});
+
+export const session = pgTable('session', {
+  id: text('id').primaryKey(),
+  expiresAt: ts('expires_at').notNull(),
+  token: text('token').notNull().unique(),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+  ipAddress: text('ip_address'),
+  userAgent: text('user_agent'),
+  userId: text('user_id').notNull().references(() => user.id, { onDelete: 'cascade' }),
+  impersonatedBy: text('impersonated_by'),
+  activeOrganizationId: text('active_organization_id'),
+}, (t) => [index('session_user_idx').on(t.userId)]);
+
+export const account = pgTable('account', {
+  id: text('id').primaryKey(),
+  accountId: text('account_id').notNull(),
+  providerId: text('provider_id').notNull(),
+  userId: text('user_id').notNull().references(() => user.id, { onDelete: 'cascade' }),
+  accessToken: text('access_token'),
+  refreshToken: text('refresh_token'),
+  idToken: text('id_token'),
+  accessTokenExpiresAt: ts('access_token_expires_at'),
+  refreshTokenExpiresAt: ts('refresh_token_expires_at'),
+  scope: text('scope'),
+  password: text('password'),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+}, (t) => [index('account_user_idx').on(t.userId)]);
+
+export const verification = pgTable('verification', {
+  id: text('id').primaryKey(),
+  identifier: text('identifier').notNull(),
+  value: text('value').notNull(),
+  expiresAt: ts('expires_at').notNull(),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+}, (t) => [index('verification_identifier_idx').on(t.identifier)]);
+
+export const organization = pgTable('organization', {
+  id: text('id').primaryKey(),
+  name: text('name').notNull(),
+  slug: text('slug').notNull().unique(),
+  logo: text('logo'),
+  createdAt: created(),
+  metadata: text('metadata'),
+});
+
+export const member = pgTable('member', {
+  id: text('id').primaryKey(),
+  organizationId: text('organization_id').notNull().references(() => organization.id, { onDelete: 'cascade' }),
+  userId: text('user_id').notNull().references(() => user.id, { onDelete: 'cascade' }),
+  role: text('role').notNull().default('member'),
+  createdAt: created(),
+}, (t) => [index('member_org_idx').on(t.organizationId), index('member_user_idx').on(t.userId)]);
+
+export const invitation = pgTable('invitation', {
+  id: text('id').primaryKey(),
+  organizationId: text('organization_id').notNull().references(() => organization.id, { onDelete: 'cascade' }),
+  email: text('email').notNull(),
+  role: text('role'),
+  status: text('status').notNull().default('pending'),
+  expiresAt: ts('expires_at').notNull(),
+  inviterId: text('inviter_id').notNull().references(() => user.id, { onDelete: 'cascade' }),
+  createdAt: created(),
+}, (t) => [index('invitation_org_idx').on(t.organizationId), index('invitation_email_idx').on(t.email)]);
+
+export const apikey = pgTable('apikey', {
+  id: text('id').primaryKey(),
+  configId: text('config_id').notNull().default('default'),
+  name: text('name'),
+  start: text('start'),
+  referenceId: text('reference_id').notNull(),
+  prefix: text('prefix'),
+  key: text('key').notNull(),
+  refillInterval: integer('refill_interval'),
+  refillAmount: integer('refill_amount'),
+  lastRefillAt: ts('last_refill_at'),
+  enabled: boolean('enabled').default(true),
+  rateLimitEnabled: boolean('rate_limit_enabled').default(true),
+  rateLimitTimeWindow: integer('rate_limit_time_window'),
+  rateLimitMax: integer('rate_limit_max'),
+  requestCount: integer('request_count').default(0),
+  remaining: integer('remaining'),
+  lastRequest: ts('last_request'),
+  expiresAt: ts('expires_at'),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+  permissions: text('permissions'),
+  metadata: text('metadata'),
+}, (t) => [index('apikey_key_idx').on(t.key), index('apikey_reference_idx').on(t.referenceId), index('apikey_config_idx').on(t.configId)]);
+
+// ---------------------------------------------------------------- challenges
+/** A challenge family (the slug); its content lives in versions. */
+export const challenges = pgTable('challenges', {
+  slug: text('slug').primaryKey(),
+  title: text('title').notNull(),
+  summary: text('summary').notNull().default(''),
+  /** draft: no published version yet; open: accepting entries; closed: read-only */
+  state: text('state').notNull().default('draft'),
+  currentVersionId: uuid('current_version_id'),
+  /** moderator settings: estimator, primaryMetric, tracks, window, license */
+  settings: jsonb('settings').notNull().default(sql`'{}'::jsonb`),
+  createdBy: text('created_by'),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+});
+
+/** One immutable version of a challenge spec with its checksum. */
+export const challengeVersions = pgTable('challenge_versions', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  challengeSlug: text('challenge_slug').notNull().references(() => challenges.slug, { onDelete: 'cascade' }),
+  version: integer('version').notNull(),
+  checksum: text('checksum').notNull(),
+  spec: jsonb('spec').notNull(),
+  /** draft | published | superseded */
+  state: text('state').notNull().default('draft'),
+  supersededReason: text('superseded_reason'),
+  publishedAt: ts('published_at'),
+  createdAt: created(),
+}, (t) => [uniqueIndex('challenge_version_uq').on(t.challengeSlug, t.version), uniqueIndex('challenge_checksum_uq').on(t.checksum)]);
+
+export const instances = pgTable('instances', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  key: text('key').notNull(),
+  params: jsonb('params').notNull(),
+  qubits: integer('qubits').notNull(),
+  gateCount: integer('gate_count').notNull(),
+  depth: integer('depth').notNull(),
+}, (t) => [uniqueIndex('instance_key_uq').on(t.versionId, t.key)]);
+
+export const observables = pgTable('observables', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  key: text('key').notNull(),
+  spec: jsonb('spec').notNull(),
+  /** sum of |coef|: the physical bound on |<O>| */
+  bound: doublePrecision('bound').notNull(),
+}, (t) => [uniqueIndex('observable_key_uq').on(t.versionId, t.key)]);
+
+export const targets = pgTable('targets', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  key: text('key').notNull(),
+  instanceId: uuid('instance_id').notNull().references(() => instances.id, { onDelete: 'cascade' }),
+  observableId: uuid('observable_id').notNull().references(() => observables.id, { onDelete: 'cascade' }),
+  disputed: boolean('disputed').notNull().default(false),
+  disputeNote: text('dispute_note'),
+}, (t) => [uniqueIndex('target_key_uq').on(t.versionId, t.key)]);
+
+/** The exact value of a target with its provenance; sealed until a date for blind rounds. */
+export const references = pgTable('references', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  targetId: uuid('target_id').notNull().references(() => targets.id, { onDelete: 'cascade' }),
+  value: doublePrecision('value'),
+  uncertainty: doublePrecision('uncertainty').notNull().default(0),
+  /** pauli-propagation | light-cone-statevector | free-fermion | statevector | supplied | none */
+  method: text('method').notNull(),
+  /** what mattered for the cost: terms, light-cone qubits, ... */
+  size: jsonb('size').notNull().default(sql`'{}'::jsonb`),
+  wallMs: doublePrecision('wall_ms'),
+  engineVersion: text('engine_version'),
+  /** why no exact value exists, when value is null */
+  reason: text('reason'),
+  suppliedBy: text('supplied_by'),
+  sealedUntil: ts('sealed_until'),
+  createdAt: created(),
+}, (t) => [uniqueIndex('reference_target_uq').on(t.targetId)]);
+
+// ---------------------------------------------------------------- entries
+export const entries = pgTable('entries', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  challengeSlug: text('challenge_slug').notNull().references(() => challenges.slug),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id),
+  teamId: text('team_id').notNull().references(() => organization.id),
+  createdBy: text('created_by'),
+  /** draft | in-review | published | returned | rejected | withdrawn | superseded */
+  state: text('state').notNull().default('draft'),
+  /** hardware | classical */
+  track: text('track').notNull(),
+  methodFamily: text('method_family').notNull(),
+  label: text('label').notNull(),
+  /** the submitted document's metadata (settings, resources, links, licence) */
+  document: jsonb('document').notNull(),
+  revision: integer('revision').notNull().default(1),
+  /** the first entry of the revision chain */
+  lineageId: uuid('lineage_id'),
+  supersedesId: uuid('supersedes_id'),
+  isBaseline: boolean('is_baseline').notNull().default(false),
+  featured: boolean('featured').notNull().default(false),
+  hiddenReason: text('hidden_reason'),
+  createdAt: created(),
+  updatedAt: ts('updated_at').notNull().defaultNow(),
+  submittedAt: ts('submitted_at'),
+  publishedAt: ts('published_at'),
+}, (t) => [index('entries_challenge_idx').on(t.challengeSlug, t.state), index('entries_team_idx').on(t.teamId)]);
+
+export const estimates = pgTable('estimates', {
+  id: bigserial('id', { mode: 'number' }).primaryKey(),
+  entryId: uuid('entry_id').notNull().references(() => entries.id, { onDelete: 'cascade' }),
+  targetKey: text('target_key').notNull(),
+  value: doublePrecision('value').notNull(),
+  uncertainty: doublePrecision('uncertainty').notNull(),
+  /** statistical | systematic | bound | none */
+  kind: text('kind').notNull(),
+  /** optional raw data: unmitigated value, per-noise-factor values, convergence trace */
+  raw: jsonb('raw'),
+}, (t) => [uniqueIndex('estimate_target_uq').on(t.entryId, t.targetKey)]);
+
+export const reviews = pgTable('reviews', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  entryId: uuid('entry_id').notNull().references(() => entries.id, { onDelete: 'cascade' }),
+  moderatorId: text('moderator_id'),
+  decision: text('decision').notNull(),
+  reason: text('reason').notNull(),
+  fromState: text('from_state').notNull(),
+  toState: text('to_state').notNull(),
+  createdAt: created(),
+}, (t) => [index('reviews_entry_idx').on(t.entryId)]);
+
+/** Append-only: a trigger in the migration forbids UPDATE and DELETE. */
+export const auditLog = pgTable('audit_log', {
+  id: bigserial('id', { mode: 'number' }).primaryKey(),
+  at: ts('at').notNull().defaultNow(),
+  actorId: text('actor_id'),
+  actorLabel: text('actor_label').notNull(),
+  action: text('action').notNull(),
+  subjectType: text('subject_type').notNull(),
+  subjectId: text('subject_id').notNull(),
+  details: jsonb('details').notNull().default(sql`'{}'::jsonb`),
+}, (t) => [index('audit_subject_idx').on(t.subjectType, t.subjectId)]);
+
+/** Background work (reference computation, standings). Claimed with FOR UPDATE SKIP LOCKED. */
+export const jobs = pgTable('jobs', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  kind: text('kind').notNull(),
+  payload: jsonb('payload').notNull(),
+  /** queued | running | done | failed */
+  state: text('state').notNull().default('queued'),
+  progress: doublePrecision('progress').notNull().default(0),
+  progressNote: text('progress_note'),
+  attempts: integer('attempts').notNull().default(0),
+  error: text('error'),
+  result: jsonb('result'),
+  lockedBy: text('locked_by'),
+  lockedAt: ts('locked_at'),
+  createdAt: created(),
+  startedAt: ts('started_at'),
+  finishedAt: ts('finished_at'),
+}, (t) => [index('jobs_state_idx').on(t.state, t.createdAt)]);
+
+/** Cached standings per challenge version (recomputed off the request path). */
+export const standings = pgTable('standings', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  computedAt: ts('computed_at').notNull().defaultNow(),
+  engineVersion: text('engine_version').notNull(),
+  payload: jsonb('payload').notNull(),
+}, (t) => [index('standings_version_idx').on(t.versionId, t.computedAt)]);
+
+/** Messages received by the in-process fake SMTP server (the outbox page reads them). */
+export const mailMessages = pgTable('mail_messages', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  receivedAt: ts('received_at').notNull().defaultNow(),
+  from: text('from').notNull(),
+  to: text('to').notNull(),
+  subject: text('subject').notNull(),
+  text: text('text').notNull(),
+  html: text('html'),
+}, (t) => [index('mail_to_idx').on(t.to)]);

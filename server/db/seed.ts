@@ -1,0 +1,67 @@
+/**
+ * The demo scenario, seeded on first start into an empty database. EVERYTHING HERE IS INVENTED:
+ * the teams, people, challenges and (later) their numbers are made up for the demo and describe
+ * no real group, device or experiment.
+ */
+import { randomUUID } from 'node:crypto';
+import { count, eq, inArray } from 'drizzle-orm';
+import type { AppContext } from '../app';
+import { challenges, member, organization, user } from './schema';
+import { recordAudit } from '../services/record-audit';
+
+export const DEMO_PASSWORD = 'parallax-demo-2026';
+
+export interface DemoAccount { email: string; name: string; role: 'admin' | 'moderator' | 'lead' | 'member'; team?: string }
+
+export const DEMO_TEAMS = [
+  { slug: 'cobalt-qubit-lab', name: 'Cobalt Qubit Lab', track: 'hardware', description: 'An invented hardware group running error-mitigated kicked-Ising circuits on a fictional 156-qubit device.' },
+  { slug: 'lattice-ledger', name: 'Lattice Ledger', track: 'classical', description: 'An invented tensor-network group (belief-propagation-gauged PEPS and MPS).' },
+  { slug: 'heisenberg-sprint', name: 'Heisenberg Sprint', track: 'classical', description: 'An invented Pauli-propagation group with a sparse-string engine.' },
+] as const;
+
+export const DEMO_ACCOUNTS: DemoAccount[] = [
+  { email: 'admin@parallax.test', name: 'Ada Quist', role: 'admin' },
+  { email: 'moderator@parallax.test', name: 'Mara Okonjo', role: 'moderator' },
+  { email: 'ines@cobalt.test', name: 'Ines Marlow', role: 'lead', team: 'Cobalt Qubit Lab' },
+  { email: 'tomas@cobalt.test', name: 'Tomas Reyes', role: 'member', team: 'Cobalt Qubit Lab' },
+  { email: 'priya@ledger.test', name: 'Priya Anand', role: 'lead', team: 'Lattice Ledger' },
+  { email: 'jonas@sprint.test', name: 'Jonas Wirth', role: 'lead', team: 'Heisenberg Sprint' },
+];
+
+/** Invented challenges: sizes and observables chosen for the demo, not taken from any experiment. */
+export const DEMO_CHALLENGES = [
+  { slug: 'kicked-chain-60', title: 'Kicked Ising chain, 60 sites', summary: 'Open chain of 60 qubits, up to 12 Trotter steps, single-site and mean magnetisation. Exact everywhere by free fermions: a calibration ground for every method.' },
+  { slug: 'hex-patch-3x3', title: 'Heavy-hex patch 3 x 3, deep quench', summary: 'A 3 x 3 heavy-hex patch, up to 16 Trotter steps, with weight-1 and weight-3 observables. Exact at Clifford points and inside small light cones only.' },
+  { slug: 'square-7x7-echo', title: 'Square lattice 7 x 7, Z correlators', summary: 'A 7 x 7 square lattice, up to 8 steps; nearest-neighbour ZZ correlators where exact values run out early.' },
+];
+
+export async function seedDemo(ctx: AppContext): Promise<boolean> {
+  const { db } = ctx;
+  const [{ n }] = await db.select({ n: count() }).from(user);
+  if (Number(n) > 0) return false;
+
+  for (const a of DEMO_ACCOUNTS) {
+    await ctx.auth.api.signUpEmail({ body: { email: a.email, password: DEMO_PASSWORD, name: a.name } });
+  }
+  await db.transaction(async (tx) => {
+    const emails = DEMO_ACCOUNTS.map((a) => a.email);
+    await tx.update(user).set({ emailVerified: true }).where(inArray(user.email, emails));
+    const users = await tx.select({ id: user.id, email: user.email }).from(user).where(inArray(user.email, emails));
+    const idOf = new Map(users.map((u) => [u.email, u.id]));
+    for (const a of DEMO_ACCOUNTS) {
+      if (a.role === 'admin' || a.role === 'moderator') await tx.update(user).set({ role: a.role }).where(eq(user.email, a.email));
+    }
+    for (const t of DEMO_TEAMS) {
+      const id = randomUUID();
+      await tx.insert(organization).values({ id, name: t.name, slug: t.slug, metadata: JSON.stringify({ track: t.track, description: t.description }) });
+      for (const a of DEMO_ACCOUNTS.filter((x) => x.team === t.name)) {
+        await tx.insert(member).values({ id: randomUUID(), organizationId: id, userId: idOf.get(a.email)!, role: a.role === 'lead' ? 'owner' : 'member' });
+      }
+    }
+    for (const c of DEMO_CHALLENGES) {
+      await tx.insert(challenges).values({ ...c, state: 'open', settings: { estimator: 'random-effects-dl', primaryMetric: 'rmse-verifiable', tracks: ['hardware', 'classical'], license: 'CC-BY-4.0' } });
+    }
+    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: 'demo.seed', subjectType: 'site', subjectId: 'demo', details: { teams: DEMO_TEAMS.length, accounts: DEMO_ACCOUNTS.length } });
+  });
+  return true;
+}
