@@ -290,8 +290,10 @@ function describeAjvError(e: ErrorObject): ChallengeError {
     case 'exclusiveMinimum':
     case 'exclusiveMaximum':
       return { path, message: `${field} must be ${String(p.comparison)} ${String(p.limit)}` };
-    case 'uniqueItems':
-      return { path: `${path}/${String(p.i)}`, message: `${field} items ${String(p.j)} and ${String(p.i)} are identical; remove the duplicate` };
+    case 'uniqueItems': {
+      const [lo, hi] = [Number(p.i), Number(p.j)].sort((a, b) => a - b);
+      return { path: `${path}/${hi}`, message: `${field} items ${lo} and ${hi} are identical; remove the duplicate` };
+    }
     case 'oneOf':
       if (/^\/observables\/\d+$/.test(path)) {
         return { path, message: `${field} must have exactly one of "pauli" (a single Pauli string) or "terms" (a weighted sum), not both and not neither` };
