@@ -95,7 +95,7 @@ export function consensus(estimates: readonly Measurement[], estimator: Consensu
       };
     }
     case 'largest-consistent-subset': {
-      const l = largestConsistentSubset(estimates, { alpha, exhaustiveLimit: options.exhaustiveLimit });
+      const l = largestConsistentSubset(estimates, { alpha, exhaustiveLimit: options.exhaustiveLimit, full });
       const N = partitionByUncertainty(estimates).weighted.length;
       const tooFew = N >= 2 && l.subset.length < Math.max(2, Math.ceil(N / 2));
       return {

@@ -86,6 +86,17 @@ export interface ExactScore {
   intervalScore: number;
 }
 
+const quantileCache = new Map<number, number>();
+/** z_{1 - alpha/2}, cached per alpha (the quantile is the costly part of a score). */
+function centralQuantile(alpha: number): number {
+  let q = quantileCache.get(alpha);
+  if (q === undefined) {
+    q = normalQuantile(1 - alpha / 2);
+    quantileCache.set(alpha, q);
+  }
+  return q;
+}
+
 /** Score one estimate against one reference. */
 export function scoreAgainstReference(est: Measurement, ref: Reference, options: ExactScoreOptions = {}): ExactScore {
   const k = options.coverageFactor ?? 2;
@@ -97,7 +108,7 @@ export function scoreAgainstReference(est: Measurement, ref: Reference, options:
   const z = zScore(x, u, r);
   const hasRefU = ref.uncertainty !== undefined;
   const ur = ref.uncertainty ?? 0;
-  const q = normalQuantile(1 - alpha / 2);
+  const q = centralQuantile(alpha);
   return {
     error,
     absError: Math.abs(error),

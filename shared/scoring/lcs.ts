@@ -18,6 +18,8 @@ import type { ConsistencyTest, Measurement } from './types';
 export interface LcsOptions {
   alpha?: number;
   exhaustiveLimit?: number;
+  /** weightedMean(xs) already computed by the caller (saves one pass). */
+  full?: WeightedMeanResult;
 }
 
 export interface LcsResult {
@@ -35,7 +37,7 @@ export interface LcsResult {
 export function largestConsistentSubset(xs: readonly Measurement[], options: LcsOptions = {}): LcsResult {
   const alpha = options.alpha ?? DEFAULT_ALPHA;
   const limit = options.exhaustiveLimit ?? 20;
-  const full = weightedMean(xs, { alpha });
+  const full = options.full ?? weightedMean(xs, { alpha });
   const usable = partitionByUncertainty(xs).weighted;
   const n = usable.length;
   if (full.test.consistent || n <= 1) {

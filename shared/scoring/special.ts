@@ -6,6 +6,17 @@
  */
 import { gammaln } from 'simple-statistics';
 
+const lnGammaCache = new Map<number, number>();
+/** ln Gamma(a), memoised: the arguments here are almost always nu/2 or 1/2. */
+function lnGamma(a: number): number {
+  let v = lnGammaCache.get(a);
+  if (v === undefined) {
+    v = gammaln(a);
+    if (lnGammaCache.size < 4096) lnGammaCache.set(a, v);
+  }
+  return v;
+}
+
 const EPS = 1e-16;
 const TINY = 1e-300;
 const MAX_ITER = 100_000;
@@ -21,7 +32,7 @@ function gammaPSeries(a: number, x: number): number {
     sum += del;
     if (Math.abs(del) < Math.abs(sum) * EPS) break;
   }
-  return sum * Math.exp(-x + a * Math.log(x) - gammaln(a));
+  return sum * Math.exp(-x + a * Math.log(x) - lnGamma(a));
 }
 
 /** Continued fraction (modified Lentz) for Q(a, x), valid for x >= a + 1. */
@@ -42,7 +53,7 @@ function gammaQContinuedFraction(a: number, x: number): number {
     h *= del;
     if (Math.abs(del - 1) < EPS) break;
   }
-  return Math.exp(-x + a * Math.log(x) - gammaln(a)) * h;
+  return Math.exp(-x + a * Math.log(x) - lnGamma(a)) * h;
 }
 
 /** Regularised lower incomplete gamma P(a, x) = gamma(a, x) / Gamma(a), a > 0, x >= 0. */

@@ -52,6 +52,12 @@ export interface WeightedMeanResult {
   excluded: number[];
 }
 
+function complementOf(n: number, inIdx: Set<number> | null): number[] {
+  const out: number[] = [];
+  if (inIdx) for (let i = 0; i < n; i++) if (!inIdx.has(i)) out.push(i);
+  return out;
+}
+
 /** Chi2 of a set of results about a given value y, with an optional extra variance tau2. */
 export function chi2About(xs: readonly Measurement[], idx: readonly number[], y: number, tau2 = 0): number {
   let c = 0;
@@ -71,7 +77,7 @@ export function weightedMean(xs: readonly Measurement[], options: { alpha?: numb
     const s = new Set(options.subset);
     idx = idx.filter((i) => s.has(i));
   }
-  const inIdx = new Set(idx);
+  const inIdx = idx.length === xs.length ? null : new Set(idx);
   if (idx.length === 0) {
     // Fallback: no weights available.
     let pool = part.zeroU;
@@ -116,6 +122,6 @@ export function weightedMean(xs: readonly Measurement[], options: { alpha?: numb
     scaledUncertainty: rb > 1 ? rb * uy : uy,
     test,
     included: idx.slice(),
-    excluded: xs.map((_, i) => i).filter((i) => !inIdx.has(i)),
+    excluded: complementOf(xs.length, inIdx),
   };
 }
