@@ -44,12 +44,20 @@ describe('worked ZNE example (direct evaluation)', () => {
   it('free-asymptote exponential goes through three points exactly', () => {
     const r = exponentialFreeAsymptoteFit(worked);
     expect(r.ok).toBe(true);
-    // direct evaluation: a + b e^{-k c} through the three points: with q = e^{-k},
-    // q = (0.52 - 0.65)/(0.65 - 0.8) = 13/15, b(q - 1)q... E0 = 0.8 + 0.15/(1 - q) * ... closed form below
+    // direct evaluation: E_c = a + b q^c with q = e^{-k} through the three points:
+    // q = (E3 - E2)/(E2 - E1) = 13/15, b = (E2 - E1)/(q^2 - q), a = E1 - b q, E0 = a + b
     const q = 13 / 15;
     const b = (0.65 - 0.8) / (q * q - q);
     const a = 0.8 - b * q;
     expectRel(r.value, a + b, 1e-8);
+  });
+  it('exponential uncertainty is propagated through the log', () => {
+    const r = exponentialFit(worked, { weighting: 'unweighted' });
+    // direct evaluation: unweighted intercept coefficients at c = 1, 2, 3 are (4/3, 1/3, -2/3);
+    // u(ln A)^2 = sum a_j^2 (u_j/E_j)^2 and u(A) = A u(ln A)
+    const a = [4 / 3, 1 / 3, -2 / 3];
+    const uLnA = Math.sqrt(a.reduce((s, aj, j) => s + (aj * 0.01 / worked[j].value) ** 2, 0));
+    expectRel(r.uncertainty, 0.9948452693 * uLnA, 1e-6);
   });
   it('rejects non-positive or sign-changing data with a reason; all-negative data are fitted', () => {
     const z = exponentialFit([{ scale: 1, value: 0.5, uncertainty: 0.01 }, { scale: 2, value: 0, uncertainty: 0.01 }]);
