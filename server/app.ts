@@ -100,7 +100,7 @@ export async function createApp(deps: AppDeps) {
   // better-auth: a body limit in front of it, the sign-in throttle, then its handler
   const authJson = express.json({ limit: '64kb' });
   app.use('/api/auth', authJson);
-  app.post('/api/auth/sign-in/email', signInThrottle());
+  app.post('/api/auth/sign-in/email', signInThrottle({ ...config.signInThrottle, now: () => now().getTime() }));
   app.all('/api/auth/{*any}', toNodeHandler(auth));
 
   app.use('/api', express.json({ limit: config.jsonLimitBytes }));

@@ -89,10 +89,12 @@ export function createAuth({ db, config, mailer, log }: AuthDeps) {
       window: 60,
       max: 300,
       customRules: {
-        // sign-in failures are throttled by our own limiter (server/middleware/sign-in-throttle.ts)
-        '/sign-up/email': { window: 60, max: 10 },
-        '/request-password-reset': { window: 60, max: 5 },
-        '/send-verification-email': { window: 60, max: 5 },
+        // sign-in failures are throttled by our own limiter (server/middleware/sign-in-throttle.ts),
+        // which counts failures only, per address and per e-mail
+        '/sign-in/email': false,
+        '/sign-up/email': { window: 60, max: config.authRateLimits.signUpPerMinute },
+        '/request-password-reset': { window: 60, max: config.authRateLimits.mailPerMinute },
+        '/send-verification-email': { window: 60, max: config.authRateLimits.mailPerMinute },
       },
     },
     advanced: {

@@ -32,6 +32,10 @@ export interface Config {
   trustedOrigins: string[];
   seedDemo: boolean;
   logLevel: 'debug' | 'info' | 'warn' | 'error' | 'silent';
+  /** failed sign-ins allowed per client address or e-mail within the window before 429 */
+  signInThrottle: { windowMs: number; maxFailures: number };
+  /** better-auth's own per-address limits per minute: sign-up, reset and verification requests */
+  authRateLimits: { signUpPerMinute: number; mailPerMinute: number };
   /** run reference jobs in this process */
   runWorker: boolean;
 }
@@ -70,6 +74,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
     logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',
+    signInThrottle: { windowMs: 10_000, maxFailures: 3 },
+    authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
     runWorker: env.RUN_WORKER !== '0',
   };
 }

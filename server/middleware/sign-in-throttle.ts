@@ -9,7 +9,7 @@ import { AppError } from '../errors';
 
 export interface ThrottleOptions { windowMs: number; maxFailures: number; now: () => number }
 
-export function signInThrottle(opts: ThrottleOptions = { windowMs: 10_000, maxFailures: 3, now: Date.now }) {
+export function signInThrottle(opts: ThrottleOptions) {
   const failures = new Map<string, number[]>();
   const recent = (k: string, t: number) => (failures.get(k) ?? []).filter((x) => t - x < opts.windowMs);
   return (req: Request, res: Response, next: NextFunction) => {

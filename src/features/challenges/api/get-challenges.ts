@@ -1,0 +1,18 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+
+export type ChallengeState = 'draft' | 'open' | 'closed' | 'archived' | string;
+export interface ChallengeSummary {
+  slug: string;
+  title: string;
+  summary: string;
+  state: ChallengeState;
+  updatedAt: string;
+}
+
+export const getChallenges = (signal?: AbortSignal) => api.get<{ challenges: ChallengeSummary[] }>('/challenges', { signal });
+
+export const getChallengesQueryOptions = () =>
+  queryOptions({ queryKey: ['challenges'], queryFn: ({ signal }) => getChallenges(signal) });
+
+export const useChallenges = () => useQuery(getChallengesQueryOptions());

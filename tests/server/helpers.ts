@@ -1,0 +1,126 @@
+/**
+ * A fresh app on a fresh database for each test file: PGlite from the migrated template (or a
+ * fresh schema on the PostgreSQL server named by TEST_DATABASE_URL), a real fake-SMTP server on a
+ * free port, a real mailer, an injectable clock. Password hashing uses a lower scrypt cost here;
+ * tests/server/password.test.ts checks the production cost separately.
+ */
+import { readFileSync } from 'node:fs';
+import { inject } from 'vitest';
+import request from 'supertest';
+import { desc, eq, sql } from 'drizzle-orm';
+import { openDatabase, type Database } from '../../server/db/client';
+import { applyMigrations } from '../../server/db/migrate';
+import { createApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import { startFakeSmtp } from '../../server/mail/fake-smtp';
+import { createMailer } from '../../server/mail/mailer';
+import { createLogger } from '../../server/log';
+import { mailMessages, user } from '../../server/db/schema';
+
+export const ORIGIN = 'http://parallax.test';
+export const TEST_PASSWORD = 'correct-horse-battery-9';
+
+export interface TestApp {
+  app: import('express').Express;
+  ctx: Awaited<ReturnType<typeof createApp>>['ctx'];
+  routes: Awaited<ReturnType<typeof createApp>>['routes'];
+  database: Database;
+  config: Config;
+  logs: string[];
+  clock: { now: Date; advance(ms: number): void };
+  close(): Promise<void>;
+}
+
+let schemaCounter = 0;
+
+async function openTestDatabase(): Promise<Database> {
+  const url = inject('databaseUrl');
+  if (url) {
+    // one schema per test app on the real PostgreSQL server
+    const name = `t_${process.pid}_${Date.now()}_${schemaCounter++}`;
+    const admin = await openDatabase({ databaseUrl: url });
+    await admin.db.execute(sql.raw(`create schema ${name}`));
+    await admin.close();
+    const u = new URL(url);
+    u.searchParams.set('options', `-c search_path=${name}`);
+    const database = await openDatabase({ databaseUrl: u.toString() });
+    await applyMigrations(database);
+    return database;
+  }
+  const blob = new Blob([readFileSync(inject('pgliteTemplate'))]);
+  return openDatabase({ loadDataDir: blob });
+}
+
+export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
+  const database = await openTestDatabase();
+  const smtp = await startFakeSmtp(database.db, 0);
+  const config: Config = {
+    ...loadConfig({ DATA_DIR: '/tmp/parallax-test-unused', AUTH_SECRET: 'test-secret-test-secret-test-secret-0123' }),
+    baseUrl: ORIGIN,
+    passwordHash: { N: 2 ** 10, r: 8, p: 1 },
+    seedDemo: false,
+    runWorker: false,
+    logLevel: 'info',
+    // flows here sign in many users from one address; tests/server/reliability.test.ts checks the real limit
+    signInThrottle: { windowMs: 10_000, maxFailures: 1000 },
+    authRateLimits: { signUpPerMinute: 1000, mailPerMinute: 1000 },
+    ...overrides,
+  };
+  const mailer = createMailer({ port: smtp.port, from: config.mailFrom });
+  const logs: string[] = [];
+  const log = createLogger('info', (l) => logs.push(l));
+  const clock = { now: new Date(), advance(ms: number) { this.now = new Date(this.now.getTime() + ms); } };
+  const { app, ctx, routes } = await createApp({ database, mailer, config, log, now: () => clock.now, serveClient: false });
+  return {
+    app, ctx, routes, database, config, logs, clock,
+    async close() {
+      mailer.close();
+      await smtp.close();
+      await database.close();
+    },
+  };
+}
+
+/** The newest message to an address, or throws. */
+export async function lastMailTo(t: TestApp, to: string) {
+  const rows = await t.database.db.select().from(mailMessages).where(eq(mailMessages.to, to)).orderBy(desc(mailMessages.receivedAt)).limit(1);
+  if (!rows.length) throw new Error(`no mail to ${to}`);
+  return rows[0];
+}
+
+export function linkIn(text: string): string {
+  const m = text.match(/https?:\/\/\S+/);
+  if (!m) throw new Error(`no link in: ${text}`);
+  return m[0];
+}
+
+/** A supertest agent that keeps cookies and sends our Origin on every request. */
+export function agent(t: TestApp) {
+  const a = request.agent(t.app);
+  return {
+    raw: a,
+    get: (p: string) => a.get(p).set('Origin', ORIGIN),
+    post: (p: string, body?: object) => a.post(p).set('Origin', ORIGIN).send(body ?? {}),
+    put: (p: string, body?: object) => a.put(p).set('Origin', ORIGIN).send(body ?? {}),
+    patch: (p: string, body?: object) => a.patch(p).set('Origin', ORIGIN).send(body ?? {}),
+    delete: (p: string) => a.delete(p).set('Origin', ORIGIN),
+  };
+}
+export type Agent = ReturnType<typeof agent>;
+
+/** Signs up through the API, follows the verification link from the fake mail server, signs in. */
+export async function signUpVerified(t: TestApp, email: string, name = email.split('@')[0]): Promise<Agent> {
+  const a = agent(t);
+  const r = await a.post('/api/auth/sign-up/email', { email, password: TEST_PASSWORD, name, callbackURL: '/verified' });
+  if (r.status !== 200) throw new Error(`sign-up ${r.status} ${r.text}`);
+  const link = new URL(linkIn((await lastMailTo(t, email)).text));
+  const v = await a.get(link.pathname + link.search);
+  if (v.status >= 400) throw new Error(`verify ${v.status} ${v.text}`);
+  const s = await a.post('/api/auth/sign-in/email', { email, password: TEST_PASSWORD });
+  if (s.status !== 200) throw new Error(`sign-in ${s.status} ${s.text}`);
+  return a;
+}
+
+export async function setRole(t: TestApp, email: string, role: 'user' | 'moderator' | 'admin') {
+  await t.database.db.update(user).set({ role }).where(eq(user.email, email));
+}
