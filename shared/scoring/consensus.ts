@@ -4,8 +4,10 @@
  * Estimators (a moderator's choice per challenge; DEFAULT_ESTIMATOR when none is chosen):
  * - 'weighted-mean': Cox 2002 procedure A.
  * - 'random-effects-dl' / 'random-effects-pm': DerSimonian-Laird / Paule-Mandel random effects.
- * - 'largest-consistent-subset': Cox 2007 (weighted mean of the LCS). The default: it equals the
- *   weighted mean whenever the full set is consistent and drops discrepant results otherwise.
+ * - 'largest-consistent-subset': Cox 2007 (weighted mean of the LCS): it equals the weighted mean
+ *   whenever the full set is consistent and drops discrepant results otherwise.
+ * The default is 'random-effects-dl' (the product brief's choice): it widens the uncertainty by
+ * the between-method spread tau^2 instead of discarding results.
  * - 'median': Cox 2002 procedure B (seeded Monte Carlo uncertainty).
  *
  * `test` is the chi-squared test of the included results about the returned value, under the
@@ -33,7 +35,7 @@ export type ConsensusEstimator = 'weighted-mean' | 'random-effects-dl' | 'random
 
 export const CONSENSUS_ESTIMATORS: readonly ConsensusEstimator[] = ['weighted-mean', 'random-effects-dl', 'random-effects-pm', 'largest-consistent-subset', 'median'];
 
-export const DEFAULT_ESTIMATOR: ConsensusEstimator = 'largest-consistent-subset';
+export const DEFAULT_ESTIMATOR: ConsensusEstimator = 'random-effects-dl';
 
 export interface ConsensusOptions {
   alpha?: number;

@@ -1,0 +1,79 @@
+/**
+ * Browser-test harness: a real server process on a fresh data directory (demo seed included) and
+ * Debian's chromium driven by playwright-core. Screenshots go to test-output/screenshots/.
+ */
+import { spawn, execFileSync } from 'node:child_process';
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+const root = fileURLToPath(new URL('../..', import.meta.url));
+export const SHOTS = path.join(root, 'test-output', 'screenshots');
+export const DEMO_PASSWORD = 'parallax-demo-2026';
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.once('error', reject);
+    s.listen(0, '127.0.0.1', () => {
+      const p = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(p));
+    });
+  });
+}
+
+export interface RunningServer { url: string; dataDir: string; output: () => string; stop(): Promise<void> }
+
+export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
+  const port = await freePort();
+  const dataDir = mkdtempSync(path.join(os.tmpdir(), 'parallax-e2e-'));
+  const url = `http://127.0.0.1:${port}`;
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    cwd: root,
+    env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', BASE_URL: url, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'warn', ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let out = '';
+  child.stdout.on('data', (d) => { out += d; });
+  child.stderr.on('data', (d) => { out += d; });
+  await new Promise<void>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`server did not start in 60 s:\n${out}`)), 60_000);
+    const check = () => { if (out.includes('Parallax is running at')) { clearTimeout(timer); resolve(); } };
+    child.stdout.on('data', check);
+    child.once('exit', (code) => { clearTimeout(timer); reject(new Error(`server exited ${code}:\n${out}`)); });
+  });
+  return {
+    url,
+    dataDir,
+    output: () => out,
+    stop: async () => {
+      if (child.exitCode === null) {
+        child.kill('SIGTERM');
+        await new Promise((r) => child.once('exit', r));
+      }
+      rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+export function chromiumPath(): string {
+  return execFileSync('bash', ['-c', 'command -v chromium'], { encoding: 'utf8' }).trim();
+}
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: chromiumPath(),
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export const DESKTOP = { width: 1280, height: 800 };
+export const PHONE = { width: 390, height: 844 };
+
+export async function shot(page: Page, name: string): Promise<void> {
+  mkdirSync(SHOTS, { recursive: true });
+  await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
+}
