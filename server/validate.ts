@@ -3,11 +3,13 @@ import type { z } from 'zod';
 import { invalid, type FieldProblem } from './errors';
 
 export function zodProblems(error: z.ZodError): FieldProblem[] {
-  return error.issues.slice(0, 50).map((i) => {
-    const pointer = '/' + i.path.map((p) => String(p).replace(/~/g, '~0').replace(/\//g, '~1')).join('/');
-    let message = i.message;
-    if (i.code === 'unrecognized_keys') message = `unknown field(s) ${i.keys.map((k) => `"${k}"`).join(', ')}: remove them`;
-    return { path: pointer === '/' ? '' : pointer, message };
+  const esc = (p: PropertyKey) => String(p).replace(/~/g, '~0').replace(/\//g, '~1');
+  return error.issues.slice(0, 50).flatMap((i) => {
+    const pointer = i.path.map((p) => '/' + esc(p)).join('');
+    if (i.code === 'unrecognized_keys') {
+      return i.keys.map((k) => ({ path: `${pointer}/${esc(k)}`, message: `unknown field "${k}": remove it` }));
+    }
+    return [{ path: pointer, message: i.message }];
   });
 }
 

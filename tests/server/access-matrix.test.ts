@@ -1,0 +1,100 @@
+/**
+ * The authorisation matrix (RELIABILITY.md item 13): every API route x every kind of caller has an
+ * expected status, written out below. A route added to the server without a row here fails the
+ * first test, so the table cannot fall behind the code.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { agent, lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, type Agent, type TestApp } from './helpers';
+
+type Caller = 'anon' | 'memberA' | 'leadA' | 'memberB' | 'moderator' | 'admin' | 'keyA';
+const CALLERS: Caller[] = ['anon', 'memberA', 'leadA', 'memberB', 'moderator', 'admin', 'keyA'];
+type Row = Record<Caller, number>;
+
+// row shapes, spelt out so each route's line says exactly who gets what
+const ALL_200: Row = { anon: 200, memberA: 200, leadA: 200, memberB: 200, moderator: 200, admin: 200, keyA: 200 };
+const LEAD_A = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: 403 });
+const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, memberB: 403, moderator: 403, admin: ok, keyA: 403 });
+
+interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string }
+
+const MATRIX: Record<string, Probe> = {
+  'GET /health': { row: ALL_200, path: () => '/api/health' },
+  'GET /me': { row: ALL_200, path: () => '/api/me' },
+  'GET /teams': { row: ALL_200, path: () => '/api/teams' },
+  'GET /teams/:teamId': { row: ALL_200, path: (i) => `/api/teams/${i.teamA}` },
+  'GET /teams/:teamId/invitations': { row: LEAD_A(200), path: (i) => `/api/teams/${i.teamA}/invitations` },
+  'GET /teams/:teamId/api-keys': { row: LEAD_A(200), path: (i) => `/api/teams/${i.teamA}/api-keys` },
+  'POST /teams/:teamId/api-keys': { row: LEAD_A(201), path: (i) => `/api/teams/${i.teamA}/api-keys`, body: () => ({ name: 'matrix' }) },
+  'DELETE /teams/:teamId/api-keys/:keyId': { row: LEAD_A(404), path: (i) => `/api/teams/${i.teamA}/api-keys/no-such-key` },
+  'GET /admin/users': { row: ADMIN(200), path: () => '/api/admin/users' },
+  'POST /admin/users/:userId/role': { row: ADMIN(200), path: (i) => `/api/admin/users/${i.memberBUserId}/role`, body: () => ({ role: 'user' }) },
+  'POST /admin/users/:userId/ban': { row: ADMIN(200), path: (i) => `/api/admin/users/${i.memberBUserId}/ban`, body: () => ({ banned: false }) },
+  'GET /admin/outbox': { row: ADMIN(200), path: () => '/api/admin/outbox' },
+  'GET /admin/outbox/:messageId': { row: ADMIN(200), path: (i) => `/api/admin/outbox/${i.messageId}` },
+  'GET /challenges': { row: ALL_200, path: () => '/api/challenges' },
+};
+
+let t: TestApp;
+const as: Partial<Record<Caller, Agent>> = {};
+let key = '';
+let ids: Ids;
+
+async function teamWithMember(lead: Agent, name: string, memberEmail: string) {
+  const teamId = (await lead.post('/api/auth/organization/create', { name, slug: name.toLowerCase().replace(/\W+/g, '-') })).body.id as string;
+  await lead.post('/api/auth/organization/invite-member', { email: memberEmail, role: 'member', organizationId: teamId });
+  const invitationId = new URL(linkIn((await lastMailTo(t, memberEmail)).text)).pathname.split('/').pop();
+  const m = await signUpVerified(t, memberEmail);
+  expect((await m.post('/api/auth/organization/accept-invitation', { invitationId })).status).toBe(200);
+  return { teamId, member: m };
+}
+
+beforeAll(async () => {
+  t = await makeTestApp();
+  as.leadA = await signUpVerified(t, 'lead-a@m.test');
+  const a = await teamWithMember(as.leadA, 'Team A', 'member-a@m.test');
+  as.memberA = a.member;
+  const leadB = await signUpVerified(t, 'lead-b@m.test');
+  const b = await teamWithMember(leadB, 'Team B', 'member-b@m.test');
+  as.memberB = b.member;
+  as.moderator = await signUpVerified(t, 'mod@m.test');
+  await setRole(t, 'mod@m.test', 'moderator');
+  as.admin = await signUpVerified(t, 'admin@m.test');
+  await setRole(t, 'admin@m.test', 'admin');
+  key = (await as.leadA.post(`/api/teams/${a.teamId}/api-keys`, { name: 'matrix key' })).body.key;
+  const users = (await as.admin.get('/api/admin/users')).body.users as { id: string; email: string }[];
+  const outbox = (await as.admin.get('/api/admin/outbox')).body.messages as { id: string }[];
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id };
+}, 120_000);
+afterAll(async () => { await t.close(); });
+
+describe('authorisation matrix', () => {
+  it('has a row for every route the server declares, and no stale rows', () => {
+    const declared = t.routes.defs.map((d) => `${d.method.toUpperCase()} ${d.path}`).sort();
+    expect(Object.keys(MATRIX).sort()).toEqual(declared);
+  });
+
+  for (const [route, probe] of Object.entries(MATRIX)) {
+    it(route, async () => {
+      const [method] = route.split(' ');
+      const got: Partial<Row> = {};
+      for (const c of CALLERS) {
+        const p = probe.path(ids);
+        const body = probe.body?.(ids);
+        let res;
+        if (c === 'anon' || c === 'keyA') {
+          const r = request(t.app)[method.toLowerCase() as 'get'](p).set('Origin', ORIGIN);
+          if (c === 'keyA') r.set('x-api-key', key);
+          res = body ? await r.send(body) : await r;
+        } else {
+          const a = as[c]!;
+          const m = method.toLowerCase() as 'get' | 'post' | 'delete';
+          res = m === 'get' ? await a.get(p) : m === 'delete' ? await a.delete(p) : await a.post(p, body);
+        }
+        got[c] = res.status;
+      }
+      expect(got).toEqual(probe.row);
+    });
+  }
+});
