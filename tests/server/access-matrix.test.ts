@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { agent, lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, type Agent, type TestApp } from './helpers';
+import { lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, type Agent, type TestApp } from './helpers';
 
 type Caller = 'anon' | 'memberA' | 'leadA' | 'memberB' | 'moderator' | 'admin' | 'keyA';
 const CALLERS: Caller[] = ['anon', 'memberA', 'leadA', 'memberB', 'moderator', 'admin', 'keyA'];
