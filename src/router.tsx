@@ -1,0 +1,49 @@
+import { createBrowserRouter } from 'react-router';
+import { AppShell } from '@/components/layout/app-shell';
+import { RouteError } from '@/routes/route-error';
+import * as home from '@/routes/home';
+import * as challenge from '@/routes/challenge';
+import * as signUp from '@/routes/sign-up';
+import * as signIn from '@/routes/sign-in';
+import * as verified from '@/routes/verified';
+import * as forgot from '@/routes/forgot-password';
+import * as reset from '@/routes/reset-password';
+import * as account from '@/routes/account';
+import * as teams from '@/routes/teams';
+import * as team from '@/routes/team';
+import * as invitation from '@/routes/invitation';
+import * as admin from '@/routes/admin';
+import * as outbox from '@/routes/admin-outbox';
+import * as outboxMessage from '@/routes/admin-outbox-message';
+import * as moderation from '@/routes/moderation';
+import * as notFound from '@/routes/not-found';
+
+export const router = createBrowserRouter([
+  {
+    element: <AppShell />,
+    errorElement: <RouteError />,
+    children: [
+      {
+        errorElement: <RouteError />,
+        children: [
+          { index: true, loader: home.loader, Component: home.Component },
+          { path: 'challenges/:slug', loader: challenge.loader, Component: challenge.Component },
+          { path: 'sign-up', Component: signUp.Component },
+          { path: 'sign-in', Component: signIn.Component },
+          { path: 'verified', Component: verified.Component },
+          { path: 'forgot-password', Component: forgot.Component },
+          { path: 'reset-password', Component: reset.Component },
+          { path: 'account', loader: account.loader, Component: account.Component },
+          { path: 'teams', loader: teams.loader, Component: teams.Component },
+          { path: 'teams/:teamId', loader: team.loader, Component: team.Component },
+          { path: 'invitations/:invitationId', Component: invitation.Component },
+          { path: 'moderation', loader: moderation.loader, Component: moderation.Component },
+          { path: 'admin', loader: admin.loader, Component: admin.Component },
+          { path: 'admin/outbox', loader: outbox.loader, Component: outbox.Component },
+          { path: 'admin/outbox/:messageId', loader: outboxMessage.loader, Component: outboxMessage.Component },
+          { path: '*', Component: notFound.Component },
+        ],
+      },
+    ],
+  },
+]);

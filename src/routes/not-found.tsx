@@ -1,0 +1,11 @@
+import { Link, useLocation } from 'react-router';
+import { EmptyState } from '@/components/ui';
+
+export function Component() {
+  const { pathname } = useLocation();
+  return (
+    <EmptyState title="There is no page here" className="mx-auto max-w-prose">
+      <p>Nothing lives at <code>{pathname}</code>. <Link to="/">Go to the challenges</Link> or <Link to="/teams">the teams</Link>.</p>
+    </EmptyState>
+  );
+}
