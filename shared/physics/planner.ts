@@ -1,0 +1,631 @@
+/**
+ * Reference planner: for every target, estimate the cost of each applicable exact method BEFORE
+ * running any, then pick the cheapest feasible one, or record in a plain sentence why no exact
+ * method is feasible.
+ *
+ * Methods and their cost models (estimates, not measurements; rates are stated constants):
+ * - pauli-propagation (exact, no truncation): a Clifford instance (every rotation angle a multiple
+ *   of pi/2) never branches, so it holds the observable's own term count at any size. Otherwise each
+ *   term can at most double at each non-Clifford rotation inside its light cone and can never exceed
+ *   the 4^c strings on its c cone qubits: terms <= sum over terms of min(2^k, 4^c). Accepted within
+ *   the term budget. Work ~ terms x gates in the cone at PROPAGATION_RATE term-gate updates/s.
+ * - light-cone-statevector: the observable's (support-based) light cone has c <= coneQubitLimit
+ *   qubits; work ~ 2^c amplitudes x gates in the cone at STATEVECTOR_RATE.
+ * - free-fermion: chain lattice, kicked-ising family, observable a sum of Z_j, X_j, Z_j Z_j+1
+ *   (free-fermion.ts decides); its own cost estimate.
+ * - statevector: the whole register, n <= statevectorQubitLimit.
+ *
+ * Light cones (PHYSICS.md): walking back from the support S, each whole RZZ block (all colour
+ * layers of one step: they commute) grows S to S plus its graph neighbours; RX layers add nothing;
+ * the last block grows only the X/Y sites (ZZ commutes with Z). So a Z site's cone is the graph
+ * ball of radius t - 1 and an X or Y site's has radius t. For the gates family the cone is the
+ * backward walk of light-cone.ts (which also drops diagonal gates on Z-only sites); the term
+ * bound there uses the plain support walk (a two-qubit gate touching S adds both qubits), a larger
+ * cone, so still an upper bound. The cones are exact restrictions (the gates left out commute
+ * with the evolved observable) and upper bounds on the true support. Cones are cached per (steps, support) so a 1,000-target plan takes milliseconds.
+ *
+ * No framework or node: imports.
+ */
+import type { CompiledCircuit, Gate, Layer, ObservableSpec, PauliTerm } from './circuit';
+import type { ValidatedChallenge } from './challenge';
+import { compileInstance, compileLattice, type CompiledLattice, type Instance, type Target } from './compile';
+import { freeFermionCost, freeFermionUnsupportedReason } from './free-fermion';
+import { lightCone } from './light-cone';
+import { cliffordQuarterTurns } from './pauli-propagation';
+
+export type ExactMethod = 'pauli-propagation' | 'free-fermion' | 'light-cone-statevector' | 'statevector';
+
+/** Preference order when estimated costs tie. */
+export const METHOD_ORDER: readonly ExactMethod[] = ['pauli-propagation', 'free-fermion', 'light-cone-statevector', 'statevector'];
+
+export interface PlannerOptions {
+  /** largest Pauli-term count accepted for exact propagation (default 1,000,000, ~100 MB) */
+  termBudget?: number;
+  /** largest light cone for the light-cone statevector (default 26 qubits = 1 GiB) */
+  coneQubitLimit?: number;
+  /** largest register for the full statevector (default 26) */
+  statevectorQubitLimit?: number;
+  /** largest estimated time per target in seconds (default 600) */
+  secondsBudget?: number;
+}
+
+/** Estimated throughputs of the engines in this repository (single core, JavaScript). */
+export const PROPAGATION_RATE = 1e7; // term-gate updates per second
+export const STATEVECTOR_RATE = 2e8; // amplitude-gate updates per second
+/** Fixed start-up cost per run (restriction, allocation): statevector methods, the others. */
+export const STATEVECTOR_OVERHEAD_S = 1e-3;
+export const OTHER_OVERHEAD_S = 1e-4;
+
+export const DEFAULT_PLANNER_OPTIONS: Required<PlannerOptions> = {
+  termBudget: 1_000_000,
+  coneQubitLimit: 26,
+  statevectorQubitLimit: 26,
+  secondsBudget: 600,
+};
+
+export interface MethodEstimate {
+  method: ExactMethod;
+  /** the method applies and its estimate is within every limit and the time budget */
+  feasible: boolean;
+  /** estimated size: Pauli terms, cone qubits, chain sites or register qubits (see unit) */
+  size: number;
+  unit: 'terms' | 'qubits' | 'sites';
+  /** estimated wall time in seconds (Infinity when not applicable) */
+  seconds: number;
+  /** why not feasible (absent when feasible) */
+  reason?: string;
+}
+
+export interface ConeStats {
+  /** qubits in the light cone */
+  qubits: number;
+  /** gates inside the cone (the restricted circuit's size) */
+  gates: number;
+  /** non-Clifford rotations inside the cone */
+  nonClifford: number;
+}
+
+export interface TargetPlan {
+  targetId: string;
+  instanceId: string;
+  observableId: string;
+  /** chosen method, or null when no exact method is feasible */
+  method: ExactMethod | null;
+  /** size of the chosen method's estimate (its unit in `unit`) */
+  size: number | null;
+  unit: MethodEstimate['unit'] | null;
+  estimatedSeconds: number | null;
+  /** plain sentence when method is null */
+  reason: string | null;
+  cone: ConeStats;
+  clifford: boolean;
+  /** every method's estimate, in METHOD_ORDER */
+  estimates: MethodEstimate[];
+}
+
+interface Csr {
+  n: number;
+  offsets: Int32Array;
+  nbrs: Int32Array;
+}
+
+function csr(n: number, edges: readonly (readonly [number, number])[]): Csr {
+  const deg = new Int32Array(n + 1);
+  for (const [a, b] of edges) {
+    deg[a + 1]++;
+    deg[b + 1]++;
+  }
+  for (let i = 0; i < n; i++) deg[i + 1] += deg[i];
+  const fill = deg.slice(0, n);
+  const nbrs = new Int32Array(2 * edges.length);
+  for (const [a, b] of edges) {
+    nbrs[fill[a]++] = b;
+    nbrs[fill[b]++] = a;
+  }
+  return { n, offsets: deg, nbrs };
+}
+
+/** Cone statistics with the Clifford split still open (counts per gate kind). */
+interface RawCone {
+  qubits: number;
+  rx: number;
+  rzz: number;
+  /** kicked-ising: backward blocks as (kind 0 = rzz / 1 = rx, gates in block, cone size after) */
+  blocks?: number[];
+  /** gates-family only */
+  gates?: number;
+  nonClifford?: number;
+  log2Terms?: number;
+  work?: number;
+}
+
+function isCliffordAngle(t: number): boolean {
+  return cliffordQuarterTurns(t) >= 0;
+}
+
+/** Is every rotation of the instance a multiple of pi/2? */
+export function isCliffordInstance(challenge: ValidatedChallenge, inst: Instance): boolean {
+  const c = challenge.spec.circuit;
+  if (c.family === 'kicked-ising' && inst.params.family === 'kicked-ising') {
+    return inst.params.steps === 0 || (isCliffordAngle(inst.params.thetaH) && isCliffordAngle(inst.params.thetaJ));
+  }
+  if (c.family === 'gates') return c.gates.every((g) => !g.params || g.params.every(isCliffordAngle));
+  return false;
+}
+
+function gateIsNonClifford(g: Gate): boolean {
+  return !!g.params && g.params.length > 0 && !isCliffordAngle(g.params[0]);
+}
+
+const log2Sum = (a: number, b: number) => (a === -Infinity ? b : b === -Infinity ? a : Math.max(a, b) + Math.log2(1 + 2 ** -Math.abs(a - b)));
+
+/**
+ * The planner for one validated challenge. Holds the lattice, the cone caches and (for the gates
+ * family) the compiled circuit; plan() is pure given its inputs.
+ */
+export class Planner {
+  readonly options: Required<PlannerOptions>;
+  readonly lattice: CompiledLattice;
+  private readonly graph: Csr;
+  private readonly mark: Int32Array;
+  private stamp = 0;
+  private readonly coneCache = new Map<string, RawCone>();
+  private readonly instances: Map<string, Instance>;
+  private readonly observables: Map<string, { spec: ObservableSpec; index: number }>;
+  private gatesCircuit: CompiledCircuit | null = null;
+
+  constructor(
+    readonly challenge: ValidatedChallenge,
+    options: PlannerOptions = {},
+  ) {
+    this.options = { ...DEFAULT_PLANNER_OPTIONS, ...options };
+    this.lattice = compileLattice(challenge.spec);
+    this.graph = csr(this.lattice.graph.n, this.lattice.graph.edges);
+    this.mark = new Int32Array(Math.max(challenge.nQubits, this.lattice.graph.n));
+    this.instances = new Map(challenge.instances.map((i) => [i.id, i]));
+    this.observables = new Map(challenge.observables.map((o, index) => [o.id, { spec: o, index }]));
+    if (challenge.spec.circuit.family === 'gates') this.gatesCircuit = compileInstance(challenge.spec, challenge.instances[0]);
+  }
+
+  instance(id: string): Instance {
+    const i = this.instances.get(id);
+    if (!i) throw new Error(`unknown instance ${id}`);
+    return i;
+  }
+
+  observable(id: string): ObservableSpec {
+    const o = this.observables.get(id);
+    if (!o) throw new Error(`unknown observable ${id}`);
+    return o.spec;
+  }
+
+  /** Plan every target of the challenge, in enumeration order. */
+  planAll(): TargetPlan[] {
+    return this.challenge.targets.map((t) => this.plan(t));
+  }
+
+  plan(target: Target): TargetPlan {
+    const inst = this.instance(target.instanceId);
+    const obs = this.observable(target.observableId);
+    const o = this.options;
+    const n = this.challenge.nQubits;
+    const clifford = isCliffordInstance(this.challenge, inst);
+    const union = this.coneStats(inst, obs.terms, `obs:${target.observableId}`);
+    const totalGates = this.totalGates(inst);
+    const estimates: MethodEstimate[] = [];
+
+    // Pauli propagation
+    {
+      let log2Terms: number;
+      let work: number;
+      if (clifford) {
+        log2Terms = Math.log2(Math.max(1, obs.terms.length));
+        work = obs.terms.length * Math.max(1, union.gates);
+      } else {
+        log2Terms = -Infinity;
+        work = 0;
+        for (const t of obs.terms) {
+          const b = this.termBound(inst, t);
+          log2Terms = log2Sum(log2Terms, b.log2Terms);
+          work += b.work;
+        }
+      }
+      const terms = 2 ** log2Terms;
+      const seconds = OTHER_OVERHEAD_S + work / PROPAGATION_RATE;
+      const size = Math.round(terms);
+      let reason: string | undefined;
+      if (terms > o.termBudget) {
+        reason = `Pauli propagation could need up to ${fmtPow2(log2Terms)} terms (budget ${fmtInt(o.termBudget)}) from ${fmtInt(union.nonClifford)} non-Clifford rotations in the light cone`;
+      } else if (seconds > o.secondsBudget) reason = `Pauli propagation would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+      estimates.push({ method: 'pauli-propagation', feasible: !reason, size, unit: 'terms', seconds, ...(reason ? { reason } : {}) });
+    }
+
+    // free-fermion
+    {
+      const spec = this.challenge.spec;
+      let reason: string | undefined;
+      let seconds = Infinity;
+      let size = 0;
+      if (spec.lattice.kind !== 'chain') reason = `free-fermion needs a chain (the lattice is ${article(spec.lattice.kind)})`;
+      else if (spec.circuit.family !== 'kicked-ising' || inst.params.family !== 'kicked-ising') reason = 'free-fermion needs the kicked-ising family';
+      else {
+        const why = freeFermionUnsupportedReason(n, obs);
+        if (why) reason = `free-fermion: ${why}`;
+        else {
+          const p = inst.params;
+          const cost = freeFermionCost({ n, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
+          if (!cost) reason = 'free-fermion: not supported for this instance';
+          else {
+            seconds = OTHER_OVERHEAD_S + cost.seconds;
+            size = Math.min(n, 2 * p.steps + 2);
+            if (seconds > o.secondsBudget) reason = `free-fermion would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+          }
+        }
+      }
+      estimates.push({ method: 'free-fermion', feasible: !reason, size, unit: 'sites', seconds, ...(reason ? { reason } : {}) });
+    }
+
+    // light-cone statevector
+    {
+      const c = union.qubits;
+      const seconds = c > o.coneQubitLimit ? Infinity : STATEVECTOR_OVERHEAD_S + (2 ** c * Math.max(1, union.gates + obs.terms.length)) / STATEVECTOR_RATE;
+      let reason: string | undefined;
+      if (c > o.coneQubitLimit) reason = `light cone has ${fmtInt(c)} qubits (limit ${o.coneQubitLimit})`;
+      else if (seconds > o.secondsBudget) reason = `light-cone statevector on ${c} qubits would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+      estimates.push({ method: 'light-cone-statevector', feasible: !reason, size: c, unit: 'qubits', seconds, ...(reason ? { reason } : {}) });
+    }
+
+    // full statevector
+    {
+      const seconds = n > o.statevectorQubitLimit ? Infinity : STATEVECTOR_OVERHEAD_S + (2 ** n * Math.max(1, totalGates + obs.terms.length)) / STATEVECTOR_RATE;
+      let reason: string | undefined;
+      if (n > o.statevectorQubitLimit) reason = `the register has ${fmtInt(n)} qubits (statevector limit ${o.statevectorQubitLimit})`;
+      else if (seconds > o.secondsBudget) reason = `statevector on ${n} qubits would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+      estimates.push({ method: 'statevector', feasible: !reason, size: n, unit: 'qubits', seconds, ...(reason ? { reason } : {}) });
+    }
+
+    let best: MethodEstimate | null = null;
+    for (const e of estimates) if (e.feasible && (!best || e.seconds < best.seconds)) best = e;
+    const cone: ConeStats = union;
+    if (best) {
+      return {
+        targetId: target.id, instanceId: inst.id, observableId: obs.id,
+        method: best.method, size: best.size, unit: best.unit, estimatedSeconds: best.seconds, reason: null,
+        cone, clifford, estimates,
+      };
+    }
+    return {
+      targetId: target.id, instanceId: inst.id, observableId: obs.id,
+      method: null, size: null, unit: null, estimatedSeconds: null,
+      reason: infeasibleSentence(estimates, union, clifford, o),
+      cone, clifford, estimates,
+    };
+  }
+
+  private totalGates(inst: Instance): number {
+    if (this.gatesCircuit) return this.gatesCircuit.gates.length;
+    if (inst.params.family !== 'kicked-ising') return 0;
+    return inst.params.steps * (this.lattice.graph.n + this.lattice.graph.edges.length);
+  }
+
+  /** Light-cone statistics of a set of terms (their union) in one instance. */
+  coneStats(inst: Instance, terms: readonly PauliTerm[], key: string): ConeStats {
+    if (this.gatesCircuit) {
+      const k = `G|${key}`;
+      let raw = this.coneCache.get(k);
+      if (!raw) {
+        const lc = lightCone(this.gatesCircuit, terms.flatMap((t) => t.factors));
+        raw = { qubits: lc.qubits.length, rx: 0, rzz: 0, gates: lc.keptGates.length, nonClifford: lc.nonCliffordRotations };
+        this.coneCache.set(k, raw);
+      }
+      return { qubits: raw.qubits, gates: raw.gates ?? 0, nonClifford: raw.nonClifford ?? 0 };
+    }
+    if (inst.params.family !== 'kicked-ising') throw new Error('instance family mismatch');
+    const { steps, thetaH, thetaJ } = inst.params;
+    const k = `k|${steps}|${key}`;
+    let raw = this.coneCache.get(k);
+    if (!raw) {
+      raw = this.kickedIsingCone(steps, terms, null);
+      this.coneCache.set(k, raw);
+    }
+    const nonClifford = (isCliffordAngle(thetaH) ? 0 : raw.rx) + (isCliffordAngle(thetaJ) ? 0 : raw.rzz);
+    return { qubits: raw.qubits, gates: raw.rx + raw.rzz, nonClifford: steps === 0 ? 0 : nonClifford };
+  }
+
+  /**
+   * Upper bound on the Pauli terms one term grows to, and on the term-gate updates, walking the
+   * cone backwards: each non-Clifford rotation at most doubles the count, which never exceeds the
+   * 4^c strings on the c qubits the cone has reached so far. Returns log2 of the final bound.
+   */
+  termBound(inst: Instance, term: PauliTerm): { log2Terms: number; work: number } {
+    const key = termKey(term);
+    if (this.gatesCircuit) {
+      const k = `g|${key}`;
+      let raw = this.coneCache.get(k);
+      if (!raw) {
+        raw = this.gatesCone(this.gatesCircuit, [term]);
+        this.coneCache.set(k, raw);
+      }
+      return { log2Terms: raw.log2Terms ?? 0, work: raw.work ?? 0 };
+    }
+    if (inst.params.family !== 'kicked-ising') throw new Error('instance family mismatch');
+    const { steps, thetaH, thetaJ } = inst.params;
+    const k = `k|${steps}|${key}`;
+    let raw = this.coneCache.get(k);
+    if (!raw) {
+      raw = this.kickedIsingCone(steps, [term], null);
+      this.coneCache.set(k, raw);
+    }
+    const hNon = !isCliffordAngle(thetaH);
+    const jNon = !isCliffordAngle(thetaJ);
+    const b = raw.blocks ?? [];
+    let log2T = 0;
+    let work = 0;
+    for (let i = 0; i < b.length; i += 3) {
+      const non = b[i] === 1 ? hNon : jNon;
+      if (non) log2T = Math.min(log2T + b[i + 1], 2 * b[i + 2]);
+      work += 2 ** log2T * b[i + 1];
+    }
+    return { log2Terms: log2T, work };
+  }
+
+  private nextStamp(): number {
+    if (++this.stamp >= 0x7fffffff) {
+      this.mark.fill(0);
+      this.stamp = 1;
+    }
+    return this.stamp;
+  }
+
+  /**
+   * Backward cone of `terms` through `steps` kicked-ising steps. With `collect`, also records the
+   * kept gates per step (for the restricted sub-circuit): rx qubits and rzz edge indices.
+   */
+  private kickedIsingCone(steps: number, terms: readonly PauliTerm[], collect: { rx: number[][]; rzz: number[][] } | null): RawCone {
+    const { offsets, nbrs } = this.graph;
+    const mark = this.mark;
+    const s = this.nextStamp();
+    const members: number[] = [];
+    const xy: number[] = [];
+    const xySet = new Set<number>();
+    for (const t of terms) {
+      for (const f of t.factors) {
+        if (f.op !== 'Z' && !xySet.has(f.qubit)) {
+          xySet.add(f.qubit);
+          xy.push(f.qubit);
+        }
+      }
+    }
+    let internal = 0;
+    const add = (v: number) => {
+      if (mark[v] === s) return;
+      for (let e = offsets[v]; e < offsets[v + 1]; e++) if (mark[nbrs[e]] === s) internal++;
+      mark[v] = s;
+      members.push(v);
+    };
+    for (const t of terms) for (const f of t.factors) add(f.qubit);
+    if (steps === 0) return { qubits: members.length, rx: 0, rzz: 0, blocks: [] };
+    let rx = 0;
+    let rzz = 0;
+    const blocks: number[] = [];
+    const edgesTouching = (set: readonly number[], inSet: (v: number) => boolean) => {
+      let deg = 0;
+      let inner = 0;
+      for (const v of set) {
+        deg += offsets[v + 1] - offsets[v];
+        for (let e = offsets[v]; e < offsets[v + 1]; e++) if (inSet(nbrs[e])) inner++;
+      }
+      return deg - inner / 2;
+    };
+    // last RZZ block: only edges at X/Y sites act
+    const last = edgesTouching(xy, (v) => xySet.has(v));
+    rzz += last;
+    if (collect) collect.rzz.push(this.edgesAt(xy, (v) => xySet.has(v)));
+    for (const v of xy) for (let e = offsets[v]; e < offsets[v + 1]; e++) add(nbrs[e]);
+    blocks.push(0, last, members.length);
+    let frontierStart = 0; // every member may still have neighbours outside
+    for (let step = steps; step >= 1; step--) {
+      rx += members.length;
+      blocks.push(1, members.length, members.length);
+      if (collect) collect.rx.push([...members]);
+      if (step === 1) break;
+      // RZZ block of step - 1: every edge touching the cone
+      let deg = 0;
+      for (const v of members) deg += offsets[v + 1] - offsets[v];
+      const blockEdges = deg - internal;
+      rzz += blockEdges;
+      if (collect) collect.rzz.push(this.edgesAt(members, (v) => mark[v] === s));
+      const end = members.length;
+      for (let i = frontierStart; i < end; i++) {
+        const v = members[i];
+        for (let e = offsets[v]; e < offsets[v + 1]; e++) add(nbrs[e]);
+      }
+      frontierStart = end;
+      if (members.length === this.graph.n) frontierStart = members.length;
+      blocks.push(0, blockEdges, members.length);
+    }
+    return { qubits: members.length, rx, rzz, blocks };
+  }
+
+  /** Indices (into lattice.graph.edges) of edges with an endpoint in `set`. */
+  private edgeIndex: Map<string, number> | null = null;
+  private edgesAt(set: readonly number[], inSet: (v: number) => boolean): number[] {
+    if (!this.edgeIndex) this.edgeIndex = new Map(this.lattice.graph.edges.map(([a, b], i) => [`${a},${b}`, i]));
+    const out: number[] = [];
+    const { offsets, nbrs } = this.graph;
+    for (const v of set) {
+      for (let e = offsets[v]; e < offsets[v + 1]; e++) {
+        const w = nbrs[e];
+        if (inSet(w) && w < v) continue; // counted from the smaller endpoint
+        out.push(this.edgeIndex.get(v < w ? `${v},${w}` : `${w},${v}`) as number);
+      }
+    }
+    return out;
+  }
+
+  /** Support-only backward walk (an upper bound on light-cone.ts's cone) with the term bound. */
+  private gatesCone(circ: CompiledCircuit, terms: readonly PauliTerm[]): RawCone {
+    const s = this.nextStamp();
+    const mark = this.mark;
+    let qubits = 0;
+    for (const t of terms) for (const f of t.factors) if (mark[f.qubit] !== s) (mark[f.qubit] = s, qubits++);
+    let gates = 0;
+    let nonClifford = 0;
+    let log2T = 0;
+    let work = 0;
+    for (let i = circ.gates.length - 1; i >= 0; i--) {
+      const g = circ.gates[i];
+      const q = g.qubits;
+      const touches = mark[q[0]] === s || (q.length === 2 && mark[q[1]] === s);
+      if (!touches) continue;
+      gates++;
+      for (const x of q) if (mark[x] !== s) (mark[x] = s, qubits++);
+      if (gateIsNonClifford(g)) {
+        nonClifford++;
+        log2T = Math.min(log2T + 1, 2 * qubits);
+      }
+      work += 2 ** log2T;
+    }
+    return { qubits, rx: 0, rzz: 0, gates, nonClifford, log2Terms: log2T, work };
+  }
+
+  /**
+   * The light-cone sub-circuit of an observable in an instance, on qubits re-indexed 0..k-1 (in
+   * increasing original order), with the observable re-indexed the same way. Exact: the gates left
+   * out commute with the Heisenberg-evolved observable.
+   */
+  restrict(inst: Instance, obs: ObservableSpec): { circuit: CompiledCircuit; observable: ObservableSpec; qubits: number[] } {
+    let gates: Gate[];
+    let used: number[];
+    if (this.gatesCircuit) {
+      // light-cone.ts: gate-by-gate backward walk that also drops diagonal gates on Z-only sites
+      const lc = lightCone(this.gatesCircuit, obs);
+      return { circuit: lc.circuit, observable: lc.observable as ObservableSpec, qubits: lc.qubits };
+    } else {
+      if (inst.params.family !== 'kicked-ising') throw new Error('instance family mismatch');
+      const { steps, thetaH, thetaJ } = inst.params;
+      const collect = { rx: [] as number[][], rzz: [] as number[][] };
+      this.kickedIsingCone(steps, obs.terms, collect);
+      // collect lists blocks backwards: rzz[0] is the last step's block, rx[0] the last RX layer
+      const edges = this.lattice.graph.edges;
+      const colourOf = this.colourOfEdge();
+      const set = new Set<number>();
+      for (const t of obs.terms) for (const f of t.factors) set.add(f.qubit);
+      gates = [];
+      for (let step = 1; step <= steps; step++) {
+        const rxq = [...collect.rx[steps - step]].sort((a, b) => a - b);
+        for (const q of rxq) (gates.push({ name: 'rx', qubits: [q], params: [thetaH] }), set.add(q));
+        const block = collect.rzz[steps - step] ?? [];
+        const byColour = new Map<number, number[]>();
+        for (const e of block) {
+          const c = colourOf[e];
+          if (!byColour.has(c)) byColour.set(c, []);
+          (byColour.get(c) as number[]).push(e);
+        }
+        for (const c of [...byColour.keys()].sort((a, b) => a - b)) {
+          for (const e of (byColour.get(c) as number[]).sort((a, b) => a - b)) {
+            const [a, b] = edges[e];
+            gates.push({ name: 'rzz', qubits: [a, b], params: [thetaJ] });
+            set.add(a);
+            set.add(b);
+          }
+        }
+      }
+      used = [...set];
+    }
+    used.sort((a, b) => a - b);
+    const index = new Map(used.map((q, i) => [q, i]));
+    const mapped: Gate[] = gates.map((g) => ({ ...g, qubits: g.qubits.map((q) => index.get(q) as number) }));
+    const observable: ObservableSpec = {
+      id: obs.id,
+      terms: obs.terms.map((t) => ({ coef: t.coef, factors: t.factors.map((f) => ({ qubit: index.get(f.qubit) as number, op: f.op })) })),
+    };
+    return { circuit: { nQubits: used.length, gates: mapped, layers: layersOf(mapped) }, observable, qubits: used };
+  }
+
+  private colour: Int32Array | null = null;
+  private colourOfEdge(): Int32Array {
+    if (!this.colour) {
+      const idx = new Map(this.lattice.graph.edges.map(([a, b], i) => [`${a},${b}`, i]));
+      this.colour = new Int32Array(this.lattice.graph.edges.length);
+      this.lattice.colourLayers.forEach((layer, c) => {
+        for (const [a, b] of layer) this.colour![idx.get(`${a},${b}`) as number] = c;
+      });
+    }
+    return this.colour;
+  }
+}
+
+/** Layers of a restricted gate list: runs of rx, then runs of rzz on disjoint qubits. */
+function layersOf(gates: readonly Gate[]): Layer[] {
+  const out: Layer[] = [];
+  let start = 0;
+  let busy = new Set<number>();
+  for (let i = 0; i <= gates.length; i++) {
+    const g = gates[i];
+    const prev = gates[i - 1];
+    const brk =
+      i === gates.length ||
+      (i > start && (g.name !== prev.name || g.qubits.some((q) => busy.has(q))));
+    if (brk && i > start) {
+      const name = prev.name;
+      out.push({ kind: name === 'rx' ? 'rx' : name === 'rzz' ? 'rzz' : 'generic', start, end: i });
+      start = i;
+      busy = new Set();
+    }
+    if (g) for (const q of g.qubits) busy.add(q);
+  }
+  return out;
+}
+
+function termKey(t: PauliTerm): string {
+  let s = '';
+  for (const f of t.factors) s += `${f.op === 'Z' ? 'z' : 'x'}${f.qubit},`;
+  return s;
+}
+
+function infeasibleSentence(est: MethodEstimate[], cone: ConeStats, clifford: boolean, o: Required<PlannerOptions>): string {
+  const by = (m: ExactMethod) => est.find((e) => e.method === m) as MethodEstimate;
+  const parts: string[] = [];
+  const lc = by('light-cone-statevector');
+  const pp = by('pauli-propagation');
+  if (cone.qubits > o.coneQubitLimit && !clifford) {
+    parts.push(`light cone has ${fmtInt(cone.qubits)} qubits (limit ${o.coneQubitLimit}) and ${fmtInt(cone.nonClifford)} non-Clifford rotations`);
+    if (pp.reason && !/non-Clifford rotations in the light cone$/.test(pp.reason)) parts.push(pp.reason);
+  } else {
+    if (lc.reason) parts.push(lc.reason);
+    if (pp.reason) parts.push(pp.reason);
+  }
+  const ff = by('free-fermion');
+  if (ff.reason) parts.push(/needs a chain/.test(ff.reason) ? 'not a chain' : ff.reason);
+  const sv = by('statevector');
+  if (sv.reason && !(cone.qubits > o.coneQubitLimit && /register has/.test(sv.reason))) parts.push(sv.reason);
+  return parts.join('; ');
+}
+
+function article(s: string): string {
+  return /^[aeiou]/.test(s) ? `an ${s}` : `a ${s}`;
+}
+
+export function fmtInt(x: number): string {
+  return Math.round(x).toLocaleString('en-US');
+}
+
+function fmtPow2(log2: number): string {
+  if (log2 <= 20) return fmtInt(2 ** log2);
+  return `2^${Math.round(log2)}`;
+}
+
+export function fmtSeconds(s: number): string {
+  if (!Number.isFinite(s)) return 'forever';
+  if (s < 1) return `${(s * 1000).toPrecision(2)} ms`;
+  if (s < 120) return `${s.toPrecision(2)} s`;
+  if (s < 7200) return `${(s / 60).toPrecision(2)} min`;
+  if (s < 3 * 86400) return `${(s / 3600).toPrecision(2)} h`;
+  return `${(s / 86400).toPrecision(2)} days`;
+}
+
+/** Plan every target of a validated challenge. */
+export function planChallenge(challenge: ValidatedChallenge, options: PlannerOptions = {}): TargetPlan[] {
+  return new Planner(challenge, options).planAll();
+}

@@ -1,0 +1,145 @@
+/**
+ * Exact reference values: run the method the planner chose for a target (falling back to the next
+ * feasible method by estimated cost if the first one fails, e.g. propagation outgrowing its term
+ * budget), and record its provenance: method, size, wall time, engine version.
+ *
+ * No framework or node: imports.
+ */
+import type { CompiledCircuit, ObservableSpec } from './circuit';
+import type { ValidatedChallenge } from './challenge';
+import { compileInstance, type Instance, type Target } from './compile';
+import { freeFermionExpectation } from './free-fermion';
+import { lightConeStatevectorValue } from './light-cone-statevector';
+import { propagate } from './pauli-propagation';
+import { Planner, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
+import { statevectorExpectation } from './statevector';
+
+export const ENGINE_VERSION = 'parallax-engine 0.1.0';
+
+export interface ReferenceValue {
+  value: number;
+  method: ExactMethod;
+  /** terms (propagation: peak terms held), cone qubits, chain sites or register qubits */
+  size: number;
+  unit: MethodEstimate['unit'];
+  wallMs: number;
+  engineVersion: string;
+}
+
+export interface ReferenceMissing {
+  value: null;
+  /** plain sentence: why no exact method is feasible or why every attempt failed */
+  reason: string;
+  engineVersion: string;
+}
+
+export type ReferenceResult = ReferenceValue | ReferenceMissing;
+
+export interface ReferenceOptions extends PlannerOptions {
+  /** progress of the running method, 0..1 */
+  onProgress?: (fraction: number) => void;
+}
+
+const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
+
+/** Computes references for the targets of one challenge; reuses the planner's cone caches. */
+export class ReferenceRunner {
+  readonly planner: Planner;
+  private circuits = new Map<string, CompiledCircuit>();
+
+  constructor(
+    readonly challenge: ValidatedChallenge,
+    private readonly options: ReferenceOptions = {},
+  ) {
+    this.planner = new Planner(challenge, options);
+  }
+
+  plan(target: Target): TargetPlan {
+    return this.planner.plan(target);
+  }
+
+  /** Plan (unless a plan is given) and compute one target. */
+  run(target: Target, plan: TargetPlan = this.planner.plan(target)): ReferenceResult {
+    const feasible = plan.estimates.filter((e) => e.feasible).sort((a, b) => a.seconds - b.seconds);
+    if (!feasible.length) return { value: null, reason: plan.reason ?? 'no exact method is feasible', engineVersion: ENGINE_VERSION };
+    const inst = this.planner.instance(target.instanceId);
+    const obs = this.planner.observable(target.observableId);
+    const failures: string[] = [];
+    for (const est of feasible) {
+      const t0 = now();
+      try {
+        const r = this.runMethod(est, inst, obs);
+        if (r.ok) {
+          return { value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION };
+        }
+        failures.push(`${est.method}: ${r.reason}`);
+      } catch (e) {
+        failures.push(`${est.method} failed: ${e instanceof Error ? e.message : String(e)}`);
+      }
+    }
+    return { value: null, reason: failures.join('; '), engineVersion: ENGINE_VERSION };
+  }
+
+  /** Run one named method regardless of cost (for cross-checks); null size on failure. */
+  runMethod(est: Pick<MethodEstimate, 'method'>, inst: Instance, obs: ObservableSpec): { ok: true; value: number; size: number } | { ok: false; reason: string } {
+    const progress = this.options.onProgress;
+    const identityOnly = obs.terms.every((t) => t.factors.length === 0);
+    if (identityOnly) {
+      let v = 0;
+      for (const t of obs.terms) v += t.coef;
+      return { ok: true, value: v, size: obs.terms.length };
+    }
+    switch (est.method) {
+      case 'pauli-propagation': {
+        const sub = this.planner.restrict(inst, obs);
+        const budget = this.planner.options.termBudget;
+        const r = propagate(sub.circuit, sub.observable, {
+          maxTerms: budget,
+          onProgress: progress ? (d, t) => progress(d / t) : undefined,
+        });
+        if (!r.exact) return { ok: false, reason: `outgrew the term budget of ${budget} terms (value not exact)` };
+        return { ok: true, value: r.value, size: r.peakTerms };
+      }
+      case 'free-fermion': {
+        if (inst.params.family !== 'kicked-ising') return { ok: false, reason: 'not a kicked-ising instance' };
+        if (this.challenge.spec.lattice.kind !== 'chain') return { ok: false, reason: 'not a chain' };
+        const p = inst.params;
+        const r = freeFermionExpectation({ n: this.challenge.nQubits, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
+        if (!r.ok) return { ok: false, reason: r.reason };
+        return { ok: true, value: r.value, size: Math.min(this.challenge.nQubits, 2 * p.steps + 2) };
+      }
+      case 'light-cone-statevector': {
+        const sub = this.planner.restrict(inst, obs);
+        const r = lightConeStatevectorValue(sub.circuit, sub.observable, {
+          maxQubits: this.planner.options.coneQubitLimit,
+          onProgress: progress ? (d, t) => progress(d / t) : undefined,
+        });
+        return { ok: true, value: r.value, size: sub.circuit.nQubits };
+      }
+      case 'statevector': {
+        const circ = this.circuit(inst);
+        const r = statevectorExpectation(circ, obs, {
+          maxQubits: this.planner.options.statevectorQubitLimit,
+          onProgress: progress ? (d, t) => progress(d / t) : undefined,
+        });
+        return { ok: true, value: r.value, size: circ.nQubits };
+      }
+    }
+  }
+
+  /** The full compiled circuit of an instance (cached). */
+  circuit(inst: Instance): CompiledCircuit {
+    let c = this.circuits.get(inst.id);
+    if (!c) {
+      c = compileInstance(this.challenge.spec, inst, this.planner.lattice);
+      if (this.circuits.size > 16) this.circuits.clear();
+      this.circuits.set(inst.id, c);
+    }
+    return c;
+  }
+}
+
+/** One-shot helper: plan and compute a single target. */
+export function computeReference(challenge: ValidatedChallenge, target: Target, options: ReferenceOptions = {}): ReferenceResult {
+  return new ReferenceRunner(challenge, options).run(target);
+}

@@ -1,0 +1,211 @@
+import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import type { CompiledCircuit, GateName } from '../../../shared/physics/circuit';
+import { loadChallenge, type ChallengeSpec, type GateJson } from '../../../shared/physics/challenge';
+import { compileInstance, compileLattice } from '../../../shared/physics/compile';
+import { graphBall, lightCone } from '../../../shared/physics/light-cone';
+import { Planner, planChallenge } from '../../../shared/physics/planner';
+import { ENGINE_VERSION, ReferenceRunner, type ReferenceValue } from '../../../shared/physics/reference';
+import { statevectorExpectation } from '../../../shared/physics/statevector';
+
+const HALF_PI = Math.PI / 2;
+const fixture = (name: string) => JSON.parse(readFileSync(`tests/fixtures/challenges/${name}.json`, 'utf8')) as ChallengeSpec;
+const ki = (lattice: ChallengeSpec['lattice'], steps: number[], thetaH: number[], observables: ChallengeSpec['observables'], thetaJ?: number) =>
+  loadChallenge({
+    id: 'test', version: 1, title: 'test', description: '', lattice,
+    circuit: { family: 'kicked-ising', steps, thetaH, ...(thetaJ === undefined ? {} : { thetaJ }) },
+    observables,
+  });
+const value = (r: ReturnType<ReferenceRunner['run']>): number => {
+  if (r.value === null) throw new Error(`no value: ${r.reason}`);
+  return r.value;
+};
+
+describe('planner choices', () => {
+  it('a chain picks free-fermion or Pauli propagation as the cheapest method', () => {
+    const c = ki({ kind: 'chain', n: 64 }, [2, 4, 8], [0.3, 0.785398, 1.2], [
+      { id: 'z32', pauli: 'Z32' }, { id: 'x10', pauli: 'X10' }, { id: 'zz', pauli: 'Z20 Z21' },
+      { id: 'mz', terms: Array.from({ length: 64 }, (_, i) => ({ coef: 1 / 64, pauli: `Z${i}` })) },
+    ]);
+    for (const p of planChallenge(c)) {
+      expect(['free-fermion', 'pauli-propagation'], p.targetId).toContain(p.method);
+      expect(p.reason).toBeNull();
+    }
+  });
+
+  it('the Clifford point of a 1000-qubit heavy-hex uses propagation, and PHYSICS.md values come out', () => {
+    // 13 x 14 cells: 5*13*14 + 4*13 + 4*14 - 1 = 1017 qubits
+    const c = ki({ kind: 'heavy-hex', rows: 13, cols: 14 }, [1, 3, 6], [0, HALF_PI, Math.PI], [
+      { id: 'z500', pauli: 'Z500' }, { id: 'z3', pauli: 'Z3' }, { id: 'x7z8', pauli: 'X7 Z8' },
+    ]);
+    expect(c.nQubits).toBe(1017);
+    const runner = new ReferenceRunner(c);
+    for (const t of c.targets) {
+      const p = runner.plan(t);
+      expect(p.clifford).toBe(true);
+      expect(p.method, p.targetId).toBe('pauli-propagation');
+      const r = runner.run(t, p) as ReferenceValue;
+      expect(r.method).toBe('pauli-propagation');
+      expect(r.engineVersion).toBe(ENGINE_VERSION);
+      const inst = runner.planner.instance(t.instanceId);
+      if (inst.params.family !== 'kicked-ising') throw new Error('family');
+      const { steps, thetaH } = inst.params;
+      // PHYSICS.md: thetaH = 0: Z strings 1, X/Y strings 0; thetaH = pi/2: <Z_q> = 0 (t >= 1),
+      // every Pauli value in {-1, 0, 1}; thetaH = pi: <Z_q> = (-1)^t.
+      if (t.observableId !== 'x7z8') {
+        if (thetaH === 0) expect(r.value).toBe(1);
+        if (thetaH === HALF_PI) expect(r.value).toBeCloseTo(0, 12);
+        if (thetaH === Math.PI) expect(r.value).toBeCloseTo((-1) ** steps, 12);
+      } else if (thetaH === 0) expect(r.value).toBe(0);
+      expect([-1, 0, 1].some((v) => Math.abs(r.value - v) < 1e-12)).toBe(true);
+      expect(r.size).toBe(1); // Clifford: one term all the way
+    }
+  });
+
+  it('a deep generic circuit on a 10 x 10 square grid is infeasible, with a reason', () => {
+    const gates: GateJson[] = [];
+    let seed = 3;
+    const rnd = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+    const lat = compileLattice({ lattice: { kind: 'square', rows: 10, cols: 10 } } as ChallengeSpec);
+    for (let layer = 0; layer < 20; layer++) {
+      for (let q = 0; q < 100; q++) gates.push({ name: (['rx', 'ry'] as GateName[])[layer % 2], qubits: [q], params: [0.1 + rnd()] });
+      for (const [a, b] of lat.colourLayers[layer % 4]) gates.push({ name: 'cz', qubits: [a, b] });
+    }
+    const c = loadChallenge({
+      id: 'deep', version: 1, title: 'deep', description: '', lattice: { kind: 'square', rows: 10, cols: 10 },
+      circuit: { family: 'gates', qubits: 100, gates }, observables: [{ id: 'z55', pauli: 'Z55' }],
+    });
+    const [p] = planChallenge(c);
+    expect(p.method).toBeNull();
+    expect(p.reason).toMatch(/^light cone has 100 qubits \(limit 26\) and \d[\d,]* non-Clifford rotations/);
+    expect(p.reason).toMatch(/not a chain/);
+    const r = new ReferenceRunner(c).run(c.targets[0], p);
+    expect(r.value).toBeNull();
+    if (r.value === null) expect(r.reason).toBe(p.reason);
+  });
+
+  it('deep kicked-ising on a large heavy-hex off the Clifford point is infeasible with a plain reason', () => {
+    const c = ki({ kind: 'heavy-hex', rows: 6, cols: 6 }, [20], [0.7], [{ id: 'z100', pauli: 'Z100' }]);
+    const [p] = planChallenge(c);
+    expect(p.method).toBeNull();
+    expect(p.reason).toMatch(/light cone has \d+ qubits \(limit 26\) and \d[\d,]* non-Clifford rotations.*; not a chain/);
+  });
+
+  it('plans a 1,000-target challenge (timing is in bench/planner.bench.ts)', () => {
+    const obs = Array.from({ length: 10 }, (_, i) => ({ id: `z${i * 97}`, pauli: `Z${i * 97}` }));
+    const c = ki({ kind: 'heavy-hex', rows: 13, cols: 14 }, [1, 2, 3, 4, 5, 6, 8, 10, 15, 20], [0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, HALF_PI], obs);
+    expect(c.targets.length).toBe(1000);
+    const plans = planChallenge(c);
+    expect(plans.length).toBe(1000);
+    expect(plans.filter((p) => p.method === 'pauli-propagation').length).toBeGreaterThan(0);
+    expect(plans.filter((p) => p.method === null).length).toBeGreaterThan(0);
+    for (const p of plans) expect(p.method !== null || (p.reason ?? '').length > 10).toBe(true);
+  });
+
+  it('cone sizes: Z site ball radius t - 1, X site radius t (PHYSICS.md); agrees with light-cone.ts', () => {
+    const c = ki({ kind: 'heavy-hex', rows: 3, cols: 3 }, [1, 2, 3, 4], [0.4], [{ id: 'z', pauli: 'Z20' }, { id: 'x', pauli: 'X20' }, { id: 'zx', pauli: 'Z5 X30' }]);
+    const planner = new Planner(c);
+    const g = planner.lattice.graph;
+    for (const t of c.targets) {
+      const inst = planner.instance(t.instanceId);
+      const obs = planner.observable(t.observableId);
+      const steps = inst.params.family === 'kicked-ising' ? inst.params.steps : 0;
+      const cone = planner.plan(t).cone;
+      const theirs = lightCone(compileInstance(c.spec, inst, planner.lattice), obs);
+      expect(cone.qubits, t.id).toBe(theirs.qubits.length);
+      expect(cone.gates, t.id).toBe(theirs.keptGates.length);
+      expect(cone.nonClifford, t.id).toBe(theirs.nonCliffordRotations); // thetaJ = -pi/2 is Clifford
+      const mine = planner.restrict(inst, obs);
+      expect(mine.qubits).toEqual(theirs.qubits);
+      if (t.observableId === 'z') expect(cone.qubits).toBe(graphBall(g.n, g.edges, [20], steps - 1).length);
+      if (t.observableId === 'x') expect(cone.qubits).toBe(graphBall(g.n, g.edges, [20], steps).length);
+    }
+  });
+});
+
+describe('cross-method checks', () => {
+  it('free-fermion equals exact Pauli propagation on a 64-site chain', () => {
+    const c = ki({ kind: 'chain', n: 64 }, [1, 2, 3, 4], [0.25, 0.8, 1.3], [
+      { id: 'z0', pauli: 'Z0' }, { id: 'z31', pauli: 'Z31' }, { id: 'x40', pauli: 'X40' }, { id: 'zz', pauli: 'Z10 Z11' }, { id: 'x63', pauli: 'X63' },
+      { id: 'mix', terms: [{ coef: 0.5, pauli: 'Z2' }, { coef: -0.25, pauli: 'X5' }, { coef: 2, pauli: 'Z7 Z8' }] },
+    ], -0.9);
+    const runner = new ReferenceRunner(c, { termBudget: 5_000_000 });
+    let checked = 0;
+    for (const t of c.targets) {
+      const inst = runner.planner.instance(t.instanceId);
+      const obs = runner.planner.observable(t.observableId);
+      const ff = runner.runMethod({ method: 'free-fermion' }, inst, obs);
+      const pp = runner.runMethod({ method: 'pauli-propagation' }, inst, obs);
+      if (!ff.ok || !pp.ok) throw new Error(`${t.id}: ${!ff.ok ? ff.reason : ''} ${!pp.ok ? pp.reason : ''}`);
+      expect(ff.value, t.id).toBeCloseTo(pp.value, 10);
+      checked++;
+    }
+    expect(checked).toBe(72);
+  });
+
+  it('light-cone statevector equals full statevector on small lattices', () => {
+    const lattices: ChallengeSpec['lattice'][] = [
+      { kind: 'chain', n: 10 }, { kind: 'ring', n: 9 }, { kind: 'square', rows: 3, cols: 3 }, { kind: 'heavy-hex', rows: 1, cols: 1 },
+      { kind: 'edges', n: 8, edges: [[0, 1], [1, 2], [2, 3], [3, 0], [4, 5], [5, 6], [6, 7], [1, 5]] },
+    ];
+    for (const lattice of lattices) {
+      const c = ki(lattice, [1, 2, 3], [0.4, 1.1], [
+        { id: 'z1', pauli: 'Z1' }, { id: 'x2', pauli: 'X2' }, { id: 'y0z3', pauli: 'Y0 Z3' },
+        { id: 'h', terms: [{ coef: 0.3, pauli: 'Z4' }, { coef: -0.7, pauli: 'X1 X2' }, { coef: 0.1, pauli: 'I' }] },
+      ], 0.6);
+      const runner = new ReferenceRunner(c);
+      for (const t of c.targets) {
+        const inst = runner.planner.instance(t.instanceId);
+        const obs = runner.planner.observable(t.observableId);
+        const lc = runner.runMethod({ method: 'light-cone-statevector' }, inst, obs);
+        const sv = runner.runMethod({ method: 'statevector' }, inst, obs);
+        if (!lc.ok || !sv.ok) throw new Error('method failed');
+        expect(lc.value, `${lattice.kind} ${t.id}`).toBeCloseTo(sv.value, 12);
+      }
+    }
+  });
+
+  it('gates family: every method agrees on the fixture, and the restriction matches the full circuit', () => {
+    const c = loadChallenge(fixture('gates-small'));
+    const runner = new ReferenceRunner(c);
+    for (const t of c.targets) {
+      const inst = runner.planner.instance(t.instanceId);
+      const obs = runner.planner.observable(t.observableId);
+      const full = statevectorExpectation(compileInstance(c.spec, inst), obs).value;
+      for (const m of ['pauli-propagation', 'light-cone-statevector', 'statevector'] as const) {
+        const r = runner.runMethod({ method: m }, inst, obs);
+        if (!r.ok) throw new Error(r.reason);
+        expect(r.value, `${t.id} ${m}`).toBeCloseTo(full, 12);
+      }
+      expect(value(runner.run(t))).toBeCloseTo(full, 12);
+    }
+  });
+
+  it('symmetry <P>(-thetaH) = (-1)^{#X+#Y} <P>(thetaH) holds for the references (PHYSICS.md)', () => {
+    const c = ki({ kind: 'heavy-hex', rows: 2, cols: 2 }, [2, 3], [0.5, -0.5], [{ id: 'x', pauli: 'X4' }, { id: 'yz', pauli: 'Y4 Z10' }, { id: 'z', pauli: 'Z12' }]);
+    const runner = new ReferenceRunner(c);
+    for (const steps of [2, 3]) {
+      for (const o of c.observables) {
+        const sign = (-1) ** o.terms[0].factors.filter((f) => f.op !== 'Z').length;
+        const plus = value(runner.run({ id: '', instanceId: `t${steps}-h0.500000`, observableId: o.id }));
+        const minus = value(runner.run({ id: '', instanceId: `t${steps}-h-0.500000`, observableId: o.id }));
+        expect(minus).toBeCloseTo(sign * plus, 12);
+      }
+    }
+  });
+});
+
+describe('reference fallbacks', () => {
+  it('falls back to the next method when propagation outgrows a tiny term budget', () => {
+    const c = ki({ kind: 'square', rows: 3, cols: 3 }, [3], [0.7], [{ id: 'z4', pauli: 'Z4' }], 0.3);
+    const runner = new ReferenceRunner(c, { termBudget: 4 });
+    const p = runner.plan(c.targets[0]);
+    expect(p.estimates.find((e) => e.method === 'pauli-propagation')!.feasible).toBe(false);
+    const forced = runner.runMethod({ method: 'pauli-propagation' }, runner.planner.instance(c.targets[0].instanceId), c.observables[0]);
+    expect(forced.ok).toBe(false);
+    const r = runner.run(c.targets[0]) as ReferenceValue;
+    expect(['light-cone-statevector', 'statevector']).toContain(r.method);
+    const circ: CompiledCircuit = compileInstance(c.spec, c.instances[0]);
+    expect(r.value).toBeCloseTo(statevectorExpectation(circ, c.observables[0]).value, 12);
+  });
+});
