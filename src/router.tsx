@@ -12,10 +12,6 @@ import * as account from '@/routes/account';
 import * as teams from '@/routes/teams';
 import * as team from '@/routes/team';
 import * as invitation from '@/routes/invitation';
-import * as admin from '@/routes/admin';
-import * as outbox from '@/routes/admin-outbox';
-import * as outboxMessage from '@/routes/admin-outbox-message';
-import * as moderation from '@/routes/moderation';
 import * as notFound from '@/routes/not-found';
 
 export const router = createBrowserRouter([
@@ -37,10 +33,11 @@ export const router = createBrowserRouter([
           { path: 'teams', loader: teams.loader, Component: teams.Component },
           { path: 'teams/:teamId', loader: team.loader, Component: team.Component },
           { path: 'invitations/:invitationId', Component: invitation.Component },
-          { path: 'moderation', loader: moderation.loader, Component: moderation.Component },
-          { path: 'admin', loader: admin.loader, Component: admin.Component },
-          { path: 'admin/outbox', loader: outbox.loader, Component: outbox.Component },
-          { path: 'admin/outbox/:messageId', loader: outboxMessage.loader, Component: outboxMessage.Component },
+          { path: 'moderation', lazy: () => import('@/routes/moderation') },
+          // admin pages (and @tanstack/react-table) load on first visit only
+          { path: 'admin', lazy: () => import('@/routes/admin') },
+          { path: 'admin/outbox', lazy: () => import('@/routes/admin-outbox') },
+          { path: 'admin/outbox/:messageId', lazy: () => import('@/routes/admin-outbox-message') },
           { path: '*', Component: notFound.Component },
         ],
       },

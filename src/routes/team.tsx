@@ -35,7 +35,7 @@ export function Component() {
         </div>
         {t.description && <p className="mt-2">{t.description}</p>}
       </PageHeader>
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+      <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <Panel title="Members" description={<span className="num">{t.members.length} {t.members.length === 1 ? 'person' : 'people'}</span>}>
           {t.members.length === 0 ? (
             <EmptyState title="No members">This team has no members.</EmptyState>

@@ -27,9 +27,9 @@ export function Component() {
           ) : q.data.teams.length === 0 ? (
             <EmptyState title="No teams yet">The first team to sign up will appear here.</EmptyState>
           ) : (
-            <ul className="divide-y divide-rule border-y border-rule" data-testid="team-list">
+            <ul className="divide-y divide-rule border-b border-rule" data-testid="team-list">
               {q.data.teams.map((t) => (
-                <li key={t.id} className="py-4">
+                <li key={t.id} className="py-4 first:pt-0">
                   <div className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
                     <h2 className="text-lg font-medium">
                       <Link to={`/teams/${t.id}`} className="no-underline hover:underline">{t.name}</Link>

@@ -33,9 +33,10 @@ export function AppShell() {
               <UserMenu user={user} teams={teams} />
             ) : (
               <>
-                <NavLink to={`/sign-in${next}`} className={cx(buttonClass('ghost', 'sm'), 'hidden sm:inline-flex')}>Sign in</NavLink>
-                <NavLink to={`/sign-in${next}`} className={cx(buttonClass('secondary', 'sm'), 'sm:hidden')}>Sign in</NavLink>
-                <NavLink to="/sign-up" className={cx(buttonClass('primary', 'sm'), 'hidden sm:inline-flex')}>Sign up</NavLink>
+                <NavLink to={`/sign-in${next}`} className={buttonClass('secondary', 'sm', 'sm:border-transparent sm:bg-transparent')}>Sign in</NavLink>
+                <span className="hidden sm:contents">
+                  <NavLink to="/sign-up" className={buttonClass('primary', 'sm')}>Sign up</NavLink>
+                </span>
               </>
             )}
           </div>

@@ -1,9 +1,11 @@
 import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import { cx } from './cx';
 
-export const inputClass = (invalid?: boolean, extra?: string) =>
+/** compact: a small inline control (table cells), sized by its content rather than the row */
+export const inputClass = (invalid?: boolean, extra?: string, compact = false) =>
   cx(
-    'block w-full rounded border bg-paper-raised px-3 py-2 text-base text-ink placeholder:text-ink-faint',
+    'block rounded border bg-paper-raised text-ink placeholder:text-ink-faint',
+    compact ? 'h-8 px-2 text-sm' : 'w-full px-3 py-2 text-base',
     'focus:outline-2 focus:outline-offset-0 focus:outline-focus',
     invalid ? 'border-danger' : 'border-rule-strong',
     extra,
@@ -49,7 +51,7 @@ export function Field({ label, hint, error, className, wrapperClassName, ...rest
   return (
     <FieldShell label={label} hint={hint} error={error} className={wrapperClassName}>
       {({ id, describedBy, invalid }) => (
-        <input id={id} aria-describedby={describedBy} aria-invalid={invalid || undefined} className={inputClass(invalid, className)} {...rest} />
+        <input id={id} aria-describedby={describedBy} aria-invalid={invalid || undefined} className={inputClass(invalid, cx('h-11', className))} {...rest} />
       )}
     </FieldShell>
   );
@@ -61,7 +63,7 @@ export function SelectField({ label, hint, error, className, wrapperClassName, c
   return (
     <FieldShell label={label} hint={hint} error={error} className={wrapperClassName}>
       {({ id, describedBy, invalid }) => (
-        <select id={id} aria-describedby={describedBy} aria-invalid={invalid || undefined} className={inputClass(invalid, cx('pr-8', className))} {...rest}>
+        <select id={id} aria-describedby={describedBy} aria-invalid={invalid || undefined} className={inputClass(invalid, cx('h-11 pr-8', className))} {...rest}>
           {children}
         </select>
       )}

@@ -37,7 +37,7 @@ function RoleCell({ u, selfId }: { u: AdminUser; selfId: string }) {
     <div>
       <select
         aria-label={`Role of ${u.name}`}
-        className={inputClass(false, 'h-8 w-32 py-0 text-sm')}
+        className={inputClass(false, 'w-32', true)}
         value={m.isPending ? m.variables.role : u.role}
         disabled={m.isPending || u.id === selfId}
         title={u.id === selfId ? 'You cannot change your own role' : undefined}

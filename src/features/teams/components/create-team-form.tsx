@@ -46,12 +46,12 @@ export function CreateTeamForm() {
       />
       <fieldset>
         <legend className="mb-1 text-sm font-medium">Track</legend>
-        <div className="grid gap-2 sm:grid-cols-2">
+        <div className="grid gap-2 sm:grid-cols-2 lg:grid-cols-1">
           {(['hardware', 'classical'] as const).map((t) => (
             <label
               key={t}
               className={cx(
-                'flex cursor-pointer items-center gap-2 rounded border px-3 py-2 text-sm',
+                'flex cursor-pointer items-center gap-2 rounded border px-3 py-2 text-sm has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-offset-2 has-[:focus-visible]:outline-focus',
                 track === t ? (t === 'hardware' ? 'border-hardware bg-hardware-soft' : 'border-classical bg-classical-soft') : 'border-rule-strong bg-paper-raised',
               )}
             >

@@ -12,15 +12,18 @@ export function InvitationsList({ teamId }: { teamId: string }) {
   return (
     <Table data-testid="invitations">
       <thead>
-        <tr><Th>E-mail</Th><Th>Role</Th><Th>Status</Th><Th num>Expires</Th></tr>
+        <tr><Th>E-mail</Th><Th className="hidden sm:table-cell">Role</Th><Th>Status</Th><Th num>Expires</Th></tr>
       </thead>
       <tbody>
         {q.data.invitations.map((i) => {
           const expired = i.status === 'pending' && new Date(i.expiresAt) < new Date();
           return (
             <tr key={i.id}>
-              <Td className="break-all">{i.email}</Td>
-              <Td>{i.role}</Td>
+              <Td className="[overflow-wrap:anywhere]">
+                {i.email}
+                <span className="block text-xs text-ink-soft sm:hidden">{i.role}</span>
+              </Td>
+              <Td className="hidden sm:table-cell">{i.role}</Td>
               <Td><Badge tone={expired ? 'neutral' : TONE[i.status] ?? 'neutral'}>{expired ? 'expired' : i.status}</Badge></Td>
               <Td num className="whitespace-nowrap">{formatDate(i.expiresAt)}</Td>
             </tr>
