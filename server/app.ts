@@ -42,6 +42,8 @@ export interface AppContext {
   config: Config;
   log: Logger;
   now: () => Date;
+  /** wakes the background worker after a job is queued (set by boot when a worker runs here) */
+  jobs: { kick(): void };
 }
 
 export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
@@ -50,7 +52,7 @@ export async function createApp(deps: AppDeps) {
   const now = deps.now ?? (() => new Date());
   const { config, log, database } = deps;
   const auth = createAuth({ db: database.db, config, mailer: deps.mailer, log });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now };
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now, jobs: { kick: () => {} } };
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 

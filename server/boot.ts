@@ -14,8 +14,10 @@ import { createMailer, type Mailer } from './mail/mailer';
 import { createApp } from './app';
 import { createLogger, type Logger } from './log';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './db/seed';
+import { startWorker, type Worker } from './jobs/worker';
 
 export interface Running {
+  worker?: Worker;
   url: string;
   config: Config;
   database: Database;
@@ -54,6 +56,14 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
   });
   server.on('request', app);
 
+  let worker: Worker | undefined;
+  if (config.runWorker) {
+    worker = await startWorker(database.db, log, {
+      recover: config.databaseUrl ? 10 * 60_000 : 'all',
+      planner: { secondsBudget: config.referenceBudget.secondsPerTarget, coneQubitLimit: config.referenceBudget.coneQubitLimit },
+    });
+    ctx.jobs.kick = () => worker!.kick();
+  }
   let seeded = false;
   if (config.seedDemo) seeded = await seedDemo(ctx);
 
@@ -80,10 +90,11 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
         server.closeIdleConnections?.();
         setTimeout(() => server.closeAllConnections?.(), 10_000).unref();
       });
+      await worker?.stop();
       mailer.close();
       await smtp?.close();
       await database.close();
       await lock?.release();
     })());
-  return { url, config, database, log, server, smtp, stop };
+  return { url, config, database, log, server, smtp, worker, stop };
 }

@@ -36,6 +36,8 @@ export interface Config {
   signInThrottle: { windowMs: number; maxFailures: number };
   /** better-auth's own per-address limits per minute: sign-up, reset and verification requests */
   authRateLimits: { signUpPerMinute: number; mailPerMinute: number };
+  /** exact-reference planner limits: estimated seconds per target, light-cone qubits */
+  referenceBudget: { secondsPerTarget: number; coneQubitLimit: number };
   /** run reference jobs in this process */
   runWorker: boolean;
 }
@@ -76,6 +78,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',
     signInThrottle: { windowMs: 10_000, maxFailures: 3 },
     authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
+    referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? 120), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? 26) },
     runWorker: env.RUN_WORKER !== '0',
   };
 }

@@ -6,7 +6,10 @@
 import { randomUUID } from 'node:crypto';
 import { count, eq, inArray } from 'drizzle-orm';
 import type { AppContext } from '../app';
-import { challenges, member, organization, user } from './schema';
+import { member, organization, user } from './schema';
+import { DEMO_SPECS } from './demo-challenges';
+import { createChallengeVersion } from '../services/create-challenge-version';
+import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { recordAudit } from '../services/record-audit';
 
 export const DEMO_PASSWORD = 'parallax-demo-2026';
@@ -28,12 +31,6 @@ export const DEMO_ACCOUNTS: DemoAccount[] = [
   { email: 'jonas@sprint.test', name: 'Jonas Wirth', role: 'lead', team: 'Heisenberg Sprint' },
 ];
 
-/** Invented challenges: sizes and observables chosen for the demo, not taken from any experiment. */
-export const DEMO_CHALLENGES = [
-  { slug: 'kicked-chain-60', title: 'Kicked Ising chain, 60 sites', summary: 'Open chain of 60 qubits, up to 12 Trotter steps, single-site and mean magnetisation. Exact everywhere by free fermions: a calibration ground for every method.' },
-  { slug: 'hex-patch-3x3', title: 'Heavy-hex patch 3 x 3, deep quench', summary: 'A 3 x 3 heavy-hex patch, up to 16 Trotter steps, with weight-1 and weight-3 observables. Exact at Clifford points and inside small light cones only.' },
-  { slug: 'square-7x7-echo', title: 'Square lattice 7 x 7, Z correlators', summary: 'A 7 x 7 square lattice, up to 8 steps; nearest-neighbour ZZ correlators where exact values run out early.' },
-];
 
 export async function seedDemo(ctx: AppContext): Promise<boolean> {
   const { db } = ctx;
@@ -58,10 +55,13 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
         await tx.insert(member).values({ id: randomUUID(), organizationId: id, userId: idOf.get(a.email)!, role: a.role === 'lead' ? 'owner' : 'member' });
       }
     }
-    for (const c of DEMO_CHALLENGES) {
-      await tx.insert(challenges).values({ ...c, state: 'open', settings: { estimator: 'random-effects-dl', primaryMetric: 'rmse-verifiable', tracks: ['hardware', 'classical'], license: 'CC-BY-4.0' } });
-    }
     await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: 'demo.seed', subjectType: 'site', subjectId: 'demo', details: { teams: DEMO_TEAMS.length, accounts: DEMO_ACCOUNTS.length } });
   });
+  const seedActor = { kind: 'system' as const, label: 'seed' };
+  for (const spec of DEMO_SPECS) {
+    await createChallengeVersion(db, spec, seedActor, ctx.now());
+    await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: ctx.now() });
+  }
+  ctx.jobs.kick();
   return true;
 }

@@ -1,16 +1,223 @@
-/** Public challenge catalogue (the full challenge pages come with the challenge engine). */
-import { asc, ne } from 'drizzle-orm';
+/**
+ * Challenges: the public catalogue and challenge data (spec, versions, instances, targets with
+ * their references, downloads), and the moderators' draft and publish actions.
+ */
+import { asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
+import multer from 'multer';
+import { z } from 'zod';
+import { buildLattice } from '@shared/physics/lattices';
+import { compileInstance } from '@shared/physics/compile';
+import { toQasm3 } from '@shared/physics/qasm';
+import { planChallenge } from '@shared/physics/planner';
+import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../app';
-import { challenges } from '../db/schema';
+import type { Db } from '../db/client';
+import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
+import { badRequest, notFound } from '../errors';
+import { createChallengeVersion, validateSpecOrThrow } from '../services/create-challenge-version';
+import { publishChallengeVersion } from '../services/publish-challenge-version';
+import { parseBody } from '../validate';
 import type { RouteTable } from './registry';
+import type { Request } from 'express';
+
+const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
+
+/** The challenge and the version asked for (?version=N, default the current one). Drafts are for moderators only. */
+export async function loadChallengeVersion(db: Db, req: Request) {
+  const slug = String(req.params.slug);
+  const [c] = await db.select().from(challenges).where(eq(challenges.slug, slug)).limit(1);
+  const mod = isModerator(req);
+  if (!c || (c.state === 'draft' && !mod)) throw notFound(`The challenge "${slug}"`);
+  const wanted = req.query.version ? Number(req.query.version) : null;
+  if (wanted !== null && !Number.isInteger(wanted)) throw badRequest('version must be a whole number, e.g. ?version=2');
+  const versions = await db.select().from(challengeVersions).where(eq(challengeVersions.challengeSlug, slug)).orderBy(desc(challengeVersions.version));
+  const visible = versions.filter((v) => v.state !== 'draft' || mod);
+  const v = wanted !== null ? visible.find((x) => x.version === wanted) : visible.find((x) => x.id === c.currentVersionId) ?? visible[0];
+  if (!v) throw notFound(wanted !== null ? `Version ${wanted} of "${slug}"` : `A version of "${slug}"`);
+  return { challenge: c, version: v, versions: visible };
+}
+
+const publishBody = z.object({ version: z.number().int().positive().optional(), reason: z.string().trim().max(2000).optional() }).strict();
+const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 10 * 1024 * 1024, files: 1, fields: 5, parts: 6 } });
+
+function specFromRequest(req: Request): unknown {
+  if (req.file) {
+    try {
+      return JSON.parse(req.file.buffer.toString('utf8'));
+    } catch (e) {
+      throw badRequest(`The uploaded file is not valid JSON (${(e as Error).message.slice(0, 120)}).`, [{ path: '', message: 'upload a JSON challenge spec (schemas/challenge.schema.json)' }]);
+    }
+  }
+  return req.body;
+}
 
 export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): void {
+  const { db } = ctx;
+
   routes.add({
-    method: 'get', path: '/challenges', access: 'public', summary: 'Published challenges: slug, title, summary, state',
-    handler: async () => {
-      const rows = await ctx.db.select({ slug: challenges.slug, title: challenges.title, summary: challenges.summary, state: challenges.state, updatedAt: challenges.updatedAt })
-        .from(challenges).where(ne(challenges.state, 'draft')).orderBy(asc(challenges.title));
-      return { challenges: rows };
+    method: 'get', path: '/challenges', access: 'public', summary: 'The catalogue: every published challenge with its size, depth range, targets, exact share and entries per track',
+    handler: async (req) => {
+      const rows = await db.select().from(challenges).where(isModerator(req) ? undefined : ne(challenges.state, 'draft')).orderBy(asc(challenges.title));
+      const versionIds = rows.map((r) => r.currentVersionId).filter((x): x is string => Boolean(x));
+      const versions = versionIds.length ? await db.select({ id: challengeVersions.id, version: challengeVersions.version, checksum: challengeVersions.checksum, spec: challengeVersions.spec, publishedAt: challengeVersions.publishedAt }).from(challengeVersions).where(inArray(challengeVersions.id, versionIds)) : [];
+      const tcounts = versionIds.length ? await db.select({ versionId: targets.versionId, n: count(), exact: sql<number>`count(${references.value})::int`, sealed: sql<number>`count(*) filter (where ${references.sealedUntil} > now())::int` })
+        .from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(inArray(targets.versionId, versionIds)).groupBy(targets.versionId) : [];
+      const ecounts = await db.select({ slug: entries.challengeSlug, track: entries.track, n: count(), last: sql<string>`max(${entries.publishedAt})` }).from(entries)
+        .where(eq(entries.state, 'published')).groupBy(entries.challengeSlug, entries.track);
+      return {
+        challenges: rows.map((c) => {
+          const v = versions.find((x) => x.id === c.currentVersionId);
+          const spec = v?.spec as ChallengeSpec | undefined;
+          const tc = tcounts.find((x) => x.versionId === c.currentVersionId);
+          const ec = ecounts.filter((x) => x.slug === c.slug);
+          const steps = spec?.circuit.family === 'kicked-ising' ? spec.circuit.steps : null;
+          const lastEntry = ec.map((x) => x.last).filter(Boolean).sort().pop();
+          return {
+            slug: c.slug, title: c.title, summary: c.summary, state: c.state,
+            version: v?.version ?? null, checksum: v?.checksum ?? null,
+            lattice: spec ? { ...spec.lattice, qubits: spec.lattice.kind === 'edges' ? spec.lattice.n : undefined } : null,
+            qubits: spec ? buildLatticeSize(spec) : null,
+            family: spec?.circuit.family ?? null,
+            steps: steps ? { min: Math.min(...steps), max: Math.max(...steps) } : null,
+            targets: Number(tc?.n ?? 0), exactTargets: Number(tc?.exact ?? 0), sealedTargets: Number(tc?.sealed ?? 0),
+            entries: { hardware: Number(ec.find((x) => x.track === 'hardware')?.n ?? 0), classical: Number(ec.find((x) => x.track === 'classical')?.n ?? 0) },
+            lastActivity: [lastEntry, v?.publishedAt?.toISOString(), c.updatedAt.toISOString()].filter(Boolean).sort().pop(),
+          };
+        }),
+      };
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug', access: 'public', summary: 'One challenge: spec, versions, instances with gate counts and depth, lattice drawing, reference-job progress',
+    handler: async (req) => {
+      const { challenge: c, version: v, versions } = await loadChallengeVersion(db, req);
+      const spec = v.spec as ChallengeSpec;
+      const graph = buildLattice(spec.lattice);
+      const inst = await db.select().from(instances).where(eq(instances.versionId, v.id)).orderBy(asc(instances.key));
+      const obs = await db.select().from(observables).where(eq(observables.versionId, v.id)).orderBy(asc(observables.key));
+      const js = await db.select({ id: jobs.id, kind: jobs.kind, state: jobs.state, progress: jobs.progress, note: jobs.progressNote, error: jobs.error, createdAt: jobs.createdAt, finishedAt: jobs.finishedAt })
+        .from(jobs).where(sql`${jobs.payload}->>'versionId' = ${v.id}`).orderBy(desc(jobs.createdAt)).limit(20);
+      return {
+        slug: c.slug, title: spec.title, description: spec.description, state: c.state, settings: c.settings,
+        version: { id: v.id, version: v.version, checksum: v.checksum, state: v.state, publishedAt: v.publishedAt, supersededReason: v.supersededReason },
+        versions: versions.map((x) => ({ version: x.version, checksum: x.checksum, state: x.state, publishedAt: x.publishedAt, supersededReason: x.supersededReason })),
+        spec,
+        lattice: { kind: spec.lattice.kind, qubits: graph.n, edges: graph.edges, coords: graph.coords },
+        instances: inst.map((i) => ({ key: i.key, params: i.params, qubits: i.qubits, gateCount: i.gateCount, depth: i.depth })),
+        observables: obs.map((o) => ({ key: o.key, spec: o.spec, bound: o.bound })),
+        jobs: js,
+      };
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/targets', access: 'public', summary: 'Every target with its exact reference (value, method, size, cost, engine) or the reason there is none; sealed values hidden until their date',
+    handler: async (req) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const rows = await db.select({ key: targets.key, instance: instances.key, params: instances.params, observable: observables.key, disputed: targets.disputed, disputeNote: targets.disputeNote, ref: references })
+        .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))
+        .leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, v.id)).orderBy(asc(targets.key));
+      const now = ctx.now();
+      return {
+        version: v.version, checksum: v.checksum,
+        targets: rows.map((r) => ({
+          key: r.key, instance: r.instance, params: r.params, observable: r.observable, disputed: r.disputed, disputeNote: r.disputeNote,
+          reference: presentReference(r.ref, now),
+        })),
+      };
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/spec.json', access: 'public', summary: 'The exact JSON spec of a version (checksum in the X-Parallax-Checksum header)',
+    handler: async (req, res) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      res.setHeader('X-Parallax-Checksum', `sha256:${v.checksum}`);
+      res.setHeader('Content-Disposition', `attachment; filename="${v.challengeSlug}-v${v.version}.json"`);
+      res.type('application/json').send(JSON.stringify(v.spec, null, 2));
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/instances/:instanceKey/qasm', access: 'public', summary: 'One instance as OpenQASM 3',
+    handler: async (req, res) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const ch = validateSpecOrThrow(v.spec);
+      const inst = ch.instances.find((i) => i.id === String(req.params.instanceKey));
+      if (!inst) throw notFound(`The instance "${String(req.params.instanceKey)}"`);
+      const qasm = toQasm3(compileInstance(ch.spec, inst), { challengeId: ch.spec.id, version: ch.spec.version, checksum: v.checksum, instanceId: inst.id, notes: [JSON.stringify(inst.params)] });
+      res.setHeader('Content-Disposition', `attachment; filename="${v.challengeSlug}-v${v.version}-${inst.id}.qasm"`);
+      res.type('text/plain').send(qasm);
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/plan', access: 'public', summary: "The planner's report: per target, the exact method it would use and its estimated cost, or why none is feasible",
+    handler: async (req) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const plans = planChallenge(validateSpecOrThrow(v.spec));
+      return { version: v.version, plans: plans.map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone, clifford: p.clifford })) };
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/challenges/preview', access: 'moderator', summary: 'Validate a spec and show the planner report without storing anything',
+    middleware: [upload.single('file')],
+    handler: async (req) => {
+      const ch = validateSpecOrThrow(specFromRequest(req));
+      const plans = planChallenge(ch);
+      const graph = buildLattice(ch.spec.lattice);
+      return {
+        id: ch.spec.id, version: ch.spec.version, checksum: ch.checksum, qubits: ch.nQubits, instances: ch.instances.length, targets: ch.targets.length,
+        lattice: { kind: ch.spec.lattice.kind, qubits: graph.n, edges: graph.edges, coords: graph.coords },
+        plans: plans.map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone })),
+      };
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/challenges', access: 'moderator', summary: 'Store a draft challenge version from a spec (JSON body or multipart field "file")',
+    middleware: [upload.single('file')],
+    handler: async (req, res) => {
+      const out = await createChallengeVersion(db, specFromRequest(req), req.actor, ctx.now());
+      res.status(201);
+      return out;
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/challenges/:slug/publish', access: 'moderator', summary: 'Publish the newest draft version (a correction needs a reason) and start the reference job',
+    handler: async (req) => {
+      const body = parseBody(publishBody, req.body);
+      const out = await publishChallengeVersion(db, { slug: String(req.params.slug), version: body.version, reason: body.reason, actor: req.actor, now: ctx.now() });
+      ctx.jobs.kick();
+      return out;
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/jobs/:jobId', access: 'public', summary: 'Progress of a background job (reference computation, baseline, standings)',
+    handler: async (req) => {
+      const id = String(req.params.jobId);
+      if (!/^[0-9a-f-]{36}$/i.test(id)) throw notFound('The job');
+      const [j] = await db.select({ id: jobs.id, kind: jobs.kind, state: jobs.state, progress: jobs.progress, note: jobs.progressNote, error: jobs.error, createdAt: jobs.createdAt, startedAt: jobs.startedAt, finishedAt: jobs.finishedAt, result: jobs.result }).from(jobs).where(eq(jobs.id, id));
+      if (!j) throw notFound('The job');
+      return j;
     },
   });
 }
+
+function buildLatticeSize(spec: ChallengeSpec): number {
+  return buildLattice(spec.lattice).n;
+}
+
+type RefRow = typeof references.$inferSelect | null;
+/** A reference as the public sees it: sealed values are withheld until their date. */
+export function presentReference(ref: RefRow, now: Date) {
+  if (!ref) return { status: 'pending' as const };
+  if (ref.sealedUntil && ref.sealedUntil > now) return { status: 'sealed' as const, sealedUntil: ref.sealedUntil };
+  if (ref.value === null) return { status: 'none' as const, reason: ref.reason, engineVersion: ref.engineVersion };
+  return { status: 'exact' as const, value: ref.value, uncertainty: ref.uncertainty, method: ref.method, size: ref.size, wallMs: ref.wallMs, engineVersion: ref.engineVersion, createdAt: ref.createdAt };
+}
+

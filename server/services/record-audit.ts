@@ -2,6 +2,8 @@ import type { DbOrTx } from '../db/client';
 import { auditLog } from '../db/schema';
 import type { Actor } from '../middleware/actor';
 
+export type AuditActor = Actor | { kind: 'system'; label: string };
+
 export function actorLabel(a: Actor): { actorId: string | null; actorLabel: string } {
   if (a.kind === 'user') return { actorId: a.user.id, actorLabel: `${a.user.name} (${a.user.role})` };
   if (a.kind === 'api-key') return { actorId: null, actorLabel: `api-key ${a.keyName ?? a.keyId} of team ${a.teamId}` };
@@ -11,7 +13,7 @@ export function actorLabel(a: Actor): { actorId: string | null; actorLabel: stri
 /** Appends one line to the audit log (inside the caller's transaction when given one). */
 export async function recordAudit(
   db: DbOrTx,
-  e: { actor: Actor | { kind: 'system'; label: string }; action: string; subjectType: string; subjectId: string; details?: Record<string, unknown>; at?: Date },
+  e: { actor: AuditActor; action: string; subjectType: string; subjectId: string; details?: Record<string, unknown>; at?: Date },
 ): Promise<void> {
   const who = e.actor.kind === 'system' ? { actorId: null, actorLabel: e.actor.label } : actorLabel(e.actor);
   await db.insert(auditLog).values({ ...who, action: e.action, subjectType: e.subjectType, subjectId: e.subjectId, details: e.details ?? {}, ...(e.at ? { at: e.at } : {}) });

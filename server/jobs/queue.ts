@@ -1,0 +1,64 @@
+/**
+ * The job queue in the jobs table. A worker claims the oldest queued job with
+ * SELECT ... FOR UPDATE SKIP LOCKED, so several worker processes on one PostgreSQL server never take
+ * the same job; on PGlite there is one process and the same statement is simply serial.
+ */
+import { randomUUID } from 'node:crypto';
+import { and, eq, inArray, sql } from 'drizzle-orm';
+import type { Db, DbOrTx } from '../db/client';
+import { jobs } from '../db/schema';
+
+export type JobKind = 'references' | 'baseline' | 'standings';
+export type JobRow = typeof jobs.$inferSelect;
+
+export async function enqueueJob(db: DbOrTx, kind: JobKind, payload: Record<string, unknown>, dedupeKey?: string): Promise<string> {
+  if (dedupeKey) {
+    // one queued job per key is enough (e.g. one standings recomputation per version)
+    const [q] = await db.select({ id: jobs.id }).from(jobs)
+      .where(and(eq(jobs.kind, kind), eq(jobs.state, 'queued'), sql`${jobs.payload}->>'key' = ${dedupeKey}`)).limit(1);
+    if (q) return q.id;
+  }
+  const [row] = await db.insert(jobs).values({ kind, payload: dedupeKey ? { ...payload, key: dedupeKey } : payload }).returning({ id: jobs.id });
+  return row.id;
+}
+
+export async function claimJob(db: Db, workerId: string, kinds?: JobKind[]): Promise<JobRow | null> {
+  const kindFilter = kinds?.length ? sql`and kind in (${sql.join(kinds.map((k) => sql`${k}`), sql`, `)})` : sql``;
+  const r = (await db.execute(sql`
+    update jobs set state = 'running', locked_by = ${workerId}, locked_at = now(),
+      started_at = coalesce(started_at, now()), attempts = attempts + 1
+    where id = (select id from jobs where state = 'queued' ${kindFilter} order by created_at, id for update skip locked limit 1)
+    returning id`)) as unknown as { rows: { id: string }[] };
+  if (!r.rows.length) return null;
+  const [row] = await db.select().from(jobs).where(eq(jobs.id, r.rows[0].id));
+  return row;
+}
+
+export async function reportProgress(db: Db, id: string, progress: number, note: string): Promise<void> {
+  await db.update(jobs).set({ progress: Math.max(0, Math.min(1, progress)), progressNote: note.slice(0, 300) }).where(eq(jobs.id, id));
+}
+
+export async function finishJob(db: Db, id: string, result: Record<string, unknown>): Promise<void> {
+  await db.update(jobs).set({ state: 'done', progress: 1, result, finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
+}
+
+export async function failJob(db: Db, id: string, error: string): Promise<void> {
+  await db.update(jobs).set({ state: 'failed', error: error.slice(0, 2000), finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
+}
+
+/**
+ * Jobs left running by a process that died go back to the queue (their work is resumable: the
+ * reference job skips targets that already have a reference). With PGlite only this process exists;
+ * with PostgreSQL only jobs whose lock is older than `staleMs` are taken back.
+ */
+export async function requeueStale(db: Db, staleMs: number | null): Promise<number> {
+  const cond = staleMs === null ? eq(jobs.state, 'running') : and(eq(jobs.state, 'running'), sql`${jobs.lockedAt} < now() - (${staleMs} * interval '1 millisecond')`);
+  const r = await db.update(jobs).set({ state: 'queued', lockedBy: null }).where(cond).returning({ id: jobs.id });
+  return r.length;
+}
+
+export const newWorkerId = () => `worker-${process.pid}-${randomUUID().slice(0, 8)}`;
+
+export async function jobsFor(db: Db, key: string, kinds: JobKind[]): Promise<JobRow[]> {
+  return db.select().from(jobs).where(and(inArray(jobs.kind, kinds), sql`${jobs.payload}->>'versionId' = ${key}`));
+}
