@@ -14,15 +14,17 @@
  * - free-fermion: chain lattice, kicked-ising family, observable a sum of Z_j, X_j, Z_j Z_j+1
  *   (free-fermion.ts decides); its own cost estimate.
  * - statevector: the whole register, n <= statevectorQubitLimit.
+ * The cheapest feasible estimate wins, except that a Clifford instance takes propagation whenever
+ * it is feasible (its value is then a signed sum of coefficients, free of rotation rounding).
  *
  * Light cones (PHYSICS.md): walking back from the support S, each whole RZZ block (all colour
  * layers of one step: they commute) grows S to S plus its graph neighbours; RX layers add nothing;
  * the last block grows only the X/Y sites (ZZ commutes with Z). So a Z site's cone is the graph
  * ball of radius t - 1 and an X or Y site's has radius t. For the gates family the cone is the
- * backward walk of light-cone.ts (which also drops diagonal gates on Z-only sites); the term
- * bound there uses the plain support walk (a two-qubit gate touching S adds both qubits), a larger
- * cone, so still an upper bound. The cones are exact restrictions (the gates left out commute
- * with the evolved observable) and upper bounds on the true support. Cones are cached per (steps, support) so a 1,000-target plan takes milliseconds.
+ * backward walk with light-cone.ts's rules (which also drop diagonal gates on Z-only sites), counted
+ * here without building the sub-circuit; the runner restricts with light-cone.ts itself. The cones
+ * are exact restrictions (the gates left out commute with the evolved observable) and upper
+ * bounds on the true support. Cones are cached per (steps, support) so a 1,000-target plan takes milliseconds.
  *
  * No framework or node: imports.
  */
@@ -168,6 +170,7 @@ export class Planner {
   readonly lattice: CompiledLattice;
   private readonly graph: Csr;
   private readonly mark: Int32Array;
+  private readonly xyMark: Int32Array;
   private stamp = 0;
   private readonly coneCache = new Map<string, RawCone>();
   private readonly instances: Map<string, Instance>;
@@ -182,6 +185,7 @@ export class Planner {
     this.lattice = compileLattice(challenge.spec);
     this.graph = csr(this.lattice.graph.n, this.lattice.graph.edges);
     this.mark = new Int32Array(Math.max(challenge.nQubits, this.lattice.graph.n));
+    this.xyMark = new Int32Array(this.mark.length);
     this.instances = new Map(challenge.instances.map((i) => [i.id, i]));
     this.observables = new Map(challenge.observables.map((o, index) => [o.id, { spec: o, index }]));
     if (challenge.spec.circuit.family === 'gates') this.gatesCircuit = compileInstance(challenge.spec, challenge.instances[0]);
@@ -222,13 +226,9 @@ export class Planner {
         log2Terms = Math.log2(Math.max(1, obs.terms.length));
         work = obs.terms.length * Math.max(1, union.gates);
       } else {
-        log2Terms = -Infinity;
-        work = 0;
-        for (const t of obs.terms) {
-          const b = this.termBound(inst, t);
-          log2Terms = log2Sum(log2Terms, b.log2Terms);
-          work += b.work;
-        }
+        const b = this.observableBound(inst, obs);
+        log2Terms = b.log2Terms;
+        work = b.work;
       }
       const terms = 2 ** log2Terms;
       const seconds = OTHER_OVERHEAD_S + work / PROPAGATION_RATE;
@@ -253,7 +253,13 @@ export class Planner {
         if (why) reason = `free-fermion: ${why}`;
         else {
           const p = inst.params;
-          const cost = freeFermionCost({ n, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
+          // the cost depends on the chain, the steps and the observable, not on the angles
+          const key = `${p.steps}|${obs.id}`;
+          let cost = this.ffCostCache.get(key);
+          if (cost === undefined) {
+            cost = freeFermionCost({ n, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
+            this.ffCostCache.set(key, cost);
+          }
           if (!cost) reason = 'free-fermion: not supported for this instance';
           else {
             seconds = OTHER_OVERHEAD_S + cost.seconds;
@@ -284,8 +290,11 @@ export class Planner {
       estimates.push({ method: 'statevector', feasible: !reason, size: n, unit: 'qubits', seconds, ...(reason ? { reason } : {}) });
     }
 
+    // Cheapest feasible method; at a Clifford instance propagation is taken whenever feasible: its
+    // value is a signed sum of coefficients, with no rounding from rotations.
     let best: MethodEstimate | null = null;
     for (const e of estimates) if (e.feasible && (!best || e.seconds < best.seconds)) best = e;
+    if (clifford && estimates[0].feasible) best = estimates[0];
     const cone: ConeStats = union;
     if (best) {
       return {
@@ -314,8 +323,7 @@ export class Planner {
       const k = `G|${key}`;
       let raw = this.coneCache.get(k);
       if (!raw) {
-        const lc = lightCone(this.gatesCircuit, terms.flatMap((t) => t.factors));
-        raw = { qubits: lc.qubits.length, rx: 0, rzz: 0, gates: lc.keptGates.length, nonClifford: lc.nonCliffordRotations };
+        raw = this.gatesCone(this.gatesCircuit, terms);
         this.coneCache.set(k, raw);
       }
       return { qubits: raw.qubits, gates: raw.gates ?? 0, nonClifford: raw.nonClifford ?? 0 };
@@ -330,6 +338,31 @@ export class Planner {
     }
     const nonClifford = (isCliffordAngle(thetaH) ? 0 : raw.rx) + (isCliffordAngle(thetaJ) ? 0 : raw.rzz);
     return { qubits: raw.qubits, gates: raw.rx + raw.rzz, nonClifford: steps === 0 ? 0 : nonClifford };
+  }
+
+  private readonly ffCostCache = new Map<string, ReturnType<typeof freeFermionCost>>();
+  private readonly boundCache = new Map<string, { log2Terms: number; work: number }>();
+
+  /** Sum of termBound over the observable's terms, cached per (steps, Clifford flags, observable). */
+  observableBound(inst: Instance, obs: ObservableSpec): { log2Terms: number; work: number } {
+    const p = inst.params;
+    const key =
+      p.family === 'kicked-ising'
+        ? `${p.steps}|${isCliffordAngle(p.thetaH) ? 1 : 0}${isCliffordAngle(p.thetaJ) ? 1 : 0}|${obs.id}`
+        : `g|${obs.id}`;
+    let b = this.boundCache.get(key);
+    if (!b) {
+      let log2Terms = -Infinity;
+      let work = 0;
+      for (const t of obs.terms) {
+        const x = this.termBound(inst, t);
+        log2Terms = log2Sum(log2Terms, x.log2Terms);
+        work += x.work;
+      }
+      b = { log2Terms, work };
+      this.boundCache.set(key, b);
+    }
+    return b;
   }
 
   /**
@@ -372,6 +405,7 @@ export class Planner {
   private nextStamp(): number {
     if (++this.stamp >= 0x7fffffff) {
       this.mark.fill(0);
+      this.xyMark.fill(0);
       this.stamp = 1;
     }
     return this.stamp;
@@ -387,15 +421,17 @@ export class Planner {
     const s = this.nextStamp();
     const members: number[] = [];
     const xy: number[] = [];
-    const xySet = new Set<number>();
+    const xyMark = this.xyMark;
+    const sx = this.nextStamp();
     for (const t of terms) {
       for (const f of t.factors) {
-        if (f.op !== 'Z' && !xySet.has(f.qubit)) {
-          xySet.add(f.qubit);
+        if (f.op !== 'Z' && xyMark[f.qubit] !== sx) {
+          xyMark[f.qubit] = sx;
           xy.push(f.qubit);
         }
       }
     }
+    const isXY = (v: number) => xyMark[v] === sx;
     let internal = 0;
     const add = (v: number) => {
       if (mark[v] === s) return;
@@ -418,9 +454,9 @@ export class Planner {
       return deg - inner / 2;
     };
     // last RZZ block: only edges at X/Y sites act
-    const last = edgesTouching(xy, (v) => xySet.has(v));
+    const last = edgesTouching(xy, isXY);
     rzz += last;
-    if (collect) collect.rzz.push(this.edgesAt(xy, (v) => xySet.has(v)));
+    if (collect) collect.rzz.push(this.edgesAt(xy, isXY));
     for (const v of xy) for (let e = offsets[v]; e < offsets[v + 1]; e++) add(nbrs[e]);
     blocks.push(0, last, members.length);
     let frontierStart = 0; // every member may still have neighbours outside
@@ -463,24 +499,90 @@ export class Planner {
     return out;
   }
 
-  /** Support-only backward walk (an upper bound on light-cone.ts's cone) with the term bound. */
+  private gateFlags: Uint8Array | null = null;
+  private nonCliffPrefix: Int32Array | null = null;
+  private inD: Uint8Array | null = null;
+
+  /**
+   * Backward walk with light-cone.ts's rules (counting only, no allocation): keep a gate unless it
+   * touches no cone qubit, or is diagonal with every qubit still Z-commuting (D), or is a CX whose
+   * target is outside the cone and whose control is in D. Also the term bound: each kept
+   * non-Clifford rotation at most doubles the term count, capped at 4^(cone qubits so far).
+   * Once the cone is the whole register and D is empty every earlier gate is kept, so the rest is
+   * closed form (the work bound then uses the final term bound for the remaining gates).
+   */
   private gatesCone(circ: CompiledCircuit, terms: readonly PauliTerm[]): RawCone {
+    const G = circ.gates.length;
+    const n = circ.nQubits;
+    if (!this.gateFlags || !this.nonCliffPrefix || !this.inD) {
+      // bit 1: diagonal, bit 2: non-Clifford rotation, bit 4: cx
+      const flags = new Uint8Array(G);
+      const pre = new Int32Array(G + 1);
+      circ.gates.forEach((g, i) => {
+        const diag = g.name === 'z' || g.name === 's' || g.name === 'sdg' || g.name === 'rz' || g.name === 'rzz' || g.name === 'cz';
+        const non = (g.name === 'rx' || g.name === 'ry' || g.name === 'rz' || g.name === 'rzz') && gateIsNonClifford(g);
+        flags[i] = (diag ? 1 : 0) | (non ? 2 : 0) | (g.name === 'cx' ? 4 : 0);
+        pre[i + 1] = pre[i] + (non ? 1 : 0);
+      });
+      this.gateFlags = flags;
+      this.nonCliffPrefix = pre;
+      this.inD = new Uint8Array(n);
+    }
+    const flags = this.gateFlags;
+    const pre = this.nonCliffPrefix;
+    const inD = this.inD;
+    inD.fill(1);
+    let dCount = n;
     const s = this.nextStamp();
     const mark = this.mark;
     let qubits = 0;
-    for (const t of terms) for (const f of t.factors) if (mark[f.qubit] !== s) (mark[f.qubit] = s, qubits++);
+    for (const t of terms) {
+      for (const f of t.factors) {
+        if (mark[f.qubit] !== s) (mark[f.qubit] = s, qubits++);
+        if (f.op !== 'Z' && inD[f.qubit]) (inD[f.qubit] = 0, dCount--);
+      }
+    }
     let gates = 0;
     let nonClifford = 0;
     let log2T = 0;
     let work = 0;
-    for (let i = circ.gates.length - 1; i >= 0; i--) {
-      const g = circ.gates[i];
-      const q = g.qubits;
-      const touches = mark[q[0]] === s || (q.length === 2 && mark[q[1]] === s);
-      if (!touches) continue;
+    const gs = circ.gates;
+    for (let i = G - 1; i >= 0; i--) {
+      if (qubits === n && dCount === 0) {
+        const rest = pre[i + 1];
+        gates += i + 1;
+        nonClifford += rest;
+        log2T = Math.min(log2T + rest, 2 * n);
+        work += (i + 1) * 2 ** log2T;
+        break;
+      }
+      const q = gs[i].qubits;
+      const a = q[0];
+      const b = q.length === 2 ? q[1] : -1;
+      const inA = mark[a] === s;
+      const inB = b >= 0 && mark[b] === s;
+      if (!inA && !inB) continue;
+      const fl = flags[i];
+      if (fl & 1) {
+        if (inD[a] && (b < 0 || inD[b])) continue;
+        if (!inA) (mark[a] = s, qubits++);
+        if (b >= 0 && !inB) (mark[b] = s, qubits++);
+      } else if (fl & 4) {
+        // cx(a = control, b = target)
+        if (!inB && inD[a]) continue;
+        if (!inA) (mark[a] = s, qubits++);
+        if (!inB) (mark[b] = s, qubits++);
+        if (inD[b]) (inD[b] = 0, dCount--);
+      } else {
+        if (!inA) (mark[a] = s, qubits++);
+        if (inD[a]) (inD[a] = 0, dCount--);
+        if (b >= 0) {
+          if (!inB) (mark[b] = s, qubits++);
+          if (inD[b]) (inD[b] = 0, dCount--);
+        }
+      }
       gates++;
-      for (const x of q) if (mark[x] !== s) (mark[x] = s, qubits++);
-      if (gateIsNonClifford(g)) {
+      if (fl & 2) {
         nonClifford++;
         log2T = Math.min(log2T + 1, 2 * qubits);
       }
@@ -607,8 +709,18 @@ function article(s: string): string {
   return /^[aeiou]/.test(s) ? `an ${s}` : `a ${s}`;
 }
 
+/** Integer with thousands separators ("1,000,000"); toLocaleString is slow in a hot loop. */
 export function fmtInt(x: number): string {
-  return Math.round(x).toLocaleString('en-US');
+  if (!Number.isFinite(x)) return String(x);
+  const neg = x < 0;
+  let d = String(Math.round(Math.abs(x)));
+  if (d.includes('e')) return (neg ? '-' : '') + d;
+  let out = '';
+  while (d.length > 3) {
+    out = ',' + d.slice(-3) + out;
+    d = d.slice(0, -3);
+  }
+  return (neg ? '-' : '') + d + out;
 }
 
 function fmtPow2(log2: number): string {
