@@ -14,10 +14,13 @@ type Row = Record<Caller, number>;
 // row shapes, spelt out so each route's line says exactly who gets what
 const ALL_200: Row = { anon: 200, memberA: 200, leadA: 200, memberB: 200, moderator: 200, admin: 200, keyA: 200 };
 const LEAD_A = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: 403 });
+const MODERATOR = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, memberB: 403, moderator: ok, admin: ok, keyA: 403 });
 const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, memberB: 403, moderator: 403, admin: ok, keyA: 403 });
 
 interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
-interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string }
+// a spec the moderators' routes accept (400 for everyone else never happens: access is checked first)
+const SPEC = { id: 'matrix-chain', version: 1, title: 'Matrix chain', description: 'x', lattice: { kind: 'chain', n: 4 }, circuit: { family: 'kicked-ising', steps: [1], thetaH: [0.1] }, observables: [{ id: 'z1', pauli: 'Z1' }] };
 
 const MATRIX: Record<string, Probe> = {
   'GET /health': { row: ALL_200, path: () => '/api/health' },
@@ -34,6 +37,17 @@ const MATRIX: Record<string, Probe> = {
   'GET /admin/outbox': { row: ADMIN(200), path: () => '/api/admin/outbox' },
   'GET /admin/outbox/:messageId': { row: ADMIN(200), path: (i) => `/api/admin/outbox/${i.messageId}` },
   'GET /challenges': { row: ALL_200, path: () => '/api/challenges' },
+  'GET /challenges/:slug': { row: ALL_200, path: () => '/api/challenges/seeded-chain' },
+  'GET /challenges/:slug/targets': { row: ALL_200, path: () => '/api/challenges/seeded-chain/targets' },
+  'GET /challenges/:slug/spec.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/spec.json' },
+  'GET /challenges/:slug/instances/:instanceKey/qasm': { row: ALL_200, path: () => '/api/challenges/seeded-chain/instances/t1-h0.100000/qasm' },
+  'GET /challenges/:slug/plan': { row: ALL_200, path: () => '/api/challenges/seeded-chain/plan' },
+  'POST /challenges/preview': { row: MODERATOR(200), path: () => '/api/challenges/preview', body: () => SPEC },
+  // the first moderator call stores the draft (201); the admin's identical call then meets the checksum (409)
+  'POST /challenges': { row: { ...MODERATOR(201), admin: 409 }, path: () => '/api/challenges', body: () => SPEC },
+  // nothing left to publish for the second caller
+  'POST /challenges/:slug/publish': { row: { ...MODERATOR(200), admin: 409 }, path: () => '/api/challenges/matrix-chain/publish', body: () => ({}) },
+  'GET /jobs/:jobId': { row: ALL_200, path: (i) => `/api/jobs/${i.jobId}` },
 };
 
 let t: TestApp;
@@ -65,7 +79,12 @@ beforeAll(async () => {
   key = (await as.leadA.post(`/api/teams/${a.teamId}/api-keys`, { name: 'matrix key' })).body.key;
   const users = (await as.admin.get('/api/admin/users')).body.users as { id: string; email: string }[];
   const outbox = (await as.admin.get('/api/admin/outbox')).body.messages as { id: string }[];
-  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id };
+  // a published challenge for the public routes
+  const seeded = { ...SPEC, id: 'seeded-chain', title: 'Seeded chain' };
+  expect((await as.moderator.post('/api/challenges', seeded)).status).toBe(201);
+  const pub = await as.moderator.post('/api/challenges/seeded-chain/publish', {});
+  expect(pub.status).toBe(200);
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId };
 }, 120_000);
 afterAll(async () => { await t.close(); });
 
