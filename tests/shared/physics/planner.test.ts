@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { CompiledCircuit, GateName } from '../../../shared/physics/circuit';
 import { loadChallenge, type ChallengeSpec, type GateJson } from '../../../shared/physics/challenge';
 import { compileInstance, compileLattice } from '../../../shared/physics/compile';
@@ -207,5 +210,31 @@ describe('reference fallbacks', () => {
     expect(['light-cone-statevector', 'statevector']).toContain(r.method);
     const circ: CompiledCircuit = compileInstance(c.spec, c.instances[0]);
     expect(r.value).toBeCloseTo(statevectorExpectation(circ, c.observables[0]).value, 12);
+  });
+});
+
+describe('scripts/reference.ts', () => {
+  const run = (args: string[]) => spawnSync(process.execPath, ['--import', 'tsx', 'scripts/reference.ts', ...args], { encoding: 'utf8' });
+
+  it('writes one entry per target, with a value or a reason', () => {
+    const out = join(mkdtempSync(join(tmpdir(), 'parallax-ref-')), 'out.json');
+    const r = run(['tests/fixtures/challenges/chain-small.json', '--out', out]);
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toMatch(/\[60\/60\] t4-h1\.570796:mz/);
+    const rows = JSON.parse(readFileSync(out, 'utf8')) as { targetId: string; value: number | null; method: string; params: { steps: number }; size: number }[];
+    expect(rows.length).toBe(60);
+    expect(rows[0]).toMatchObject({ targetId: 't1-h0.000000:z0', instanceId: 't1-h0.000000', observableId: 'z0', value: 1, params: { steps: 1, thetaH: 0 } });
+    for (const row of rows) expect(typeof row.value).toBe('number');
+  });
+
+  it('prints the validation messages and exits 1 on a bad spec', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'parallax-ref-'));
+    const bad = join(dir, 'bad.json');
+    const spec = fixture('chain-small');
+    spec.observables.push({ id: 'far', pauli: 'Z99' });
+    writeFileSync(bad, JSON.stringify(spec));
+    const r = run([bad]);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/\/observables\/5\/pauli: observable "far": Pauli string "Z99" at character 2: qubit 99 is out of range/);
   });
 });
