@@ -9,6 +9,8 @@
  * No measurement is written: targets are expectation values of the observables named in the header.
  */
 import type { CompiledCircuit } from './circuit';
+import type { ChallengeSpec } from './challenge';
+import { compileInstance, type CompiledLattice, type Instance } from './compile';
 
 export interface QasmHeader {
   challengeId: string;
@@ -49,4 +51,22 @@ export function toQasm3(circuit: CompiledCircuit, header: QasmHeader): string {
 
 function oneLine(s: string): string {
   return s.replace(/[\r\n]+/g, ' ');
+}
+
+/**
+ * OpenQASM 3 of one instance of a validated challenge, with the header filled in (challenge id,
+ * version, checksum, instance id, instance parameters, observable ids).
+ */
+export function instanceQasm(
+  challenge: { spec: ChallengeSpec; checksum: string },
+  instance: Instance,
+  lattice?: CompiledLattice,
+): string {
+  const circuit = compileInstance(challenge.spec, instance, lattice);
+  const notes: string[] = [];
+  const p = instance.params;
+  if (p.family === 'kicked-ising') notes.push(`kicked-ising: steps ${p.steps}, thetaH ${formatAngle(p.thetaH)}, thetaJ ${formatAngle(p.thetaJ)}`);
+  const ids = challenge.spec.observables.map((o) => o.id);
+  notes.push(`observables: ${ids.slice(0, 20).join(', ')}${ids.length > 20 ? `, ... (${ids.length} in all)` : ''}`);
+  return toQasm3(circuit, { challengeId: challenge.spec.id, version: challenge.spec.version, checksum: challenge.checksum, instanceId: instance.id, notes });
 }

@@ -4,7 +4,7 @@ import type { Gate, GateName } from '../../../shared/physics/circuit';
 import { GATE_ARITY } from '../../../shared/physics/circuit';
 import { loadChallenge, type ChallengeSpec } from '../../../shared/physics/challenge';
 import { compileInstance, compileLattice } from '../../../shared/physics/compile';
-import { formatAngle, RZZ_DEFINITION, toQasm3 } from '../../../shared/physics/qasm';
+import { formatAngle, instanceQasm, RZZ_DEFINITION, toQasm3 } from '../../../shared/physics/qasm';
 
 const fixture = (name: string) => JSON.parse(readFileSync(`tests/fixtures/challenges/${name}.json`, 'utf8')) as ChallengeSpec;
 
@@ -121,5 +121,17 @@ describe('OpenQASM 3 export', () => {
   it('header fields cannot break out of the comment line', () => {
     const q = toQasm3({ nQubits: 1, gates: [], layers: [] }, { challengeId: 'a\nx q[0];', version: 1, checksum: 'ab', instanceId: 'i' });
     expect(q.split('\n').filter((l) => l.startsWith('x '))).toEqual([]);
+  });
+
+  it('instanceQasm fills the header from the challenge', () => {
+    const c = loadChallenge(fixture('heavy-hex'));
+    const q = instanceQasm(c, c.instances[4]);
+    expect(q).toContain('// Parallax challenge heavy-hex-2x3 version 1\n');
+    expect(q).toContain(`// checksum sha256:${c.checksum}\n`);
+    expect(q).toContain('// instance t2-h0.785398\n');
+    expect(q).toContain('// kicked-ising: steps 2, thetaH 0.7853981633974483, thetaJ -1.5707963267948966\n');
+    expect(q).toContain('// observables: z0, z10, x20y21, z3z4z5\n');
+    expect(q).toContain('qubit[49] q;\n');
+    expect(q.split('\n').filter((l) => l.startsWith('rzz(')).length).toBe(2 * 54);
   });
 });
