@@ -56,12 +56,20 @@ async function linkFromOutbox(admin: Page, to: string, subject: string, shotName
   await admin.goto('/admin/outbox');
   await admin.getByLabel('Filter by recipient').fill(to);
   const item = admin.getByTestId('outbox-list').getByRole('link').filter({ hasText: subject }).first();
-  const deadline = Date.now() + 20_000;
-  while (!(await item.isVisible())) {
-    if (Date.now() > deadline) throw new Error(`no mail "${subject}" to ${to} in the outbox`);
-    await admin.waitForTimeout(500);
-    await admin.reload();
-    await admin.getByLabel('Filter by recipient').fill(to);
+  // the mail server and the list both take a moment (the server may be busy computing references)
+  const deadline = Date.now() + 45_000;
+  for (;;) {
+    try {
+      await item.waitFor({ timeout: 6_000 });
+      break;
+    } catch {
+      if (Date.now() > deadline) {
+        await shot(admin, 'failed-outbox');
+        throw new Error(`no mail "${subject}" to ${to} in the outbox; server said:\n${server.output().slice(-3000)}`);
+      }
+      await admin.reload();
+      await admin.getByLabel('Filter by recipient').fill(to);
+    }
   }
   if (shotName) await shots(admin, `${shotName}-outbox`);
   await item.click();
