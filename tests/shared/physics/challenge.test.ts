@@ -179,6 +179,12 @@ describe('semantic checks', () => {
     const s = base();
     (s.circuit as { thetaH: number[] }).thetaH = [0.1, 0.1000001];
     expect(errorsOf(s)[0].message).toMatch(/agree to 6 decimals, so their instance ids collide/);
+    const exact = base();
+    (exact.circuit as { thetaH: number[] }).thetaH = [0.5, 0.2, 0.5];
+    expect(errorsOf(exact)[0]).toEqual({
+      path: '/circuit/thetaH/2',
+      message: 'thetaH[2] = 0.5 and thetaH[0] = 0.5 agree to 6 decimals, so their instance ids collide; remove one or space them further apart',
+    });
     const big = base();
     (big.circuit as { steps: number[]; thetaH: number[] }).steps = Array.from({ length: 100 }, (_, i) => i);
     (big.circuit as { steps: number[]; thetaH: number[] }).thetaH = Array.from({ length: 201 }, (_, i) => i * 0.001);
