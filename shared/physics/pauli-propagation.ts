@@ -518,9 +518,9 @@ function validate(c: CompiledCircuit): void {
 }
 
 class Scratch {
-  del = new Int32Array(1024);
-  drop = new Uint8Array(0);
-  abs = new Float64Array(0);
+  del: Int32Array = new Int32Array(1024);
+  drop: Uint8Array = new Uint8Array(0);
+  abs: Float64Array = new Float64Array(0);
   dropFlags(n: number): Uint8Array {
     if (this.drop.length < n) this.drop = new Uint8Array(Math.ceil(n * 1.5));
     else this.drop.fill(0, 0, n);

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import QuantumCircuit from 'quantum-circuit';
+// @ts-expect-error quantum-circuit ships no type declarations (the part used is typed locally below)
+import QuantumCircuitUntyped from 'quantum-circuit';
+interface QC {
+  appendGate(name: string, wires: number | number[], options?: { params: Record<string, number> }): void;
+  run(): void;
+  stateAsSimpleArray(): { re: number; im: number }[];
+}
+const QuantumCircuit = QuantumCircuitUntyped as new (n: number) => QC;
 import type { CompiledCircuit, Gate, Layer, PauliFactor } from '../../../shared/physics/circuit';
 import { graphBall, lightCone } from '../../../shared/physics/light-cone';
 import { propagate } from '../../../shared/physics/pauli-propagation';
@@ -106,9 +113,20 @@ describe('brute force: q is in the cone iff changing the circuit on q can change
     it(name, () => {
       // At generic thetaJ the support-based cone is tight; at the Clifford thetaJ = -pi/2 it is only
       // an upper bound (PHYSICS.md), e.g. the Y_q branch ends as X_q and gives 0 whatever the neighbours do.
-      for (const [t, thetaJ] of [[2, 0.7], [3, 0.7], [3, 1.1], [2, -Math.PI / 2], [3, -Math.PI / 2]] as const) {
+      const cases: [number, number, PauliFactor[]][] = [
+        [2, 0.7, [{ qubit: 1, op: 'Z' }]],
+        [3, 1.1, [{ qubit: 1, op: 'Z' }]],
+        [1, 0.7, [{ qubit: 5, op: 'X' }]],
+        [2, 1.1, [{ qubit: 5, op: 'Y' }]],
+        [2, -Math.PI / 2, [{ qubit: 1, op: 'Z' }]],
+        [3, -Math.PI / 2, [{ qubit: 1, op: 'Z' }]],
+        [2, -Math.PI / 2, [{ qubit: 5, op: 'X' }]],
+      ];
+      for (const [t, thetaJ, f] of cases) {
+        if (t === 3 && thetaJ === 1.1 && n > 12) continue; // keep the exact runs small
+        if (t === 2 && thetaJ === 1.1 && n > 12) continue;
         const c = kickedIsing(n, edges, t, 0.45, thetaJ);
-        for (const f of [[{ qubit: 1, op: 'Z' }], [{ qubit: 5, op: 'X' }]] as PauliFactor[][]) {
+        {
           const o = { id: 'o', terms: [{ coef: 1, factors: f }] };
           const base = propagate(c, o).value;
           const cone = new Set(lightCone(c, f).qubits);
