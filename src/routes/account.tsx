@@ -30,7 +30,7 @@ export function Component() {
           </Button>
         }
       />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 items-start gap-6 lg:grid-cols-2">
         <Panel title="You">
           <dl className="grid grid-cols-[7rem_minmax(0,1fr)] gap-y-2 text-base">
             <dt className="text-ink-soft">Name</dt>

@@ -13,8 +13,8 @@ const STATE_TONE: Record<string, BadgeTone> = { open: 'ok', closed: 'neutral', a
 
 export function Component() {
   return (
-    <div className="grid gap-10 lg:grid-cols-[minmax(0,22rem)_minmax(0,1fr)] lg:gap-14">
-      <section aria-labelledby="about" className="max-w-prose">
+    <div className="grid grid-cols-1 gap-8 lg:grid-cols-[minmax(0,22rem)_minmax(0,1fr)] lg:grid-rows-[auto_1fr] lg:gap-x-14 lg:gap-y-6">
+      <section aria-labelledby="about" className="max-w-prose lg:col-start-1 lg:row-start-1">
         <h1 id="about" className="text-2xl sm:text-3xl">One quantity, two viewpoints.</h1>
         <p className="mt-3 text-ink-soft">
           Parallax is a curated arena for expectation values of quantum circuits. Teams running error-mitigated circuits on
@@ -22,6 +22,15 @@ export function Component() {
           uncertainty. The server computes exact references wherever a known method can, scores every estimate against
           them, and where none exists compares the estimates with each other.
         </p>
+      </section>
+      <section aria-labelledby="challenges-title" className="lg:col-start-2 lg:row-span-2 lg:row-start-1">
+        <div className="mb-3 flex flex-wrap items-baseline justify-between gap-x-3 border-b border-rule pb-2">
+          <h2 id="challenges-title" className="text-xl">Challenges</h2>
+          <span className="text-sm text-ink-soft">open to browse, no sign-in needed</span>
+        </div>
+        <ChallengeList />
+      </section>
+      <aside aria-label="How to read Parallax" className="max-w-prose lg:col-start-1 lg:row-start-2">
         <ApertureFigure />
         <dl className="mt-6 space-y-3 text-sm">
           <div className="flex gap-3">
@@ -33,14 +42,7 @@ export function Component() {
             <dd><span className="font-medium">Classical simulation</span> — tensor networks, Pauli propagation, light cones and more.</dd>
           </div>
         </dl>
-      </section>
-      <section aria-labelledby="challenges-title">
-        <div className="mb-3 flex items-baseline justify-between gap-3 border-b border-rule pb-2">
-          <h2 id="challenges-title" className="text-xl">Challenges</h2>
-          <span className="text-sm text-ink-soft">open to browse, no sign-in needed</span>
-        </div>
-        <ChallengeList />
-      </section>
+      </aside>
     </div>
   );
 }
@@ -84,7 +86,7 @@ function ChallengeRow({ c }: { c: ChallengeSummary }) {
  */
 function ApertureFigure() {
   return (
-    <figure className="mt-6 rounded-card border border-rule bg-paper-raised p-4">
+    <figure className="rounded-card border border-rule bg-paper-raised p-4">
       <svg viewBox="0 0 320 110" className="w-full" role="img" aria-labelledby="fig-cap">
         <rect x="10" y="38" width="300" height="26" className="fill-consensus-soft" />
         <line x1="10" x2="310" y1="49" y2="49" strokeWidth="1.5" className="stroke-exact" />

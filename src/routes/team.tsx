@@ -20,7 +20,7 @@ export function Component() {
   const myRole = teams.find((t) => t.id === teamId)?.role;
 
   if (q.isPending) return <PageLoading label="Loading the team…" />;
-  if (q.isError) return <ErrorState error={q.error} retry={() => q.refetch()} />;
+  if (q.isError) return <ErrorState error={q.error} retry={() => q.refetch()}><Link to="/teams">See all teams</Link></ErrorState>;
   const t = q.data;
   return (
     <div>
@@ -35,7 +35,7 @@ export function Component() {
         </div>
         {t.description && <p className="mt-2">{t.description}</p>}
       </PageHeader>
-      <div className="grid items-start gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+      <div className="grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <Panel title="Members" description={<span className="num">{t.members.length} {t.members.length === 1 ? 'person' : 'people'}</span>}>
           {t.members.length === 0 ? (
             <EmptyState title="No members">This team has no members.</EmptyState>

@@ -18,7 +18,7 @@ export function Component() {
       <PageHeader title="Teams">
         <p>The groups posting estimates, on the quantum-hardware track or the classical-simulation track.</p>
       </PageHeader>
-      <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_22rem]">
+      <div className="grid grid-cols-1 gap-8 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <section aria-label="All teams">
           {q.isPending ? (
             <PageLoading label="Loading the teams…" />
