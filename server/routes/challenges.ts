@@ -17,6 +17,7 @@ import { badRequest, notFound } from '../errors';
 import { createChallengeVersion, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { parseBody } from '../validate';
+import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
 import type { Request } from 'express';
 
@@ -119,12 +120,19 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
         .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))
         .leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, v.id)).orderBy(asc(targets.key));
       const now = ctx.now();
+      const st = await latestStandings(db, v.id);
+      const cons = new Map(((st?.payload as StandingsPayload | undefined)?.public.targets ?? []).map((x) => [x.key, x]));
       return {
-        version: v.version, checksum: v.checksum,
-        targets: rows.map((r) => ({
-          key: r.key, instance: r.instance, params: r.params, observable: r.observable, disputed: r.disputed, disputeNote: r.disputeNote,
-          reference: presentReference(r.ref, now),
-        })),
+        version: v.version, checksum: v.checksum, estimator: (st?.payload as StandingsPayload | undefined)?.estimator ?? null, standingsComputedAt: st?.computedAt ?? null,
+        targets: rows.map((r) => {
+          const k = cons.get(r.key);
+          return {
+            key: r.key, instance: r.instance, params: r.params, observable: r.observable,
+            disputed: r.disputed || Boolean(k?.disputed), disputeNote: r.disputeNote,
+            reference: presentReference(r.ref, now),
+            consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed } : null,
+          };
+        }),
       };
     },
   });

@@ -5,6 +5,10 @@ import { registerMeRoutes } from './me';
 import { registerTeamRoutes } from './teams';
 import { registerAdminRoutes } from './admin';
 import { registerChallengeRoutes } from './challenges';
+import { registerEntryRoutes } from './entries';
+import { registerOpenApiRoutes } from './openapi';
+import { registerStandingsRoutes } from './standings';
+import '../jobs/standings-job';
 
 export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerHealthRoutes(routes, ctx);
@@ -12,4 +16,7 @@ export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerTeamRoutes(routes, ctx);
   registerAdminRoutes(routes, ctx);
   registerChallengeRoutes(routes, ctx);
+  registerEntryRoutes(routes, ctx);
+  registerOpenApiRoutes(routes, ctx);
+  registerStandingsRoutes(routes, ctx);
 }

@@ -48,6 +48,8 @@ const MATRIX: Record<string, Probe> = {
   // nothing left to publish for the second caller
   'POST /challenges/:slug/publish': { row: { ...MODERATOR(200), admin: 409 }, path: () => '/api/challenges/matrix-chain/publish', body: () => ({}) },
   'GET /jobs/:jobId': { row: ALL_200, path: (i) => `/api/jobs/${i.jobId}` },
+  'GET /challenges/:slug/standings': { row: ALL_200, path: () => '/api/challenges/seeded-chain/standings' },
+  'GET /challenges/:slug/agreement': { row: ALL_200, path: () => '/api/challenges/seeded-chain/agreement' },
 };
 
 let t: TestApp;

@@ -1,0 +1,99 @@
+/** Standings, per-target consensus and the agreement matrix: read from the cached standings rows. */
+import { createHash } from 'node:crypto';
+import type { Request, Response } from 'express';
+import { and, eq, inArray } from 'drizzle-orm';
+import { PRIMARY_METRICS, rankRows, type PrimaryMetric, type StandingsResult } from '@shared/scoring/standings';
+import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
+import type { AppContext } from '../app';
+import { entries, estimates, organization } from '../db/schema';
+import { badRequest } from '../errors';
+import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+import { loadChallengeVersion } from './challenges';
+import type { RouteTable } from './registry';
+import { standingsCache } from './standings-cache';
+
+const TRACKS = ['all', 'hardware', 'classical'] as const;
+const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
+
+function parseQuery(req: Request, settings: { primaryMetric?: string }) {
+  const metric = (typeof req.query.metric === 'string' ? req.query.metric : settings.primaryMetric ?? 'rmse-verifiable') as PrimaryMetric;
+  if (!PRIMARY_METRICS.includes(metric)) throw badRequest(`metric must be one of ${PRIMARY_METRICS.join(', ')}`, [{ path: '/query/metric', message: `unknown metric "${metric}"` }]);
+  const track = (typeof req.query.track === 'string' && req.query.track ? req.query.track : 'all') as (typeof TRACKS)[number];
+  if (!TRACKS.includes(track)) throw badRequest('track must be hardware, classical or all', [{ path: '/query/track', message: `unknown track "${track}"` }]);
+  let asOf: Date | undefined;
+  if (typeof req.query.asOf === 'string' && req.query.asOf) {
+    asOf = new Date(req.query.asOf);
+    if (Number.isNaN(asOf.getTime())) throw badRequest('asOf must be a date, e.g. 2026-11-30 or 2026-11-30T12:00:00Z', [{ path: '/query/asOf', message: 'not a date' }]);
+  }
+  const view: 'public' | 'private' = req.query.view === 'private' && isModerator(req) ? 'private' : 'public';
+  return { metric, track, asOf, view };
+}
+
+function send(req: Request, res: Response, body: string, etag: string) {
+  res.setHeader('ETag', etag);
+  res.setHeader('Cache-Control', 'public, max-age=0, must-revalidate');
+  if (req.headers['if-none-match'] === etag) { res.status(304).end(); return; }
+  res.type('application/json').send(body);
+}
+
+export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): void {
+  const { db } = ctx;
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/standings', access: 'public', summary: 'Ranked standings (?track=hardware|classical, ?metric=, ?asOf= a past date, ?version=)',
+    handler: async (req, res) => {
+      const { challenge: c, version: v } = await loadChallengeVersion(db, req);
+      const q = parseQuery(req, c.settings as { primaryMetric?: string });
+      const key = `${v.id}|${q.view}|${q.track}|${q.metric}`;
+      const hit = q.asOf ? undefined : standingsCache.get(key);
+      if (hit) return send(req, res, hit.body, hit.etag);
+      const row = await latestStandings(db, v.id, q.asOf);
+      const payload = row?.payload as StandingsPayload | undefined;
+      const result = payload?.[q.view];
+      const rows = (result?.entries ?? []).filter((e) => q.track === 'all' || e.track === q.track);
+      const ranked = rankRows(rows, q.metric).map(({ row: r, rank, tiedWithPrevious }) => ({ ...r, rank, tiedWithPrevious }));
+      const body = JSON.stringify({
+        challenge: c.slug, version: v.version, checksum: v.checksum,
+        status: row ? 'ready' : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
+        estimator: payload?.estimator ?? null, metric: q.metric, metrics: PRIMARY_METRICS, track: q.track, view: q.view, asOf: q.asOf ?? null,
+        counts: result?.counts ?? null,
+        entries: ranked,
+      });
+      const etag = `"${createHash('sha1').update(body).digest('base64url')}"`;
+      if (!q.asOf) standingsCache.set(key, body, etag);
+      send(req, res, body, etag);
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/agreement', access: 'public', summary: 'Pairwise degrees of equivalence between entries: for one ?target=, or |d|/U averaged over the targets without exact reference',
+    handler: async (req) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const row = await latestStandings(db, v.id);
+      const result = (row?.payload as StandingsPayload | undefined)?.public as StandingsResult | undefined;
+      const labels = new Map((result?.entries ?? []).map((e) => [e.id, { label: e.label, teamName: e.teamName, track: e.track }]));
+      const target = typeof req.query.target === 'string' ? req.query.target : '';
+      if (!target) {
+        return {
+          mode: 'average-unverifiable', computedAt: row?.computedAt ?? null,
+          entries: (result?.agreement.entryIds ?? []).map((id) => ({ id, ...labels.get(id) })),
+          meanRatio: result?.agreement.meanRatio ?? [], targets: result?.agreement.targets ?? [],
+        };
+      }
+      const ids = result?.entries.map((e) => e.id) ?? [];
+      const est = ids.length ? await db.select({ entryId: estimates.entryId, value: estimates.value, u: estimates.uncertainty })
+        .from(estimates).innerJoin(entries, eq(entries.id, estimates.entryId))
+        .innerJoin(organization, eq(organization.id, entries.teamId))
+        .where(and(inArray(estimates.entryId, ids), eq(estimates.targetKey, target))) : [];
+      const order = ids.filter((id) => est.some((e) => e.entryId === id));
+      const ms = order.map((id) => { const e = est.find((x) => x.entryId === id)!; return { value: e.value, uncertainty: e.u }; });
+      const pw = pairwiseEquivalence(ms);
+      return {
+        mode: 'target', target, computedAt: row?.computedAt ?? null,
+        entries: order.map((id, i) => ({ id, ...labels.get(id), value: ms[i].value, uncertainty: ms[i].uncertainty })),
+        d: pw.d, U: pw.U, ratio: pw.d.map((r, i) => r.map((d, j) => equivalenceRatio(d, pw.U[i][j]))),
+        consensus: result?.targets.find((t) => t.key === target) ?? null,
+      };
+    },
+  });
+}

@@ -1,0 +1,142 @@
+/**
+ * Standings end to end: a small published challenge, five entries, the cached standings and the
+ * consensus values equal what the scoring library gives for the same numbers.
+ */
+import { randomUUID } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
+import { startWorker, type Worker } from '../../server/jobs/worker';
+import { entries, estimates, organization, targets, references } from '../../server/db/schema';
+import { recomputeStandings } from '../../server/services/recompute-standings';
+import { consensus, scoreSweep, degreesOfEquivalence } from '../../shared/scoring';
+
+let t: TestApp;
+let worker: Worker;
+const SPEC = {
+  id: 'st-chain', version: 1, title: 'Standings chain', description: 'five entries',
+  lattice: { kind: 'chain', n: 6 },
+  circuit: { family: 'kicked-ising', steps: [1, 2], thetaH: [0.3, 0.7] },
+  observables: [{ id: 'z2', pauli: 'Z2' }],
+};
+// invented test numbers: five entries x four targets (value, uncertainty)
+const NUMBERS: Record<string, [number, number][]> = {
+  A: [[0.95, 0.01], [0.76, 0.02], [0.80, 0.03], [0.30, 0.05]],
+  B: [[0.96, 0.02], [0.77, 0.02], [0.78, 0.02], [0.35, 0.04]],
+  C: [[0.94, 0.05], [0.70, 0.05], [0.85, 0.05], [0.20, 0.06]],
+  D: [[0.90, 0.01], [0.79, 0.01], [0.60, 0.01], [0.10, 0.01]],
+  E: [[0.955, 0.003], [0.765, 0.003], [0.81, 0.02], [0.33, 0.02]],
+};
+let keys: string[] = [];
+const ids: Record<string, string> = {};
+
+beforeAll(async () => {
+  t = await makeTestApp();
+  const mod = await signUpVerified(t, 'mod@s.test');
+  await setRole(t, 'mod@s.test', 'moderator');
+  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  t.ctx.jobs.kick = () => worker.kick();
+  expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
+  expect((await mod.post('/api/challenges/st-chain/publish', {})).status).toBe(200);
+  for (let i = 0; i < 300 && (await t.database.db.query.jobs.findMany()).some((j) => j.state !== 'done' && j.state !== 'failed'); i++) { await worker.idle(); await new Promise((r) => setTimeout(r, 100)); }
+  const db = t.database.db;
+  const tg = await db.select({ id: targets.id, key: targets.key, versionId: targets.versionId }).from(targets).orderBy(targets.key);
+  keys = tg.map((x) => x.key);
+  // the last two targets become unverifiable: drop their references (as if no exact method existed)
+  for (const x of tg.slice(2)) await db.update(references).set({ value: null, method: 'none', reason: 'test: treated as unknown' }).where(eq(references.targetId, x.id));
+  await db.insert(organization).values({ id: 'team-s', name: 'Team S', slug: 'team-s' });
+  let n = 0;
+  for (const [name, nums] of Object.entries(NUMBERS)) {
+    const id = randomUUID();
+    ids[name] = id;
+    await db.insert(entries).values({ id, lineageId: id, challengeSlug: 'st-chain', versionId: tg[0].versionId, teamId: 'team-s', state: 'published', track: name === 'D' ? 'hardware' : 'classical', methodFamily: 'other', label: `entry ${name}`, document: { resources: { cpuCoreHours: 10 - n } }, submittedAt: new Date(Date.now() + n * 1000), publishedAt: new Date() });
+    await db.insert(estimates).values(nums.map(([value, u], k) => ({ entryId: id, targetKey: keys[k], value, uncertainty: u, kind: 'statistical' })));
+    n++;
+  }
+  await recomputeStandings(db, tg[0].versionId);
+}, 120_000);
+afterAll(async () => { await worker.stop(); await t.close(); });
+
+describe('standings and consensus', () => {
+  it('consensus per unverifiable target equals the library (DerSimonian-Laird by default)', async () => {
+    const r = await agent(t).get('/api/challenges/st-chain/targets');
+    expect(r.status).toBe(200);
+    expect(r.body.estimator).toBe('random-effects-dl');
+    const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
+    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
+    for (const k of [2, 3]) {
+      const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
+      const b = baseEst.find((e) => e.targetKey === keys[k]);
+      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty }); // the house baseline is published first
+      const lib = consensus(ms, 'random-effects-dl');
+      const got = r.body.targets.find((x: any) => x.key === keys[k]);
+      expect(got.reference.status).toBe('none');
+      expect(got.consensus.value).toBeCloseTo(lib.value, 12);
+      expect(got.consensus.uncertainty).toBeCloseTo(lib.uncertainty, 12);
+      expect(got.consensus.chi2).toBeCloseTo(lib.inputTest.chi2, 10);
+    }
+  });
+
+  it('entry metrics equal scoreSweep and the median |d|/U of the library, and the ranking follows RMSE', async () => {
+    const r = await agent(t).get('/api/challenges/st-chain/standings');
+    expect(r.status).toBe(200);
+    expect(r.body.status).toBe('ready');
+    const refs = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
+    const rows = r.body.entries.filter((e: any) => !e.isBaseline);
+    expect(rows).toHaveLength(5);
+    for (const row of rows) {
+      const name = row.label.split(' ')[1];
+      const nums = NUMBERS[name];
+      const s = scoreSweep(keys.map((key, k) => ({ targetId: key, estimate: { value: nums[k][0], uncertainty: nums[k][1] }, reference: refs[k].reference.status === 'exact' ? { value: refs[k].reference.value } : undefined })));
+      expect(row.metrics.rmseVerifiable).toBeCloseTo(s.verifiable.rmse, 12);
+      expect(row.metrics.meanZ2Verifiable).toBeCloseTo(s.verifiable.meanZ2, 9);
+      expect(row.metrics.gridCoverage).toBe(1);
+    }
+    const rmses = r.body.entries.map((e: any) => e.metrics.rmseVerifiable);
+    expect([...rmses].sort((a: number, b: number) => a - b)).toEqual(rmses);
+    expect(r.body.entries.map((e: any) => e.rank)).toEqual(r.body.entries.map((_: unknown, i: number) => i + 1));
+  });
+
+  it('agreement of an entry is the median |d|/U over unverifiable targets', async () => {
+    const r = await agent(t).get('/api/challenges/st-chain/standings');
+    const d = r.body.entries.find((e: any) => e.label === 'entry D');
+    const targetsR = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
+    const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
+    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
+    const ratios = [2, 3].map((k) => {
+      const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
+      const b = baseEst.find((e) => e.targetKey === keys[k]);
+      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty });
+      const c = consensus(ms, 'random-effects-dl');
+      const doe = degreesOfEquivalence(ms, c)[b ? 4 : 3];
+      expect(targetsR[k].consensus).toBeTruthy();
+      return Math.abs(doe.d) / doe.U;
+    }).sort((a, b) => a - b);
+    expect(d.metrics.agreementMedianRatio).toBeCloseTo((ratios[0] + ratios[1]) / 2, 12);
+  });
+
+  it('filters by track, reranks, validates the query and reconstructs a past date', async () => {
+    const hw = await agent(t).get('/api/challenges/st-chain/standings?track=hardware');
+    expect(hw.body.entries.map((e: any) => [e.label, e.rank])).toEqual([['entry D', 1]]);
+    const bad = await agent(t).get('/api/challenges/st-chain/standings?metric=speed');
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.message).toContain('metric must be one of');
+    const past = await agent(t).get('/api/challenges/st-chain/standings?asOf=2000-01-01');
+    expect(past.body).toMatchObject({ status: 'pending', entries: [] });
+    const etag = hw.headers.etag;
+    const again = await agent(t).raw.get('/api/challenges/st-chain/standings?track=hardware').set('If-None-Match', etag);
+    expect(again.status).toBe(304);
+  });
+
+  it('serves the pairwise agreement for a target', async () => {
+    const r = await agent(t).get(`/api/challenges/st-chain/agreement?target=${encodeURIComponent(keys[3])}`);
+    expect(r.status).toBe(200);
+    const i = r.body.entries.findIndex((e: any) => e.label === 'entry A');
+    const j = r.body.entries.findIndex((e: any) => e.label === 'entry D');
+    expect(r.body.d[i][j]).toBeCloseTo(0.30 - 0.10, 12);
+    expect(r.body.U[i][j]).toBeCloseTo(2 * Math.hypot(0.05, 0.01), 12);
+    const avg = await agent(t).get('/api/challenges/st-chain/agreement');
+    expect(avg.body.mode).toBe('average-unverifiable');
+    expect(avg.body.meanRatio.length).toBe(avg.body.entries.length);
+  });
+});
