@@ -48,14 +48,14 @@ export function ApiKeysPanel({ teamId }: { teamId: string }) {
       ) : (
         <Table data-testid="api-keys">
           <thead>
-            <tr><Th>Name</Th><Th>Starts with</Th><Th num>Created</Th><Th num>Expires</Th><Th num>Last used</Th><Th><span className="sr-only">Actions</span></Th></tr>
+            <tr><Th>Name</Th><Th>Starts with</Th><Th num className="hidden sm:table-cell">Created</Th><Th num>Expires</Th><Th num>Last used</Th><Th><span className="sr-only">Actions</span></Th></tr>
           </thead>
           <tbody>
             {keys.data.keys.map((k) => (
               <tr key={k.id}>
                 <Td>{k.name ?? '—'}</Td>
                 <Td><code>{k.start ?? '—'}…</code></Td>
-                <Td num className="whitespace-nowrap">{formatDate(k.createdAt)}</Td>
+                <Td num className="hidden whitespace-nowrap sm:table-cell">{formatDate(k.createdAt)}</Td>
                 <Td num className="whitespace-nowrap">{formatDate(k.expiresAt)}</Td>
                 <Td num className="whitespace-nowrap">{k.lastRequest ? formatDate(k.lastRequest) : 'never'}</Td>
                 <Td className="text-right">
