@@ -416,12 +416,45 @@ describe('truncation', () => {
 });
 
 describe('bookkeeping', () => {
-  it('progress is reported for every gate, ending at total', () => {
+  it('progress is reported after every gate (or fused block of diagonal Cliffords), increasing to total', () => {
     const c = kickedIsing(6, ring(6), 2, 0.3);
     const seen: [number, number][] = [];
     propagate(c, obs([{ qubit: 0, op: 'Z' }]), { onProgress: (d, t) => seen.push([d, t]) });
-    expect(seen.length).toBe(c.gates.length);
+    // 2 steps: 6 RX each (one report per rotation) and one fused block of 6 RZZ(-pi/2) each
+    expect(seen.length).toBe(2 * (6 + 1));
+    for (let k = 1; k < seen.length; k++) expect(seen[k][0]).toBeGreaterThan(seen[k - 1][0]);
     expect(seen[seen.length - 1]).toEqual([c.gates.length, c.gates.length]);
+    const seen2: number[] = [];
+    propagate(kickedIsing(6, ring(6), 2, 0.3, 0.9), obs([{ qubit: 0, op: 'Z' }]), { onProgress: (d) => seen2.push(d) });
+    expect(seen2.length).toBe(c.gates.length); // generic thetaJ: every gate is a rotation
+  });
+
+  it('fused diagonal Clifford blocks agree with gate-by-gate application (CZ, S, Z, Sdg, RZ and RZZ at Clifford angles, then H)', () => {
+    const r = rng(31);
+    for (let rep = 0; rep < 40; rep++) {
+      const n = 5;
+      const gates: Gate[] = [];
+      for (let k = 0; k < 12; k++) {
+        const a = Math.floor(r() * n);
+        const b = (a + 1 + Math.floor(r() * (n - 1))) % n;
+        const kind = Math.floor(r() * 6);
+        const q = (Math.floor(r() * 8) - 4) * (Math.PI / 2);
+        gates.push(
+          kind === 0 ? g2('cz', a, b) : kind === 1 ? g1('s', a) : kind === 2 ? g1('sdg', a) : kind === 3 ? g1('z', a)
+            : kind === 4 ? g1('rz', a, q) : g2('rzz', a, b, q),
+        );
+        if (r() < 0.15) gates.push(g1('rx', a, 0.4 + r())); // breaks runs
+      }
+      const prep = randomCircuit(r, n, 15);
+      const f = randomFactors(r, n);
+      const fused = propagate(circ(n, [...prep, ...gates]), obs(f)).value;
+      // interleave identities-in-disguise (rx by 0 is Clifford but not diagonal) to force gate-by-gate
+      const split: Gate[] = [];
+      for (const g of gates) split.push(g, g1('rx', 0, 0));
+      const single = propagate(circ(n, [...prep, ...split]), obs(f)).value;
+      expect(Math.abs(fused - single)).toBeLessThan(1e-12);
+      expect(Math.abs(fused - qcExpectation(n, [...prep, ...gates], f))).toBeLessThan(1e-10); // quantum-circuit
+    }
   });
   it('updates count the terms present at each non-Clifford rotation', () => {
     // one qubit, RX(a) then RX(b): going backwards, 1 term at the first rotation met, 2 at the second
