@@ -17,11 +17,15 @@ function spec(id: string, lattice: ChallengeSpec['lattice'], circuit: ChallengeS
 }
 
 const cases: ChallengeSpec[] = [];
-// heavy-hex 13 x 14 cells = 1017 qubits; 10 steps x 10 thetaH x 10 single-site observables
+// heavy-hex 13 x 14 cells = 1017 qubits; 10 steps x 10 thetaH x (9 single-site observables + the
+// 1,017-term magnetisation)
 cases.push(
   spec('heavy-hex-1017', { kind: 'heavy-hex', rows: 13, cols: 14 },
     { family: 'kicked-ising', steps: [1, 2, 3, 4, 5, 6, 8, 10, 15, 20], thetaH: grid(10, HALF_PI) },
-    Array.from({ length: 10 }, (_, i) => (i % 3 === 2 ? { id: `x${i * 97}`, pauli: `X${i * 97}` } : { id: `z${i * 97}`, pauli: `Z${i * 97}` }))),
+    [
+      ...Array.from({ length: 9 }, (_, i) => (i % 3 === 2 ? { id: `x${i * 97}`, pauli: `X${i * 97}` } : { id: `z${i * 97}`, pauli: `Z${i * 97}` })),
+      { id: 'mz', terms: Array.from({ length: 1017 }, (_, i) => ({ coef: 1 / 1017, pauli: `Z${i}` })) },
+    ]),
 );
 // 1000-site chain with magnetisation sums (1,000 terms each): free-fermion and term bounds per term
 cases.push(
