@@ -65,6 +65,11 @@ export interface StatevectorOptions {
   onProgress?: ProgressCallback;
   /** Disable fusion (one pass per gate); for tests and benchmarks. Default false. */
   noFusion?: boolean;
+  /**
+   * 'wasm' (default where WebAssembly SIMD is available and n <= WASM_MAX_QUBITS) or 'js'
+   * (plain typed-array kernels; always available).
+   */
+  engine?: 'wasm' | 'js';
 }
 
 export function checkQubitLimit(nQubits: number, maxQubits: number = DEFAULT_MAX_QUBITS): void {
@@ -172,13 +177,46 @@ function termAngle(t: DiagTerm, index: number): number {
 
 // ------------------------------------------------------------------------------------------------
 // Kernels on the interleaved array d (amplitude i at d[2i], d[2i+1]).
+//
+// Scalar JS is compute-bound in cache and latency-bound when streaming from memory, so:
+//  - RX-form matrices [[c, -is], [-is, c]] with |c| >= 1/2 are applied as c * (1 - i t X), t = s/c
+//    (4 multiplies per pair instead of 8); the scalars c are collected and folded into one
+//    general matrix or into the diagonal pass of the same flush;
+//  - the first kernel that streams a region from memory issues one extra load per cache line,
+//    PF doubles ahead (a software prefetch: its value goes to a sink so it is not eliminated).
 
-/** Apply m to the amplitude pairs (off0 + k, off1 + k), k = 0..len-1. */
-function pairKernel(d: Float64Array, off0: number, off1: number, len: number, m: Mat2): void {
+/** Prefetch distance in doubles (4 KiB ahead). */
+const PF = 512;
+let prefetchSink = 0;
+/** Read by nothing; exported so that the prefetch loads stay live. */
+export function _prefetchSink(): number {
+  return prefetchSink;
+}
+
+/**
+ * General 2x2 on pairs (off0 + k, off1 + k), k < len (amplitude units). When pf is true the loop
+ * prefetches both streams (len must be a multiple of 4 then).
+ */
+function pairGen(d: Float64Array, off0: number, off1: number, len: number, m: Mat2, pf: boolean): void {
   const m0r = m[0], m0i = m[1], m1r = m[2], m1i = m[3], m2r = m[4], m2i = m[5], m3r = m[6], m3i = m[7];
   let a = 2 * off0;
   let b = 2 * off1;
   const end = a + 2 * len;
+  if (pf) {
+    const lim = Math.min(end, d.length - PF - (b - a), d.length - PF);
+    let sink = 0;
+    for (; a < lim; a += 8, b += 8) {
+      sink += d[a + PF] + d[b + PF];
+      for (let k = 0; k < 8; k += 2) {
+        const xr = d[a + k], xi = d[a + k + 1], yr = d[b + k], yi = d[b + k + 1];
+        d[a + k] = m0r * xr - m0i * xi + m1r * yr - m1i * yi;
+        d[a + k + 1] = m0r * xi + m0i * xr + m1r * yi + m1i * yr;
+        d[b + k] = m2r * xr - m2i * xi + m3r * yr - m3i * yi;
+        d[b + k + 1] = m2r * xi + m2i * xr + m3r * yi + m3i * yr;
+      }
+    }
+    prefetchSink += sink;
+  }
   for (; a < end; a += 2, b += 2) {
     const xr = d[a], xi = d[a + 1], yr = d[b], yi = d[b + 1];
     d[a] = m0r * xr - m0i * xi + m1r * yr - m1i * yi;
@@ -188,25 +226,56 @@ function pairKernel(d: Float64Array, off0: number, off1: number, len: number, m:
   }
 }
 
-/** Same as pairKernel for a matrix of the RX form [[c, -i s], [-i s, c]] (c, s real). */
-function pairKernelRx(d: Float64Array, off0: number, off1: number, len: number, c: number, s: number): void {
+/** (1 - i t X) on pairs (off0 + k, off1 + k), k < len. */
+function pairTan(d: Float64Array, off0: number, off1: number, len: number, t: number, pf: boolean): void {
   let a = 2 * off0;
   let b = 2 * off1;
   const end = a + 2 * len;
+  if (pf) {
+    const lim = Math.min(end, d.length - PF - (b - a), d.length - PF);
+    let sink = 0;
+    for (; a < lim; a += 8, b += 8) {
+      sink += d[a + PF] + d[b + PF];
+      for (let k = 0; k < 8; k += 2) {
+        const xr = d[a + k], xi = d[a + k + 1], yr = d[b + k], yi = d[b + k + 1];
+        d[a + k] = xr + t * yi;
+        d[a + k + 1] = xi - t * yr;
+        d[b + k] = yr + t * xi;
+        d[b + k + 1] = yi - t * xr;
+      }
+    }
+    prefetchSink += sink;
+  }
   for (; a < end; a += 2, b += 2) {
     const xr = d[a], xi = d[a + 1], yr = d[b], yi = d[b + 1];
-    d[a] = c * xr + s * yi;
-    d[a + 1] = c * xi - s * yr;
-    d[b] = c * yr + s * xi;
-    d[b + 1] = c * yi - s * xr;
+    d[a] = xr + t * yi;
+    d[a + 1] = xi - t * yr;
+    d[b] = yr + t * xi;
+    d[b + 1] = yi - t * xr;
   }
 }
 
-/** Gate on qubit 0 over amplitudes [start, end): adjacent pairs. */
-function q0Kernel(d: Float64Array, start: number, end: number, m: Mat2): void {
+/** General 2x2 on qubit 0 over amplitudes [start, end). */
+function q0Gen(d: Float64Array, start: number, end: number, m: Mat2, pf: boolean): void {
   const m0r = m[0], m0i = m[1], m1r = m[2], m1i = m[3], m2r = m[4], m2i = m[5], m3r = m[6], m3i = m[7];
+  let a = 2 * start;
   const e = 2 * end;
-  for (let a = 2 * start; a < e; a += 4) {
+  if (pf) {
+    const lim = Math.min(e, d.length - PF);
+    let sink = 0;
+    for (; a < lim; a += 8) {
+      sink += d[a + PF];
+      for (let k = 0; k < 8; k += 4) {
+        const xr = d[a + k], xi = d[a + k + 1], yr = d[a + k + 2], yi = d[a + k + 3];
+        d[a + k] = m0r * xr - m0i * xi + m1r * yr - m1i * yi;
+        d[a + k + 1] = m0r * xi + m0i * xr + m1r * yi + m1i * yr;
+        d[a + k + 2] = m2r * xr - m2i * xi + m3r * yr - m3i * yi;
+        d[a + k + 3] = m2r * xi + m2i * xr + m3r * yi + m3i * yr;
+      }
+    }
+    prefetchSink += sink;
+  }
+  for (; a < e; a += 4) {
     const xr = d[a], xi = d[a + 1], yr = d[a + 2], yi = d[a + 3];
     d[a] = m0r * xr - m0i * xi + m1r * yr - m1i * yi;
     d[a + 1] = m0r * xi + m0i * xr + m1r * yi + m1i * yr;
@@ -215,19 +284,60 @@ function q0Kernel(d: Float64Array, start: number, end: number, m: Mat2): void {
   }
 }
 
-/** Gate on qubit 1 over amplitudes [start, end) (start a multiple of 4). */
-function q1Kernel(d: Float64Array, start: number, end: number, m: Mat2): void {
-  const m0r = m[0], m0i = m[1], m1r = m[2], m1i = m[3], m2r = m[4], m2i = m[5], m3r = m[6], m3i = m[7];
+/** (1 - i t X) on qubit 0 over amplitudes [start, end). */
+function q0Tan(d: Float64Array, start: number, end: number, t: number): void {
   const e = 2 * end;
-  for (let base = 2 * start; base < e; base += 8) {
-    for (let a = base; a < base + 4; a += 2) {
-      const b = a + 4;
-      const xr = d[a], xi = d[a + 1], yr = d[b], yi = d[b + 1];
-      d[a] = m0r * xr - m0i * xi + m1r * yr - m1i * yi;
-      d[a + 1] = m0r * xi + m0i * xr + m1r * yi + m1i * yr;
-      d[b] = m2r * xr - m2i * xi + m3r * yr - m3i * yi;
-      d[b + 1] = m2r * xi + m2i * xr + m3r * yi + m3i * yr;
-    }
+  for (let a = 2 * start; a < e; a += 4) {
+    const xr = d[a], xi = d[a + 1], yr = d[a + 2], yi = d[a + 3];
+    d[a] = xr + t * yi;
+    d[a + 1] = xi - t * yr;
+    d[a + 2] = yr + t * xi;
+    d[a + 3] = yi - t * xr;
+  }
+}
+
+/** Two RX-form gates (1 - i t0 X) on qubit 0 and (1 - i t1 X) on qubit 1, over [start, end). */
+function q01Tan(d: Float64Array, start: number, end: number, t0: number, t1: number): void {
+  const e = 2 * end;
+  for (let a = 2 * start; a < e; a += 8) {
+    const r0 = d[a], i0 = d[a + 1], r1 = d[a + 2], i1 = d[a + 3];
+    const r2 = d[a + 4], i2 = d[a + 5], r3 = d[a + 6], i3 = d[a + 7];
+    // qubit 0: pairs (0, 1), (2, 3)
+    const s0r = r0 + t0 * i1, s0i = i0 - t0 * r1, s1r = r1 + t0 * i0, s1i = i1 - t0 * r0;
+    const s2r = r2 + t0 * i3, s2i = i2 - t0 * r3, s3r = r3 + t0 * i2, s3i = i3 - t0 * r2;
+    // qubit 1: pairs (0, 2), (1, 3)
+    d[a] = s0r + t1 * s2i;
+    d[a + 1] = s0i - t1 * s2r;
+    d[a + 4] = s2r + t1 * s0i;
+    d[a + 5] = s2i - t1 * s0r;
+    d[a + 2] = s1r + t1 * s3i;
+    d[a + 3] = s1i - t1 * s3r;
+    d[a + 6] = s3r + t1 * s1i;
+    d[a + 7] = s3i - t1 * s1r;
+  }
+}
+
+/**
+ * Two RX-form gates on bits with strides sa < sb (amplitude units, sa >= 2): (1 - i ta X) on the
+ * sa bit, (1 - i tb X) on the sb bit, on quadruples (o, o+sa, o+sb, o+sa+sb), o = base + k, k < len.
+ */
+function quadTan(d: Float64Array, base: number, sa: number, sb: number, len: number, ta: number, tb: number): void {
+  let p0 = 2 * base;
+  const p1 = 2 * sa, p2 = 2 * sb, p3 = p1 + p2;
+  const end = p0 + 2 * len;
+  for (; p0 < end; p0 += 2) {
+    const r0 = d[p0], i0 = d[p0 + 1], r1 = d[p0 + p1], i1 = d[p0 + p1 + 1];
+    const r2 = d[p0 + p2], i2 = d[p0 + p2 + 1], r3 = d[p0 + p3], i3 = d[p0 + p3 + 1];
+    const s0r = r0 + ta * i1, s0i = i0 - ta * r1, s1r = r1 + ta * i0, s1i = i1 - ta * r0;
+    const s2r = r2 + ta * i3, s2i = i2 - ta * r3, s3r = r3 + ta * i2, s3i = i3 - ta * r2;
+    d[p0] = s0r + tb * s2i;
+    d[p0 + 1] = s0i - tb * s2r;
+    d[p0 + p2] = s2r + tb * s0i;
+    d[p0 + p2 + 1] = s2i - tb * s0r;
+    d[p0 + p1] = s1r + tb * s3i;
+    d[p0 + p1 + 1] = s1i - tb * s3r;
+    d[p0 + p3] = s3r + tb * s1i;
+    d[p0 + p3 + 1] = s3i - tb * s1r;
   }
 }
 
@@ -235,100 +345,146 @@ function isRxForm(m: Mat2): boolean {
   return m[1] === 0 && m[7] === 0 && m[0] === m[6] && m[2] === 0 && m[4] === 0 && m[3] === m[5];
 }
 
-/** Apply m on qubit q to amplitudes [start, end) (a whole number of 2^(q+1) blocks). */
-function applyOnRange(d: Float64Array, q: number, start: number, end: number, m: Mat2): void {
-  if (q === 0) { q0Kernel(d, start, end, m); return; }
-  if (q === 1) { q1Kernel(d, start, end, m); return; }
+/** One single-qubit operation of a flush: a general matrix, or c * (1 - i t X) with t finite. */
+interface SingleOp {
+  q: number;
+  m: Mat2;
+  /** NaN for general matrices */
+  t: number;
+}
+
+/** Apply op on qubit op.q to amplitudes [start, end) (a whole number of 2^(q+1) blocks). */
+function applyOnRange(d: Float64Array, op: SingleOp, start: number, end: number, pf: boolean): void {
+  const q = op.q;
+  const isTan = op.t === op.t;
+  if (q === 0) {
+    if (isTan) q0Tan(d, start, end, op.t);
+    else q0Gen(d, start, end, op.m, pf);
+    return;
+  }
   const s = 1 << q;
-  if (isRxForm(m)) {
-    const c = m[0], sn = -m[3];
-    for (let base = start; base < end; base += 2 * s) pairKernelRx(d, base, base + s, s, c, sn);
-  } else {
-    for (let base = start; base < end; base += 2 * s) pairKernel(d, base, base + s, s, m);
+  const pfOk = pf && s >= 4;
+  if (isTan) for (let base = start; base < end; base += 2 * s) pairTan(d, base, base + s, s, op.t, pfOk);
+  else for (let base = start; base < end; base += 2 * s) pairGen(d, base, base + s, s, op.m, pfOk);
+}
+
+/** Apply low-qubit ops to [start, end) (in cache), pairing RX-form gates two at a time. */
+function applyLowOps(d: Float64Array, ops: SingleOp[], start: number, end: number, pfFirst: boolean): void {
+  let i = 0;
+  if (pfFirst && ops.length > 0) {
+    applyOnRange(d, ops[0], start, end, true);
+    i = 1;
+  }
+  while (i < ops.length) {
+    const a = ops[i], b = ops[i + 1];
+    if (b !== undefined && a.t === a.t && b.t === b.t) {
+      if (a.q === 0 && b.q === 1) q01Tan(d, start, end, a.t, b.t);
+      else {
+        const sa = 2 ** a.q, sb = 2 ** b.q; // a.q < b.q (sorted), a.q >= 1 here
+        if (sa === 1) {
+          // qubit 0 with a non-adjacent partner: do them one by one
+          applyOnRange(d, a, start, end, false);
+          applyOnRange(d, b, start, end, false);
+        } else {
+          for (let hi = start; hi < end; hi += 2 * sb) {
+            for (let lo = hi; lo < hi + sb; lo += 2 * sa) quadTan(d, lo, sa, sb, sa, a.t, b.t);
+          }
+        }
+      }
+      i += 2;
+    } else {
+      applyOnRange(d, a, start, end, false);
+      i++;
+    }
   }
 }
 
-/** Tuning: low qubits (q < BLOCK_BITS) are applied together per block of 2^BLOCK_BITS amplitudes. */
-export const BLOCK_BITS = 12;
+/** Tuning: low qubits (q < BLOCK_BITS) are applied together per block of 2^BLOCK_BITS amplitudes;
+ * the diagonal phase table covers the same low qubits. */
+export const BLOCK_BITS = 11;
 /** High qubits are applied HIGH_GROUP at a time on 2^HIGH_GROUP runs of 2^RUN_BITS amplitudes. */
-export const HIGH_GROUP = 5;
-export const RUN_BITS = 10;
+export const HIGH_GROUP = 6;
+export const RUN_BITS = 9;
+/** At most this many distinct high qubits may be touched by gates crossing the low/high split. */
+export const DIAG_MAX_CROSS = 6;
 
 function insertZeroBit(u: number, pos: number): number {
   const low = u & ((1 << pos) - 1);
   return ((u >>> pos) << (pos + 1)) | low;
 }
 
-/**
- * Apply a set of single-qubit matrices on distinct qubits (they commute). Low qubits in one blocked
- * pass; high qubits in groups.
- */
-export function applySingles(d: Float64Array, n: number, qubits: number[], mats: Mat2[]): void {
-  const N = 2 ** n;
-  const blockBits = Math.min(n, BLOCK_BITS);
-  const low: number[] = [];
-  const high: number[] = [];
-  for (let i = 0; i < qubits.length; i++) (qubits[i] < blockBits ? low : high).push(i);
-  if (low.length > 0) {
-    const B = 1 << blockBits;
-    for (let start = 0; start < N; start += B) {
-      for (const i of low) applyOnRange(d, qubits[i], start, start + B, mats[i]);
-    }
-  }
-  if (high.length === 0) return;
-  high.sort((a, b) => qubits[a] - qubits[b]);
-  const runBits = Math.min(RUN_BITS, blockBits);
+function applyHighGroup(d: Float64Array, n: number, ops: SingleOp[], runBits: number): void {
+  const G = ops.length;
   const runLen = 1 << runBits;
-  for (let g0 = 0; g0 < high.length; g0 += HIGH_GROUP) {
-    const grp = high.slice(g0, g0 + HIGH_GROUP);
-    const G = grp.length;
-    const pos = grp.map((i) => qubits[i]); // ascending
-    const gm = grp.map((i) => mats[i]);
-    const rx = gm.map(isRxForm);
-    // offsets of the 2^G runs relative to a base
-    const offs = new Float64Array(1 << G);
-    for (let s = 0; s < 1 << G; s++) {
-      let o = 0;
-      for (let j = 0; j < G; j++) if (s & (1 << j)) o += 2 ** pos[j];
-      offs[s] = o;
-    }
-    const nBases = 2 ** (n - runBits - G);
-    for (let u = 0; u < nBases; u++) {
-      // expand u (in run units) by inserting zero bits at the group positions
-      let v = u;
-      for (let j = 0; j < G; j++) v = insertZeroBit(v, pos[j] - runBits);
-      const base = v * runLen;
-      for (let j = 0; j < G; j++) {
-        const bit = 1 << j;
-        const m = gm[j];
-        const isRx = rx[j];
-        const c = m[0], sn = -m[3];
-        for (let s = 0; s < 1 << G; s++) {
-          if (s & bit) continue;
-          const o0 = base + offs[s], o1 = base + offs[s | bit];
-          if (isRx) pairKernelRx(d, o0, o1, runLen, c, sn);
-          else pairKernel(d, o0, o1, runLen, m);
-        }
+  const pos = ops.map((o) => o.q); // ascending
+  const offs = new Float64Array(1 << G);
+  for (let s = 0; s < 1 << G; s++) {
+    let o = 0;
+    for (let j = 0; j < G; j++) if (s & (1 << j)) o += 2 ** pos[j];
+    offs[s] = o;
+  }
+  const nBases = 2 ** (n - runBits - G);
+  for (let u = 0; u < nBases; u++) {
+    let v = u;
+    for (let j = 0; j < G; j++) v = insertZeroBit(v, pos[j] - runBits);
+    const base = v * runLen;
+    for (let j = 0; j < G; j++) {
+      const bit = 1 << j;
+      const op = ops[j];
+      const isTan = op.t === op.t;
+      const pf = j === 0 && runLen >= 4;
+      for (let s = 0; s < 1 << G; s++) {
+        if (s & bit) continue;
+        const o0 = base + offs[s], o1 = base + offs[s | bit];
+        if (isTan) pairTan(d, o0, o1, runLen, op.t, pf);
+        else pairGen(d, o0, o1, runLen, op.m, pf);
       }
     }
   }
 }
 
-/** Tuning: diagonal passes use a phase table over the low DIAG_LOW_BITS qubits. */
-export const DIAG_LOW_BITS = 11;
-/** At most this many distinct high qubits may be touched by gates crossing the low/high split. */
-export const DIAG_MAX_CROSS = 6;
-
-/** Multiply the state by exp(i * sum of the terms' angles), in one pass (or a few, see above). */
-export function applyDiagonal(d: Float64Array, n: number, terms: DiagTerm[]): void {
-  if (terms.length === 0) return;
-  const W = Math.min(n, DIAG_LOW_BITS);
+/**
+ * One fused flush: the single-qubit matrices (distinct qubits, they commute), then the diagonal
+ * terms. High qubits in groups of HIGH_GROUP per pass; then one pass over blocks of 2^BLOCK_BITS
+ * amplitudes applies the low-qubit gates and the diagonal phase (and the collected scalars).
+ */
+export function applyFused(d: Float64Array, n: number, qubits: number[], mats: Mat2[], terms: DiagTerm[]): void {
+  const W = Math.min(n, BLOCK_BITS);
   const L = 1 << W;
+  const lowIdx: number[] = [];
+  const highIdx: number[] = [];
+  for (let i = 0; i < qubits.length; i++) (qubits[i] < W ? lowIdx : highIdx).push(i);
+  lowIdx.sort((a, b) => qubits[a] - qubits[b]);
+  highIdx.sort((a, b) => qubits[a] - qubits[b]);
+  // a low pass happens if there are low gates or diagonal terms: only then can scalars be folded
+  const lowPass = lowIdx.length > 0 || terms.length > 0;
+  let scR = 1, scI = 0;
+  const mkOp = (i: number, allowTan: boolean): SingleOp => {
+    const m = mats[i];
+    if (allowTan && isRxForm(m) && Math.abs(m[0]) >= 0.5) {
+      scR *= m[0];
+      return { q: qubits[i], m, t: -m[3] / m[0] };
+    }
+    return { q: qubits[i], m, t: NaN };
+  };
+  const highOps = highIdx.map((i) => mkOp(i, lowPass));
+  // the first low op stays general: the per-block scalar is folded into it
+  const lowOps = lowIdx.map((i, k) => mkOp(i, k > 0));
+  void scI;
+
+  // high passes
+  if (highOps.length > 0) {
+    const runBits = Math.min(RUN_BITS, W);
+    for (let g0 = 0; g0 < highOps.length; g0 += HIGH_GROUP) applyHighGroup(d, n, highOps.slice(g0, g0 + HIGH_GROUP), runBits);
+  }
+  if (!lowPass) return;
+
+  // diagonal plan
   const lowTerms: DiagTerm[] = [];
   const highTerms: DiagTerm[] = [];
   const crossTerms: DiagTerm[] = [];
   const extra: DiagTerm[] = [];
-  const cross: number[] = []; // distinct high qubits of crossing terms
+  const cross: number[] = [];
   for (const t of terms) {
     const nLow = t.qubits.filter((q) => q < W).length;
     if (nLow === t.qubits.length) lowTerms.push(t);
@@ -342,47 +498,460 @@ export function applyDiagonal(d: Float64Array, n: number, terms: DiagTerm[]): vo
       crossTerms.push(t);
     }
   }
+  const hasDiag = lowTerms.length + crossTerms.length > 0;
   const C = cross.length;
-  // low tables: for each configuration c of the crossing high qubits, exp(i angle) over low bits
   const tables: Float64Array[] = [];
-  const lowAngle = new Float64Array(L);
-  for (let l = 0; l < L; l++) {
-    let a = 0;
-    for (const t of lowTerms) a += termAngle(t, l);
-    lowAngle[l] = a;
-  }
-  for (let c = 0; c < 1 << C; c++) {
-    let hiBits = 0; // the high qubits set by c, as a full index
-    for (let j = 0; j < C; j++) if (c & (1 << j)) hiBits |= 1 << cross[j];
-    const tab = new Float64Array(2 * L);
+  if (hasDiag) {
+    const lowAngle = new Float64Array(L);
     for (let l = 0; l < L; l++) {
-      let a = lowAngle[l];
-      const idx = hiBits | l;
-      for (const t of crossTerms) a += termAngle(t, idx);
-      tab[2 * l] = Math.cos(a);
-      tab[2 * l + 1] = Math.sin(a);
+      let a = 0;
+      for (const t of lowTerms) a += termAngle(t, l);
+      lowAngle[l] = a;
     }
-    tables.push(tab);
+    for (let c = 0; c < 1 << C; c++) {
+      let hiBits = 0;
+      for (let j = 0; j < C; j++) if (c & (1 << j)) hiBits |= 1 << cross[j];
+      const tab = new Float64Array(2 * L);
+      for (let l = 0; l < L; l++) {
+        let a = lowAngle[l];
+        const idx = hiBits | l;
+        for (const t of crossTerms) a += termAngle(t, idx);
+        tab[2 * l] = Math.cos(a);
+        tab[2 * l + 1] = Math.sin(a);
+      }
+      tables.push(tab);
+    }
   }
+
+  const first = lowOps.length > 0 ? lowOps[0] : null;
+  const rest = lowOps.slice(1);
+  const scaled = new Float64Array(8);
   const H = 2 ** (n - W);
   for (let h = 0; h < H; h++) {
-    const hIndex = h * L; // < 2^30, safe for bitwise use
-    let a = 0;
-    for (const t of highTerms) a += termAngle(t, hIndex);
-    let c = 0;
-    for (let j = 0; j < C; j++) c |= ((hIndex >>> cross[j]) & 1) << j;
-    const pr = Math.cos(a), pi = Math.sin(a);
-    const tab = tables[c];
-    let o = 2 * hIndex;
-    for (let l = 0; l < 2 * L; l += 2, o += 2) {
-      const tr = tab[l], ti = tab[l + 1];
-      const fr = pr * tr - pi * ti, fi = pr * ti + pi * tr;
-      const xr = d[o], xi = d[o + 1];
-      d[o] = fr * xr - fi * xi;
-      d[o + 1] = fr * xi + fi * xr;
+    const hIndex = h * L;
+    // block scalar: collected RX scalars times the high-qubit diagonal phase
+    let pr = scR, pi = 0;
+    if (highTerms.length > 0) {
+      let a = 0;
+      for (const t of highTerms) a += termAngle(t, hIndex);
+      const cr = Math.cos(a), ci = Math.sin(a);
+      pr = scR * cr;
+      pi = scR * ci;
+    }
+    const start = hIndex, end = hIndex + L;
+    if (first) {
+      const m = first.m;
+      for (let k = 0; k < 8; k += 2) {
+        scaled[k] = pr * m[k] - pi * m[k + 1];
+        scaled[k + 1] = pr * m[k + 1] + pi * m[k];
+      }
+      applyOnRange(d, { q: first.q, m: scaled, t: NaN }, start, end, true);
+      applyLowOps(d, rest, start, end, false);
+    }
+    if (hasDiag) {
+      let c = 0;
+      for (let j = 0; j < C; j++) c |= ((hIndex >>> cross[j]) & 1) << j;
+      const tab = tables[c];
+      let o = 2 * hIndex;
+      if (first) {
+        for (let l = 0; l < 2 * L; l += 2, o += 2) {
+          const tr = tab[l], ti = tab[l + 1];
+          const xr = d[o], xi = d[o + 1];
+          d[o] = tr * xr - ti * xi;
+          d[o + 1] = tr * xi + ti * xr;
+        }
+      } else {
+        let sink = 0;
+        const pfOk = o + 2 * L + PF <= d.length;
+        for (let l = 0; l < 2 * L; l += 2, o += 2) {
+          if (pfOk && (l & 7) === 0) sink += d[o + PF];
+          const tr0 = tab[l], ti0 = tab[l + 1];
+          const tr = pr * tr0 - pi * ti0, ti = pr * ti0 + pi * tr0;
+          const xr = d[o], xi = d[o + 1];
+          d[o] = tr * xr - ti * xi;
+          d[o + 1] = tr * xi + ti * xr;
+        }
+        prefetchSink += sink;
+      }
+    } else if (!first && (pr !== 1 || pi !== 0)) {
+      let o = 2 * hIndex;
+      for (let l = 0; l < 2 * L; l += 2, o += 2) {
+        const xr = d[o], xi = d[o + 1];
+        d[o] = pr * xr - pi * xi;
+        d[o + 1] = pr * xi + pi * xr;
+      }
     }
   }
-  if (extra.length > 0) applyDiagonal(d, n, extra);
+  if (extra.length > 0) applyFused(d, n, [], [], extra);
+}
+
+/** Apply a set of single-qubit matrices on distinct qubits (they commute). */
+export function applySingles(d: Float64Array, n: number, qubits: number[], mats: Mat2[]): void {
+  applyFused(d, n, qubits, mats, []);
+}
+
+/** Multiply the state by exp(i * sum of the terms' angles). */
+export function applyDiagonal(d: Float64Array, n: number, terms: DiagTerm[]): void {
+  applyFused(d, n, [], [], terms);
+}
+
+// ------------------------------------------------------------------------------------------------
+// WebAssembly SIMD kernels (the default engine where WebAssembly SIMD is available).
+// Scalar JS reaches only about a third of memory bandwidth when streaming a large state, so the
+// inner loops are a tiny hand-assembled wasm module working on the state in its linear memory
+// (f64x2: one complex amplitude per v128). The module is built here from its opcodes; no
+// toolchain or binary blob is involved. Byte offsets are i32, so the wasm engine holds states up
+// to WASM_MAX_QUBITS; wider states (and hosts without wasm SIMD) use the JS kernels.
+
+export const WASM_MAX_QUBITS = 27;
+
+function buildKernelModule(): Uint8Array<ArrayBuffer> {
+  const uleb = (v: number): number[] => {
+    const o: number[] = [];
+    do {
+      let b = v & 0x7f;
+      v >>>= 7;
+      if (v) b |= 0x80;
+      o.push(b);
+    } while (v);
+    return o;
+  };
+  const vec = (items: number[][]): number[] => [...uleb(items.length), ...items.flat()];
+  const section = (id: number, b: number[]): number[] => [id, ...uleb(b.length), ...b];
+  const str = (s: string): number[] => [...uleb(s.length), ...[...s].map((c) => c.charCodeAt(0))];
+  const I32 = 0x7f, F64 = 0x7c, V128 = 0x7b;
+  const get = (i: number) => [0x20, ...uleb(i)];
+  const set = (i: number) => [0x21, ...uleb(i)];
+  const tee = (i: number) => [0x22, ...uleb(i)];
+  const i32c = (v: number) => [0x41, ...uleb(v)]; // small non-negative constants only (< 64)
+  const add = [0x6a], geu = [0x4f], ltu = [0x49];
+  const simd = (op: number) => [0xfd, ...uleb(op)];
+  const vload = (off = 0) => [...simd(0x00), 4, ...uleb(off)];
+  const vstore = (off = 0) => [...simd(0x0b), 4, ...uleb(off)];
+  const f64load = (off: number) => [0x2b, 3, ...uleb(off)];
+  const splat = simd(0x14), vadd = simd(0xf0), vmul = simd(0xf2);
+  const f64bytes = (x: number) => [...new Uint8Array(new Float64Array([x]).buffer)];
+  const vconst = (a: number, b: number) => [...simd(0x0c), ...f64bytes(a), ...f64bytes(b)];
+  const shuf = (lanes: number[]) => [...simd(0x0d), ...lanes];
+  const SWAP = [8, 9, 10, 11, 12, 13, 14, 15, 0, 1, 2, 3, 4, 5, 6, 7];
+  const LO = [0, 1, 2, 3, 4, 5, 6, 7, 0, 1, 2, 3, 4, 5, 6, 7];
+  const HI = [8, 9, 10, 11, 12, 13, 14, 15, 8, 9, 10, 11, 12, 13, 14, 15];
+  const swapOf = (i: number) => [...get(i), ...get(i), ...shuf(SWAP)];
+  const block = (b: number[]) => [0x02, 0x40, ...b, 0x0b];
+  const loop = (b: number[]) => [0x03, 0x40, ...b, 0x0b];
+  const br = (l: number) => [0x0c, ...uleb(l)];
+  const brIf = (l: number) => [0x0d, ...uleb(l)];
+  const PM = vconst(-1, 1);
+
+  // strided pair loop: params start(0) end(1) step(2) run(3) sB(4);
+  // for (base = start; base < end; base += step) for (p = base; p < base + run; p += 16) body(p, p + sB)
+  const pairLoop = (base: number, p: number, lim: number, body: number[]) => [
+    ...get(0), ...set(base),
+    ...block([
+      ...loop([
+        ...get(base), ...get(1), ...geu, ...brIf(1),
+        ...get(base), ...set(p),
+        ...get(base), ...get(3), ...add, ...set(lim),
+        ...loop([...body, ...get(p), ...i32c(16), ...add, ...tee(p), ...get(lim), ...ltu, ...brIf(0)]),
+        ...get(base), ...get(2), ...add, ...set(base),
+        ...br(0),
+      ]),
+    ]),
+  ];
+  // adjacent-pair loop: params start(0) end(1); for (p = start; p < end; p += 32) body(p, p + 16)
+  const adjLoop = (p: number, body: number[]) => [
+    ...get(0), ...set(p),
+    ...block([...loop([...get(p), ...get(1), ...geu, ...brIf(1), ...body, ...get(p), ...i32c(32), ...add, ...set(p), ...br(0)])]),
+  ];
+  // rx(start, end, step, run, sB, c f64, s f64); locals 7 base, 8 p, 9 lim; 10 C, 11 S, 12 x, 13 y
+  const rxBody = [
+    ...get(5), ...splat, ...set(10),
+    ...get(6), ...splat, ...vconst(1, -1), ...vmul, ...set(11),
+    ...pairLoop(7, 8, 9, [
+      ...get(8), ...vload(), ...set(12),
+      ...get(8), ...get(4), ...add, ...vload(), ...set(13),
+      ...get(8), ...get(10), ...get(12), ...vmul, ...get(11), ...swapOf(13), ...vmul, ...vadd, ...vstore(),
+      ...get(8), ...get(4), ...add, ...get(10), ...get(13), ...vmul, ...get(11), ...swapOf(12), ...vmul, ...vadd, ...vstore(),
+    ]),
+  ];
+  const rxLocals = vec([[...uleb(3), I32], [...uleb(4), V128]]);
+
+  // coefficient vectors of a general matrix at mptr: A = splat(m0r), Ai = m0i [-1, 1], ...
+  const coeffs = (mptr: number, first: number) => {
+    const o: number[] = [];
+    for (let k = 0; k < 4; k++) {
+      o.push(...get(mptr), ...f64load(16 * k), ...splat, ...set(first + 2 * k));
+      o.push(...get(mptr), ...f64load(16 * k + 8), ...splat, ...PM, ...vmul, ...set(first + 2 * k + 1));
+    }
+    return o;
+  };
+  // out = c0 x + c1 swap(x) + c2 y + c3 swap(y)
+  const lin = (c: number, x: number, sx: number, y: number, sy: number) => [
+    ...get(c), ...get(x), ...vmul, ...get(c + 1), ...get(sx), ...vmul, ...vadd,
+    ...get(c + 2), ...get(y), ...vmul, ...vadd, ...get(c + 3), ...get(sy), ...vmul, ...vadd,
+  ];
+  // gen(start, end, step, run, sB, mptr); locals 6 base, 7 p, 8 lim; 9..16 coeffs; 17 x 18 y 19 sx 20 sy
+  const genBody = [
+    ...coeffs(5, 9),
+    ...pairLoop(6, 7, 8, [
+      ...get(7), ...vload(), ...tee(17), ...get(17), ...shuf(SWAP), ...set(19),
+      ...get(7), ...get(4), ...add, ...vload(), ...tee(18), ...get(18), ...shuf(SWAP), ...set(20),
+      ...get(7), ...lin(9, 17, 19, 18, 20), ...vstore(),
+      ...get(7), ...get(4), ...add, ...lin(13, 17, 19, 18, 20), ...vstore(),
+    ]),
+  ];
+  const genLocals = vec([[...uleb(3), I32], [...uleb(12), V128]]);
+
+  // rx0(start, end, c, s): qubit 0; locals 4 p; 5 C, 6 S, 7 x, 8 y
+  const rx0Body = [
+    ...get(2), ...splat, ...set(5),
+    ...get(3), ...splat, ...vconst(1, -1), ...vmul, ...set(6),
+    ...adjLoop(4, [
+      ...get(4), ...vload(), ...set(7),
+      ...get(4), ...vload(16), ...set(8),
+      ...get(4), ...get(5), ...get(7), ...vmul, ...get(6), ...swapOf(8), ...vmul, ...vadd, ...vstore(),
+      ...get(4), ...get(5), ...get(8), ...vmul, ...get(6), ...swapOf(7), ...vmul, ...vadd, ...vstore(16),
+    ]),
+  ];
+  const rx0Locals = vec([[...uleb(1), I32], [...uleb(4), V128]]);
+
+  // gen0(start, end, mptr): qubit 0; locals 3 p; 4..11 coeffs; 12 x 13 y 14 sx 15 sy
+  const gen0Body = [
+    ...coeffs(2, 4),
+    ...adjLoop(3, [
+      ...get(3), ...vload(), ...tee(12), ...get(12), ...shuf(SWAP), ...set(14),
+      ...get(3), ...vload(16), ...tee(13), ...get(13), ...shuf(SWAP), ...set(15),
+      ...get(3), ...lin(4, 12, 14, 13, 15), ...vstore(),
+      ...get(3), ...lin(8, 12, 14, 13, 15), ...vstore(16),
+    ]),
+  ];
+  const gen0Locals = vec([[...uleb(1), I32], [...uleb(12), V128]]);
+
+  // diag(start, end, tptr, pr, pi): amp *= (pr + i pi) * table; locals 5 p, 6 tp; 7 PR, 8 PI, 9 t, 10 f, 11 a
+  const diagBody = [
+    ...get(3), ...splat, ...set(7),
+    ...get(4), ...splat, ...PM, ...vmul, ...set(8),
+    ...get(0), ...set(5), ...get(2), ...set(6),
+    ...block([
+      ...loop([
+        ...get(5), ...get(1), ...geu, ...brIf(1),
+        ...get(6), ...vload(), ...set(9),
+        ...get(7), ...get(9), ...vmul, ...get(8), ...swapOf(9), ...vmul, ...vadd, ...set(10),
+        ...get(5), ...vload(), ...set(11),
+        ...get(5),
+        ...get(10), ...get(10), ...shuf(LO), ...get(11), ...vmul,
+        ...get(10), ...get(10), ...shuf(HI), ...PM, ...vmul, ...swapOf(11), ...vmul, ...vadd,
+        ...vstore(),
+        ...get(5), ...i32c(16), ...add, ...set(5),
+        ...get(6), ...i32c(16), ...add, ...set(6),
+        ...br(0),
+      ]),
+    ]),
+  ];
+  const diagLocals = vec([[...uleb(2), I32], [...uleb(5), V128]]);
+
+  const code = (locals: number[], body: number[]) => {
+    const b = [...locals, ...body, 0x0b];
+    return [...uleb(b.length), ...b];
+  };
+  const fn = (params: number[]) => [0x60, ...vec(params.map((p) => [p])), ...vec([])];
+  const types = vec([
+    fn([I32, I32, I32, I32, I32, F64, F64]), // 0 rx
+    fn([I32, I32, I32, I32, I32, I32]), // 1 gen
+    fn([I32, I32, F64, F64]), // 2 rx0
+    fn([I32, I32, I32]), // 3 gen0
+    fn([I32, I32, I32, F64, F64]), // 4 diag
+  ]);
+  const names = ['rx', 'gen', 'rx0', 'gen0', 'diag'];
+  const mod = [
+    0x00, 0x61, 0x73, 0x6d, 1, 0, 0, 0,
+    ...section(1, types),
+    ...section(2, vec([[...str('env'), ...str('mem'), 0x02, 0x00, ...uleb(1)]])),
+    ...section(3, vec([[0], [1], [2], [3], [4]])),
+    ...section(7, vec(names.map((nm, i) => [...str(nm), 0x00, i]))),
+    ...section(10, vec([
+      code(rxLocals, rxBody),
+      code(genLocals, genBody),
+      code(rx0Locals, rx0Body),
+      code(gen0Locals, gen0Body),
+      code(diagLocals, diagBody),
+    ])),
+  ];
+  return new Uint8Array(mod);
+}
+
+interface WasmKernels {
+  rx(start: number, end: number, step: number, run: number, sB: number, c: number, s: number): void;
+  gen(start: number, end: number, step: number, run: number, sB: number, mptr: number): void;
+  rx0(start: number, end: number, c: number, s: number): void;
+  gen0(start: number, end: number, mptr: number): void;
+  diag(start: number, end: number, tptr: number, pr: number, pi: number): void;
+}
+
+let wasmModule: WebAssembly.Module | null | undefined;
+function getWasmModule(): WebAssembly.Module | null {
+  if (wasmModule !== undefined) return wasmModule;
+  try {
+    const bytes = buildKernelModule();
+    wasmModule = typeof WebAssembly !== 'undefined' && WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
+  } catch {
+    wasmModule = null;
+  }
+  return wasmModule;
+}
+
+/** True when this host runs the WebAssembly SIMD kernels. */
+export function wasmKernelsAvailable(): boolean {
+  return getWasmModule() !== null;
+}
+
+/** Scratch after the state: a 2x2 matrix (64 B) and the diagonal phase tables. */
+const SCRATCH_MATRIX = 64;
+const SCRATCH_TABLES = (1 << DIAG_MAX_CROSS) * (1 << BLOCK_BITS) * 16;
+
+class WasmState {
+  readonly data: Float64Array;
+  readonly k: WasmKernels;
+  readonly mptr: number;
+  readonly tptr: number;
+  readonly mat: Float64Array;
+  constructor(nQubits: number) {
+    const mod = getWasmModule();
+    if (!mod) throw new Error('statevector: WebAssembly SIMD is not available');
+    const stateBytes = statevectorBytes(nQubits);
+    const pages = Math.ceil((stateBytes + SCRATCH_MATRIX + SCRATCH_TABLES) / 65536);
+    const mem = new WebAssembly.Memory({ initial: pages });
+    const inst = new WebAssembly.Instance(mod, { env: { mem } });
+    this.k = inst.exports as unknown as WasmKernels;
+    this.data = new Float64Array(mem.buffer, 0, 2 * 2 ** nQubits);
+    this.mptr = stateBytes;
+    this.tptr = stateBytes + SCRATCH_MATRIX;
+    this.mat = new Float64Array(mem.buffer, this.mptr, 8);
+  }
+  table(c: number, L: number): Float64Array {
+    return new Float64Array(this.data.buffer, this.tptr + c * L * 16, 2 * L);
+  }
+}
+
+/** The wasm counterpart of applyFused (same contract). */
+function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[], terms: DiagTerm[]): void {
+  const k = ws.k;
+  const W = Math.min(n, BLOCK_BITS);
+  const L = 1 << W;
+  const lowIdx: number[] = [];
+  const highIdx: number[] = [];
+  for (let i = 0; i < qubits.length; i++) (qubits[i] < W ? lowIdx : highIdx).push(i);
+  lowIdx.sort((a, b) => qubits[a] - qubits[b]);
+  highIdx.sort((a, b) => qubits[a] - qubits[b]);
+  const setMat = (m: Mat2) => ws.mat.set(m);
+  // one gate on qubit q over amplitudes [start, end)
+  const gate = (q: number, m: Mat2, start: number, end: number) => {
+    const rx = isRxForm(m);
+    if (q === 0) {
+      if (rx) k.rx0(start * 16, end * 16, m[0], -m[3]);
+      else { setMat(m); k.gen0(start * 16, end * 16, ws.mptr); }
+      return;
+    }
+    const sB = 16 * 2 ** q;
+    if (rx) k.rx(start * 16, end * 16, 2 * sB, sB, sB, m[0], -m[3]);
+    else { setMat(m); k.gen(start * 16, end * 16, 2 * sB, sB, sB, ws.mptr); }
+  };
+
+  // high passes: groups of HIGH_GROUP qubits on 2^G runs of 2^RUN_BITS amplitudes
+  if (highIdx.length > 0) {
+    const runBits = Math.min(RUN_BITS, W);
+    const runLen = 1 << runBits;
+    for (let g0 = 0; g0 < highIdx.length; g0 += HIGH_GROUP) {
+      const grp = highIdx.slice(g0, g0 + HIGH_GROUP);
+      const G = grp.length;
+      const pos = grp.map((i) => qubits[i]);
+      const ms = grp.map((i) => mats[i]);
+      const rxs = ms.map(isRxForm);
+      const offs = new Float64Array(1 << G);
+      for (let s = 0; s < 1 << G; s++) {
+        let o = 0;
+        for (let j = 0; j < G; j++) if (s & (1 << j)) o += 2 ** pos[j];
+        offs[s] = o;
+      }
+      const nBases = 2 ** (n - runBits - G);
+      const runB = runLen * 16;
+      for (let u = 0; u < nBases; u++) {
+        let v = u;
+        for (let j = 0; j < G; j++) v = insertZeroBit(v, pos[j] - runBits);
+        const base = v * runLen;
+        for (let j = 0; j < G; j++) {
+          const bit = 1 << j;
+          const m = ms[j];
+          const sB = 16 * 2 ** pos[j];
+          if (!rxs[j]) setMat(m);
+          const c = m[0], sn = -m[3];
+          for (let s = 0; s < 1 << G; s++) {
+            if (s & bit) continue;
+            const o0 = (base + offs[s]) * 16;
+            if (rxs[j]) k.rx(o0, o0 + 1, runB, runB, sB, c, sn);
+            else k.gen(o0, o0 + 1, runB, runB, sB, ws.mptr);
+          }
+        }
+      }
+    }
+  }
+
+  // diagonal plan (as in applyFused)
+  const lowTerms: DiagTerm[] = [];
+  const highTerms: DiagTerm[] = [];
+  const crossTerms: DiagTerm[] = [];
+  const extra: DiagTerm[] = [];
+  const cross: number[] = [];
+  for (const t of terms) {
+    const nLow = t.qubits.filter((q) => q < W).length;
+    if (nLow === t.qubits.length) lowTerms.push(t);
+    else if (nLow === 0) highTerms.push(t);
+    else {
+      const hq = t.qubits[0] >= W ? t.qubits[0] : t.qubits[1];
+      if (!cross.includes(hq)) {
+        if (cross.length >= DIAG_MAX_CROSS) { extra.push(t); continue; }
+        cross.push(hq);
+      }
+      crossTerms.push(t);
+    }
+  }
+  const hasDiag = terms.length > extra.length;
+  const C = cross.length;
+  if (hasDiag) {
+    const lowAngle = new Float64Array(L);
+    for (let l = 0; l < L; l++) {
+      let a = 0;
+      for (const t of lowTerms) a += termAngle(t, l);
+      lowAngle[l] = a;
+    }
+    for (let c = 0; c < 1 << C; c++) {
+      let hiBits = 0;
+      for (let j = 0; j < C; j++) if (c & (1 << j)) hiBits |= 1 << cross[j];
+      const tab = ws.table(c, L);
+      for (let l = 0; l < L; l++) {
+        let a = lowAngle[l];
+        const idx = hiBits | l;
+        for (const t of crossTerms) a += termAngle(t, idx);
+        tab[2 * l] = Math.cos(a);
+        tab[2 * l + 1] = Math.sin(a);
+      }
+    }
+  }
+  if (lowIdx.length > 0 || hasDiag) {
+    const H = 2 ** (n - W);
+    for (let h = 0; h < H; h++) {
+      const start = h * L, end = start + L;
+      for (const i of lowIdx) gate(qubits[i], mats[i], start, end);
+      if (hasDiag) {
+        let a = 0;
+        for (const t of highTerms) a += termAngle(t, start);
+        let c = 0;
+        for (let j = 0; j < C; j++) c |= ((start >>> cross[j]) & 1) << j;
+        k.diag(start * 16, end * 16, ws.tptr + c * L * 16, Math.cos(a), Math.sin(a));
+      }
+    }
+  }
+  if (extra.length > 0) applyFusedWasm(ws, n, [], [], extra);
 }
 
 // ------------------------------------------------------------------------------------------------
@@ -468,11 +1037,31 @@ export class Statevector {
   /** Interleaved amplitudes: amplitude i is data[2i] + i data[2i+1]. */
   readonly data: Float64Array;
 
-  constructor(nQubits: number, opts: { maxQubits?: number } = {}) {
+  /** The kernels in use: 'wasm' (WebAssembly SIMD) or 'js'. */
+  readonly engine: 'wasm' | 'js';
+  private readonly ws: WasmState | null;
+
+  constructor(nQubits: number, opts: { maxQubits?: number; engine?: 'wasm' | 'js' } = {}) {
     checkQubitLimit(nQubits, opts.maxQubits ?? DEFAULT_MAX_QUBITS);
     this.nQubits = nQubits;
-    this.data = new Float64Array(2 * 2 ** nQubits);
+    let ws: WasmState | null = null;
+    if (opts.engine !== 'js' && nQubits <= WASM_MAX_QUBITS && wasmKernelsAvailable()) {
+      try {
+        ws = new WasmState(nQubits);
+      } catch {
+        ws = null; // e.g. the host refused a large wasm memory: fall back to the JS kernels
+      }
+    }
+    this.ws = ws;
+    this.engine = ws ? 'wasm' : 'js';
+    this.data = ws ? ws.data : new Float64Array(2 * 2 ** nQubits);
     this.data[0] = 1;
+  }
+
+  /** One fused flush: single-qubit matrices on distinct qubits, then diagonal terms. */
+  applyFlush(qubits: number[], mats: Mat2[], terms: DiagTerm[]): void {
+    if (this.ws) applyFusedWasm(this.ws, this.nQubits, qubits, mats, terms);
+    else applyFused(this.data, this.nQubits, qubits, mats, terms);
   }
 
   /** Simulate a circuit from |0...0>. */
@@ -508,8 +1097,7 @@ export class Statevector {
     let done = 0;
     let consumed = 0;
     const planner = new Planner((qs, ms, dg) => {
-      if (qs.length) applySingles(this.data, n, qs, ms);
-      if (dg.length) applyDiagonal(this.data, n, dg);
+      this.applyFlush(qs, ms, dg);
       done = consumed;
       onProgress?.(done, total);
     });
@@ -543,17 +1131,17 @@ export class Statevector {
     const n = this.nQubits;
     validateGate(g, n, 0);
     if (g.name === 'rzz' || g.name === 'cz' || isDiagonal1(g.name)) {
-      applyDiagonal(this.data, n, [diagTerm(g)]);
+      this.applyFlush([], [], [diagTerm(g)]);
     } else if (g.name === 'cx') {
       this.applyCx(g.qubits[0], g.qubits[1]);
     } else {
-      applySingles(this.data, n, [g.qubits[0]], [gateMatrix(g)]);
+      this.applyFlush([g.qubits[0]], [gateMatrix(g)], []);
     }
   }
 
   /** Apply a 2x2 matrix on one qubit (one pass). */
   applyMatrix(q: number, m: Mat2): void {
-    applySingles(this.data, this.nQubits, [q], [m]);
+    this.applyFlush([q], [m], []);
   }
 
   private applyCx(c: number, t: number): void {

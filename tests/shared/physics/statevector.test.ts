@@ -8,6 +8,7 @@ import {
   Statevector,
   statevectorBytes,
   statevectorExpectation,
+  wasmKernelsAvailable,
 } from '../../../shared/physics/statevector';
 
 interface QCInstance {
@@ -224,8 +225,12 @@ describe('statevector vs the quantum-circuit npm package', () => {
         const refSplit = { re: ref.map((z) => z.re), im: ref.map((z) => z.im) };
         const fused = Statevector.run(c);
         const plain = Statevector.run(c, { noFusion: true });
+        const js = Statevector.run(c, { engine: 'js' });
+        const jsPlain = Statevector.run(c, { engine: 'js', noFusion: true });
         expect(maxAmpDiff(fused.amplitudes(), refSplit)).toBeLessThan(1e-10);
         expect(maxAmpDiff(plain.amplitudes(), refSplit)).toBeLessThan(1e-10);
+        expect(maxAmpDiff(js.amplitudes(), refSplit)).toBeLessThan(1e-10);
+        expect(maxAmpDiff(jsPlain.amplitudes(), refSplit)).toBeLessThan(1e-10);
         expect(maxAmpDiff(naiveRun(c), refSplit)).toBeLessThan(1e-10); // validates the local reference
         const r = rng(77 * n + rep);
         const terms = [0, 1, 2].map(() => ({ coef: r() * 2 - 1, factors: randomPauli(n, r) }));
@@ -307,19 +312,33 @@ describe('statevector fusion paths on wider states (vs the local per-gate refere
       c.gates.push(...randomCircuit(n, 40, seed + 100).gates);
       const want = naiveRun(c); // common practice (local plain reference, checked vs quantum-circuit above)
       expect(maxAmpDiff(Statevector.run(c).amplitudes(), want)).toBeLessThan(1e-10);
+      expect(maxAmpDiff(Statevector.run(c, { engine: 'js' }).amplitudes(), want)).toBeLessThan(1e-10);
     }
   });
 
   it('16-qubit kicked-Ising chain, flat and layered, equals the plain reference', () => {
     for (const withLayers of [false, true]) {
       const c = kickedIsingChain(16, 0.45, 0.9, 3, withLayers);
-      expect(maxAmpDiff(Statevector.run(c).amplitudes(), naiveRun(c))).toBeLessThan(1e-10); // common practice
+      const want = naiveRun(c); // common practice
+      expect(maxAmpDiff(Statevector.run(c).amplitudes(), want)).toBeLessThan(1e-10);
+      expect(maxAmpDiff(Statevector.run(c, { engine: 'js' }).amplitudes(), want)).toBeLessThan(1e-10);
+      // thetaH near pi: RX-form with |cos| < 1/2 takes the general JS kernel
+      const c2 = kickedIsingChain(15, 0.45, 2.9, 2, withLayers);
+      expect(maxAmpDiff(Statevector.run(c2, { engine: 'js' }).amplitudes(), naiveRun(c2))).toBeLessThan(1e-10); // common practice
     }
   });
 
   it('keeps the norm', () => {
     const sv = Statevector.run(randomCircuit(15, 200, 9));
     expect(sv.norm2()).toBeCloseTo(1, 12); // analytic: unitary evolution
+  });
+});
+
+describe('statevector engines', () => {
+  it('uses the WebAssembly SIMD kernels on Node 20, and the JS kernels on request', () => {
+    expect(wasmKernelsAvailable()).toBe(true); // common practice: Node >= 16 ships wasm SIMD
+    expect(new Statevector(4).engine).toBe('wasm');
+    expect(new Statevector(4, { engine: 'js' }).engine).toBe('js');
   });
 });
 
