@@ -261,7 +261,7 @@ export class Planner {
           if (!cost) reason = 'free-fermion: not supported for this instance';
           else {
             seconds = OTHER_OVERHEAD_S + cost.seconds;
-            size = Math.min(n, 2 * p.steps + 2);
+            size = freeFermionSites(n, p.steps, obs);
             if (seconds > o.secondsBudget) reason = `free-fermion would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
           }
         }
@@ -805,6 +805,23 @@ export function fmtSeconds(s: number): string {
   if (s < 7200) return `${(s / 60).toPrecision(2)} min`;
   if (s < 3 * 86400) return `${(s / 3600).toPrecision(2)} h`;
   return `${(s / 86400).toPrecision(2)} days`;
+}
+
+/**
+ * Sites of the longest sub-chain the free-fermion solver works on: a term's causal cone is the
+ * interval of radius t - 1 around Z sites (and Z_j Z_j+1) and t around X sites, clipped to the chain.
+ */
+export function freeFermionSites(n: number, steps: number, obs: ObservableSpec): number {
+  let widest = 0;
+  for (const t of obs.terms) {
+    if (t.factors.length === 0) continue;
+    const qs = t.factors.map((f) => f.qubit);
+    const r = t.factors.some((f) => f.op !== 'Z') ? steps : Math.max(0, steps - 1);
+    const lo = Math.max(0, Math.min(...qs) - r);
+    const hi = Math.min(n - 1, Math.max(...qs) + r);
+    widest = Math.max(widest, hi - lo + 1);
+  }
+  return widest;
 }
 
 /** Plan every target of a validated challenge. */

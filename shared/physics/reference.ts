@@ -11,7 +11,7 @@ import { compileInstance, type Instance, type Target } from './compile';
 import { freeFermionExpectation } from './free-fermion';
 import { lightConeStatevectorValue } from './light-cone-statevector';
 import { propagate } from './pauli-propagation';
-import { Planner, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
+import { freeFermionSites, Planner, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
 import { statevectorExpectation } from './statevector';
 
 export const ENGINE_VERSION = 'parallax-engine 0.1.0';
@@ -126,7 +126,7 @@ export class ReferenceRunner {
         const p = inst.params;
         const r = freeFermionExpectation({ n: this.challenge.nQubits, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
         if (!r.ok) return { ok: false, reason: r.reason };
-        return { ok: true, value: r.value, size: Math.min(this.challenge.nQubits, 2 * p.steps + 2) };
+        return { ok: true, value: r.value, size: freeFermionSites(this.challenge.nQubits, p.steps, obs) };
       }
       case 'light-cone-statevector': {
         const limit = this.planner.options.coneQubitLimit;

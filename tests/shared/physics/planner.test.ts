@@ -7,7 +7,8 @@ import type { CompiledCircuit, GateName } from '../../../shared/physics/circuit'
 import { loadChallenge, type ChallengeSpec, type GateJson } from '../../../shared/physics/challenge';
 import { compileInstance, compileLattice } from '../../../shared/physics/compile';
 import { graphBall, lightCone } from '../../../shared/physics/light-cone';
-import { Planner, planChallenge } from '../../../shared/physics/planner';
+import { freeFermionSites, Planner, planChallenge } from '../../../shared/physics/planner';
+import { parsePauli } from '../../../shared/physics/observable';
 import { ENGINE_VERSION, ReferenceRunner, type ReferenceValue } from '../../../shared/physics/reference';
 import { statevectorExpectation } from '../../../shared/physics/statevector';
 
@@ -34,6 +35,12 @@ describe('planner choices', () => {
       expect(['free-fermion', 'pauli-propagation'], p.targetId).toContain(p.method);
       expect(p.reason).toBeNull();
     }
+    // causal sub-chains (PHYSICS.md: radius t - 1 around Z, t around X), clipped at the ends
+    const sites = (pauli: string) => freeFermionSites(64, 4, { id: 'o', terms: [{ coef: 1, factors: parsePauli(pauli, 64) }] });
+    expect(sites('Z32')).toBe(7);
+    expect(sites('X10')).toBe(9);
+    expect(sites('Z0')).toBe(4);
+    expect(sites('Z20 Z21')).toBe(8);
   });
 
   it('the Clifford point of a 1000-qubit heavy-hex uses propagation, and PHYSICS.md values come out', () => {
