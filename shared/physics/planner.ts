@@ -244,7 +244,7 @@ export class Planner {
       let reason: string | undefined;
       let seconds = Infinity;
       let size = 0;
-      if (spec.lattice.kind !== 'chain') reason = `free-fermion needs a chain (the lattice is ${article(spec.lattice.kind)})`;
+      if (spec.lattice.kind !== 'chain') reason = `free-fermion needs an open chain (the lattice is ${LATTICE_NAMES[spec.lattice.kind]})`;
       else if (spec.circuit.family !== 'kicked-ising' || inst.params.family !== 'kicked-ising') reason = 'free-fermion needs the kicked-ising family';
       else {
         const why = freeFermionUnsupportedReason(n, obs);
@@ -769,15 +769,19 @@ function infeasibleSentence(est: MethodEstimate[], cone: ConeStats, clifford: bo
     if (pp.reason) parts.push(pp.reason);
   }
   const ff = by('free-fermion');
-  if (ff.reason) parts.push(/needs a chain/.test(ff.reason) ? 'not a chain' : ff.reason);
+  if (ff.reason) parts.push(/needs an open chain/.test(ff.reason) ? 'not a chain' : ff.reason);
   const sv = by('statevector');
   if (sv.reason && !(cone.qubits > o.coneQubitLimit && /register has/.test(sv.reason))) parts.push(sv.reason);
   return parts.join('; ');
 }
 
-function article(s: string): string {
-  return /^[aeiou]/.test(s) ? `an ${s}` : `a ${s}`;
-}
+const LATTICE_NAMES: Record<string, string> = {
+  chain: 'a chain',
+  ring: 'a ring',
+  square: 'a square grid',
+  'heavy-hex': 'a heavy-hex patch',
+  edges: 'an explicit edge list',
+};
 
 /** Integer with thousands separators ("1,000,000"); toLocaleString is slow in a hot loop. */
 export function fmtInt(x: number): string {
