@@ -6,6 +6,7 @@
  * Z in the middle of the patch, truncation thresholds 1e-3, 1e-4, 1e-5 after every gate.
  */
 import type { CompiledCircuit, Gate, Layer } from '../shared/physics/circuit';
+import { cpus, loadavg } from 'node:os';
 import { propagate } from '../shared/physics/pauli-propagation';
 
 type Edge = [number, number];
@@ -64,32 +65,54 @@ const gc = (globalThis as { gc?: () => void }).gc;
 // warm-up (JIT), not reported
 for (let k = 0; k < 4; k++) propagate(circuit, observable, { delta: 1e-4 });
 propagate(circuit, observable, { delta: 1e-5 });
-let worstRate = Infinity;
-const deltas = quick ? [1e-3, 1e-4] : [1e-3, 1e-4, 1e-5];
+gc?.();
+
+// Each threshold is repeated (at least 3 times and 1 s of wall time); the rate is the median over
+// repetitions of updates / wall time, and also total updates / total CPU time of the process
+// (the machine may be shared: the CPU figure is what the code itself costs).
+const median = (xs: number[]) => [...xs].sort((p, q) => p - q)[Math.floor(xs.length / 2)];
+let worstWall = Infinity;
+let worstCpu = Infinity;
+const deltas = quick ? [1e-3, 1e-4] : [1e-3, 1e-4, 1e-5, 1e-6];
 for (const delta of deltas) {
-  gc?.();
-  const heap0 = process.memoryUsage();
-  const r = propagate(circuit, observable, { delta });
-  const heap1 = process.memoryUsage();
-  const rate = r.updates / (r.wallMs / 1000);
-  if (delta <= 1e-4) worstRate = Math.min(worstRate, rate); // the target is stated for 1e-4 and 1e-5
-  const rssPerTerm = (heap1.arrayBuffers - heap0.arrayBuffers) / Math.max(1, r.terms);
+  const wall: number[] = [];
+  let r = propagate(circuit, observable, { delta });
+  let totalUpdates = 0;
+  let spent = 0;
+  const c0 = process.cpuUsage();
+  while (wall.length < (delta < 1e-5 ? 1 : 3) || (spent < 1000 && delta >= 1e-5)) {
+    r = propagate(circuit, observable, { delta });
+    wall.push(r.updates / (r.wallMs / 1000));
+    totalUpdates += r.updates;
+    spent += r.wallMs;
+  }
+  const c = process.cpuUsage(c0);
+  const REPS = wall.length;
+  const wallRate = median(wall);
+  const cpuRate = totalUpdates / ((c.user + c.system) / 1e6);
+  if (delta <= 1e-4 && delta >= 1e-5) {
+    // the target is stated for 1e-4 and 1e-5
+    worstWall = Math.min(worstWall, wallRate);
+    worstCpu = Math.min(worstCpu, cpuRate);
+  }
   console.log(
     [
-      `delta ${delta.toExponential(0)}:`,
+      `delta ${delta.toExponential(0)}${delta < 1e-5 ? ' (information only, large N)' : ''}:`,
       `value ${r.value.toFixed(8)}`,
       `terms ${r.terms}`,
       `peak ${r.peakTerms}`,
       `updates ${r.updates.toExponential(3)}`,
-      `time ${(r.wallMs / 1000).toFixed(2)} s`,
-      `rate ${rate.toExponential(3)} updates/s`,
-      `storage ${r.bytesPerTerm.toFixed(1)} B/term at peak (array buffers after run: ${rssPerTerm.toFixed(1)} B/final term)`,
+      `time ${(r.wallMs / 1000).toFixed(3)} s`,
+      `rate ${wallRate.toExponential(3)} updates/s wall (median of ${REPS}; best ${Math.max(...wall).toExponential(3)}), ${cpuRate.toExponential(3)} per CPU second`,
+      `storage ${r.bytesPerTerm.toFixed(1)} B/term at peak (${(r.peakStorageBytes / 1e6).toFixed(2)} MB)`,
       `dropped ${r.droppedTerms} terms, weight ${r.droppedWeight.toExponential(3)}`,
     ].join('  '),
   );
 }
-const verdict = worstRate >= TARGET ? 'PASS' : 'MISS';
+console.log(`process: rss ${(process.memoryUsage().rss / 1e6).toFixed(0)} MB; machine load average ${loadavg().map((x) => x.toFixed(1)).join(' ')} on ${cpus().length} cores`);
+const verdict = (x: number) => (x >= TARGET ? 'PASS' : 'MISS');
 console.log(
   `target >= 5e7 updates/s on one core; the rate of a plain C implementation measured on this machine kind ` +
-    `(PHYSICS.md: 2e7 to 9e7): measured ${worstRate.toExponential(3)} (worst of delta 1e-4, 1e-5): ${verdict}`,
+    `(PHYSICS.md: 2e7 to 9e7): worst of delta 1e-4, 1e-5: ${worstWall.toExponential(3)} wall ${verdict(worstWall)}; ` +
+    `${worstCpu.toExponential(3)} per CPU second ${verdict(worstCpu)}`,
 );

@@ -533,7 +533,22 @@ function validate(c: CompiledCircuit): void {
   }
 }
 
+/** Per rotation gate: for each local code, 0 = commutes, +1 / -1 = anticommutes with i G P = sign P ^ G. */
+const ACT_TABLES: Partial<Record<string, Int32Array>> = {};
+for (const [name, gen] of Object.entries(ROTATION_GEN)) {
+  const nq = name === 'rzz' ? 2 : 1;
+  const t = new Int32Array(1 << (2 * nq));
+  for (let c = 0; c < t.length; c++) t[c] = localAnticommutes(gen!, c, nq) ? iGPSign(gen!, c, nq) : 0;
+  ACT_TABLES[name] = t;
+}
+
 class Scratch {
+  flip: Uint32Array = new Uint32Array(0);
+  /** A zeroed scratch word buffer of length S (callers re-zero it after use). */
+  flipWords(S: number): Uint32Array {
+    if (this.flip.length !== S) this.flip = new Uint32Array(S);
+    return this.flip;
+  }
   del: Int32Array = new Int32Array(1024);
   drop: Uint8Array = new Uint8Array(0);
   abs: Float64Array = new Float64Array(0);
@@ -640,16 +655,13 @@ function applyRotation(sum: PauliSum, g: Gate, tr: Trunc, st: Stats, scratch: Sc
   const nq = g.name === 'rzz' ? 2 : 1;
   const t = angleOf(g);
   const cs = Math.cos(t), sn = Math.sin(t);
-  const ncodes = 1 << (2 * nq);
-  // per code: 0 = commutes, +1 / -1 = anticommutes with i G P = sign P ^ G
-  const act = new Int32Array(ncodes);
-  for (let c = 0; c < ncodes; c++) act[c] = localAnticommutes(gen, c, nq) ? iGPSign(gen, c, nq) : 0;
+  const act = ACT_TABLES[g.name]!;
   const a = g.qubits[0];
   const b = nq === 2 ? g.qubits[1] : a;
   const W = sum.W, S = sum.S;
   const wa = a >>> 5, ba = a & 31, wb = b >>> 5, bb = b & 31;
   // flip pattern of G over the S words, and its hash
-  const flip = new Uint32Array(S);
+  const flip = scratch.flipWords(S);
   let hG = 0;
   if (gen & 1) { flip[wa] ^= 1 << ba; hG ^= sum.kx[a]; }
   if (gen & 2) { flip[W + wa] ^= 1 << ba; hG ^= sum.kz[a]; }
@@ -771,6 +783,7 @@ function applyRotation(sum: PauliSum, g: Gate, tr: Trunc, st: Stats, scratch: Sc
     m++;
   }
   sum.count = m;
+  flip.fill(0);
   if (m > st.peakTerms) st.peakTerms = m;
   const b0 = sum.storageBytes();
   if (b0 > st.peakBytes) st.peakBytes = b0;
