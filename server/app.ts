@@ -20,6 +20,7 @@ import { signInThrottle } from './middleware/sign-in-throttle';
 import { originCheck } from './middleware/origin-check';
 import { RouteTable } from './routes/registry';
 import { registerAllRoutes } from './routes';
+import { takesEntryDocument } from './routes/entries';
 
 export interface AppDeps {
   database: Database;
@@ -105,7 +106,10 @@ export async function createApp(deps: AppDeps) {
   app.post('/api/auth/sign-in/email', signInThrottle({ ...config.signInThrottle, now: () => now().getTime() }));
   app.all('/api/auth/{*any}', toNodeHandler(auth));
 
-  app.use('/api', express.json({ limit: config.jsonLimitBytes }));
+  // entry documents are read as raw text by their own routes (strict parsing: duplicate keys,
+  // integers beyond 2^53, nesting depth); the global JSON parser skips exactly those paths
+  const json = express.json({ limit: config.jsonLimitBytes });
+  app.use('/api', (req: Request, res: Response, next: NextFunction) => (takesEntryDocument(req.method, req.path) ? next() : json(req, res, next)));
   app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
   app.use('/api', originCheck([config.baseUrl, ...config.trustedOrigins]));
   const api = express.Router();

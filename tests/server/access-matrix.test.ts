@@ -5,6 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
+import { publishEntry } from '../../server/services/publish-entry';
 import { lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, type Agent, type TestApp } from './helpers';
 
 type Caller = 'anon' | 'memberA' | 'leadA' | 'memberB' | 'moderator' | 'admin' | 'keyA';
@@ -16,11 +17,16 @@ const ALL_200: Row = { anon: 200, memberA: 200, leadA: 200, memberB: 200, modera
 const LEAD_A = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: 403 });
 const MODERATOR = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, memberB: 403, moderator: ok, admin: ok, keyA: 403 });
 const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, memberB: 403, moderator: 403, admin: ok, keyA: 403 });
+// team A's members and its API key; team B, moderators and admins are refused (entries are the team's own)
+const TEAM_A = (ok: number): Row => ({ anon: 401, memberA: ok, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: ok });
 
 interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
-interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string }
 // a spec the moderators' routes accept (400 for everyone else never happens: access is checked first)
 const SPEC = { id: 'matrix-chain', version: 1, title: 'Matrix chain', description: 'x', lattice: { kind: 'chain', n: 4 }, circuit: { family: 'kicked-ising', steps: [1], thetaH: [0.1] }, observables: [{ id: 'z1', pauli: 'Z1' }] };
+
+// an entry for the seeded challenge (one target)
+const ENTRY = (i: Ids) => ({ challenge: { id: 'seeded-chain', version: 1, checksum: i.checksum }, track: 'classical', label: 'matrix', method: { family: 'exact' }, estimates: [{ target: 't1-h0.100000:z1', value: 0.99, uncertainty: 0.01, uncertaintyKind: 'statistical' }] });
 
 const MATRIX: Record<string, Probe> = {
   'GET /health': { row: ALL_200, path: () => '/api/health' },
@@ -48,6 +54,19 @@ const MATRIX: Record<string, Probe> = {
   // nothing left to publish for the second caller
   'POST /challenges/:slug/publish': { row: { ...MODERATOR(200), admin: 409 }, path: () => '/api/challenges/matrix-chain/publish', body: () => ({}) },
   'GET /jobs/:jobId': { row: ALL_200, path: (i) => `/api/jobs/${i.jobId}` },
+  // entries: members of team B post for team B (201); moderators and admins are in no team (403)
+  'POST /challenges/:slug/entries': { row: { ...TEAM_A(201), memberB: 201 }, path: () => '/api/challenges/seeded-chain/entries', body: ENTRY },
+  'POST /entries/validate': { row: ALL_200, path: () => '/api/entries/validate', body: ENTRY },
+  // a draft: its team and moderators see it, nobody else learns it exists
+  'GET /entries/:entryId': { row: { anon: 404, memberA: 200, leadA: 200, memberB: 404, moderator: 200, admin: 200, keyA: 200 }, path: (i) => `/api/entries/${i.entryDraft}` },
+  'PUT /entries/:entryId': { row: TEAM_A(200), path: (i) => `/api/entries/${i.entryDraft}`, body: ENTRY },
+  // the first caller of the team moves it; the later ones meet the new state (409)
+  'POST /entries/:entryId/submit': { row: { ...TEAM_A(200), leadA: 409, keyA: 409 }, path: (i) => `/api/entries/${i.entrySubmit}/submit` },
+  'POST /entries/:entryId/withdraw': { row: { ...TEAM_A(200), leadA: 409, keyA: 409 }, path: (i) => `/api/entries/${i.entryWithdraw}/withdraw`, body: () => ({ reason: 'matrix' }) },
+  'POST /entries/:entryId/revise': { row: { ...TEAM_A(201), leadA: 409, keyA: 409 }, path: (i) => `/api/entries/${i.entryPublished}/revise` },
+  'GET /teams/:teamId/entries': { row: ALL_200, path: (i) => `/api/teams/${i.teamA}/entries` },
+  'GET /challenges/:slug/entries': { row: ALL_200, path: () => '/api/challenges/seeded-chain/entries' },
+  'GET /openapi.json': { row: ALL_200, path: () => '/api/openapi.json' },
   'GET /challenges/:slug/standings': { row: ALL_200, path: () => '/api/challenges/seeded-chain/standings' },
   'GET /challenges/:slug/agreement': { row: ALL_200, path: () => '/api/challenges/seeded-chain/agreement' },
 };
@@ -86,7 +105,19 @@ beforeAll(async () => {
   expect((await as.moderator.post('/api/challenges', seeded)).status).toBe(201);
   const pub = await as.moderator.post('/api/challenges/seeded-chain/publish', {});
   expect(pub.status).toBe(200);
-  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId };
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '' };
+  // team A's entries in the states the entry routes need
+  const newEntry = async () => {
+    const r = await as.memberA!.post('/api/challenges/seeded-chain/entries', ENTRY(ids));
+    expect(r.status).toBe(201);
+    return r.body.id as string;
+  };
+  ids.entryDraft = await newEntry();
+  ids.entrySubmit = await newEntry();
+  ids.entryWithdraw = await newEntry();
+  ids.entryPublished = await newEntry();
+  expect((await as.memberA!.post(`/api/entries/${ids.entryPublished}/submit`)).status).toBe(200);
+  await t.database.db.transaction((tx) => publishEntry(tx, ids.entryPublished, { kind: 'system', label: 'matrix' }));
 }, 120_000);
 afterAll(async () => { await t.close(); });
 
@@ -110,8 +141,8 @@ describe('authorisation matrix', () => {
           res = body ? await r.send(body) : await r;
         } else {
           const a = as[c]!;
-          const m = method.toLowerCase() as 'get' | 'post' | 'delete';
-          res = m === 'get' ? await a.get(p) : m === 'delete' ? await a.delete(p) : await a.post(p, body);
+          const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'delete';
+          res = m === 'get' ? await a.get(p) : m === 'delete' ? await a.delete(p) : m === 'put' ? await a.put(p, body) : await a.post(p, body);
         }
         got[c] = res.status;
       }

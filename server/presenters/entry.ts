@@ -1,0 +1,52 @@
+/**
+ * An entry as the API shows it: metadata, state, revision chain, history (from the audit log) and,
+ * when asked, the full document as submitted (metadata + estimates in their original order), so
+ * that a download round-trips to the upload.
+ */
+import { and, asc, count, eq } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { auditLog, challengeVersions, entries, estimates, organization, targets } from '../db/schema';
+import type { EntryDocument, EntryEstimate } from '../services/validate-entry';
+
+export type EntryRow = typeof entries.$inferSelect;
+
+/** States a visitor may see: published, superseded, and withdrawn after publication. */
+export function isPublicEntry(e: Pick<EntryRow, 'state' | 'publishedAt'>): boolean {
+  return e.state === 'published' || e.state === 'superseded' || (e.state === 'withdrawn' && e.publishedAt !== null);
+}
+
+export async function entryDocument(db: Db, e: EntryRow): Promise<EntryDocument> {
+  const rows = await db.select({ t: estimates.targetKey, v: estimates.value, u: estimates.uncertainty, k: estimates.kind, raw: estimates.raw })
+    .from(estimates).where(eq(estimates.entryId, e.id)).orderBy(asc(estimates.id));
+  const ests: EntryEstimate[] = rows.map((r) => ({ target: r.t, value: r.v, uncertainty: r.u, uncertaintyKind: r.k as EntryEstimate['uncertaintyKind'], ...((r.raw as object | null) ?? {}) }));
+  return { ...(e.document as Omit<EntryDocument, 'estimates'>), estimates: ests };
+}
+
+export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean } = {}) {
+  const [team] = await db.select({ id: organization.id, name: organization.name, slug: organization.slug }).from(organization).where(eq(organization.id, e.teamId));
+  const [v] = await db.select({ version: challengeVersions.version, checksum: challengeVersions.checksum }).from(challengeVersions).where(eq(challengeVersions.id, e.versionId));
+  const [{ n }] = await db.select({ n: count() }).from(estimates).where(eq(estimates.entryId, e.id));
+  const [{ total }] = await db.select({ total: count() }).from(targets).where(eq(targets.versionId, e.versionId));
+  const lineage = e.lineageId
+    ? await db.select({ id: entries.id, revision: entries.revision, state: entries.state, publishedAt: entries.publishedAt, supersedesId: entries.supersedesId }).from(entries).where(eq(entries.lineageId, e.lineageId)).orderBy(asc(entries.revision))
+    : [];
+  const history = await db.select({ at: auditLog.at, action: auditLog.action, actor: auditLog.actorLabel, details: auditLog.details }).from(auditLog)
+    .where(and(eq(auditLog.subjectType, 'entry'), eq(auditLog.subjectId, e.id))).orderBy(asc(auditLog.id));
+  return {
+    id: e.id,
+    challenge: { slug: e.challengeSlug, version: v?.version ?? null, checksum: v?.checksum ?? null },
+    team: team ?? { id: e.teamId, name: null, slug: null },
+    state: e.state, track: e.track, methodFamily: e.methodFamily, label: e.label,
+    revision: e.revision, lineageId: e.lineageId, supersedesId: e.supersedesId, isBaseline: e.isBaseline,
+    createdAt: e.createdAt, updatedAt: e.updatedAt, submittedAt: e.submittedAt, publishedAt: e.publishedAt,
+    estimates: Number(n),
+    coverage: { targets: Number(total), covered: Number(n), fraction: Number(total) ? Number(n) / Number(total) : 0 },
+    revisions: lineage.filter((r) => opts.privileged || isPublicEntry({ state: r.state, publishedAt: r.publishedAt })),
+    history: history.map((h) => ({
+      at: h.at, action: h.action, actor: opts.privileged ? h.actor : undefined,
+      reason: (h.details as { reason?: string }).reason,
+      warnings: opts.privileged ? (h.details as { warnings?: unknown }).warnings : undefined,
+    })),
+    document: opts.document ? await entryDocument(db, e) : undefined,
+  };
+}

@@ -1,0 +1,213 @@
+/**
+ * Entries: create (JSON body or multipart field "file"), dry-run validation with a score preview,
+ * edit a draft, submit, withdraw, revise, and the public and team views.
+ *
+ * Which team: a team API key (x-api-key) implies its team; a signed-in user in exactly one team
+ * posts for that team; a user in several teams says which with ?team=<teamId>.
+ *
+ * The document routes read the body as raw text (the global JSON parser skips them, see
+ * takesEntryDocument and server/app.ts) so that the strict parser can report duplicate keys,
+ * integers beyond 2^53 and deep nesting, which JSON.parse would hide.
+ */
+import express, { type NextFunction, type Request, type Response } from 'express';
+import multer from 'multer';
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import { z } from 'zod';
+import type { AppContext } from '../app';
+import { entries, estimates, member, organization } from '../db/schema';
+import { AppError, badRequest, forbidden, notFound } from '../errors';
+import { teamRole } from '../middleware/actor';
+import { isPublicEntry, presentEntry, type EntryRow } from '../presenters/entry';
+import { checkEntry, parseEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
+import { createEntry } from '../services/create-entry';
+import { updateEntry } from '../services/update-entry';
+import { submitEntry } from '../services/submit-entry';
+import { withdrawEntry } from '../services/withdraw-entry';
+import { reviseEntry } from '../services/revise-entry';
+import { parseBody } from '../validate';
+import { loadChallengeVersion } from './challenges';
+import type { RouteTable } from './registry';
+
+/** The routes whose body is an entry document, read as raw text by the route itself. */
+export function takesEntryDocument(method: string, path: string): boolean {
+  if (method === 'POST') return /^\/challenges\/[^/]+\/entries\/?$/.test(path) || /^\/entries\/validate\/?$/.test(path);
+  if (method === 'PUT') return /^\/entries\/[^/]+\/?$/.test(path);
+  return false;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const withdrawBody = z.object({ reason: z.string().trim().min(1, 'say why the entry is withdrawn (it stays visible with the reason)').max(2000) }).strict();
+const mib = (b: number) => `${(b / 1024 / 1024).toFixed(b % (1024 * 1024) ? 1 : 0)} MiB`;
+
+export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
+  const { db } = ctx;
+  const limit = ctx.config.uploadLimitBytes;
+  const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: limit, files: 1, fields: 5, parts: 6 } });
+  const text = express.text({ type: () => true, limit });
+  const tooLarge = () => new AppError('payload_too_large', `The entry document is larger than the limit of ${mib(limit)} (${limit} bytes). Write it without indentation, or split the sweep into several entries (at most ${MAX_ESTIMATES} estimates each).`);
+
+  /** Reads the entry document as text: multipart field "file", or the raw body. */
+  const documentBody = (req: Request, res: Response, next: NextFunction) => {
+    if (req.is('multipart/form-data')) {
+      upload.single('file')(req, res, (err?: unknown) => {
+        if (!err) return next();
+        const code = (err as { code?: string }).code;
+        if (code === 'LIMIT_FILE_SIZE') return next(tooLarge());
+        if (code === 'LIMIT_UNEXPECTED_FILE') return next(badRequest('Upload the entry document in the multipart field "file" (curl -F file=@entry.json), one file only.'));
+        return next(badRequest(`The multipart upload could not be read (${String((err as Error).message ?? err).slice(0, 120)}); send curl -F file=@entry.json, or the JSON itself as the body.`));
+      });
+      return;
+    }
+    text(req, res, (err?: unknown) => {
+      if (!err) return next();
+      if ((err as { type?: string }).type === 'entity.too.large') return next(tooLarge());
+      next(err);
+    });
+  };
+
+  const documentText = (req: Request): string => {
+    if (req.file) return req.file.buffer.toString('utf8');
+    if (typeof req.body === 'string' && req.body.length) return req.body;
+    throw badRequest('Send the entry document (schemas/entry.schema.json) as the JSON body with Content-Type: application/json, or as the multipart field "file".', [{ path: '', message: 'the body is empty' }]);
+  };
+
+  /** The team an entry is created for (see the header comment). */
+  const postingTeam = async (req: Request): Promise<string | null> => {
+    const q = typeof req.query.team === 'string' && req.query.team ? req.query.team : null;
+    const a = req.actor;
+    if (a.kind === 'api-key') return q ?? a.teamId;
+    if (a.kind !== 'user') return null;
+    if (q) return q;
+    const mine = await db.select({ id: member.organizationId, name: organization.name }).from(member).innerJoin(organization, eq(organization.id, member.organizationId)).where(eq(member.userId, a.user.id));
+    if (mine.length === 1) return mine[0].id;
+    if (!mine.length) throw forbidden('Entries belong to teams and you are in none: create a team or accept an invitation first.');
+    throw badRequest(`You are a member of ${mine.length} teams (${mine.map((m) => `${m.name}: ${m.id}`).join(', ')}): say which one this entry is for with ?team=<teamId>.`);
+  };
+
+  const loadEntry = async (req: Request): Promise<EntryRow> => {
+    const id = String(req.params.entryId);
+    if (!UUID.test(id)) throw notFound('The entry');
+    const [e] = await db.select().from(entries).where(eq(entries.id, id)).limit(1);
+    if (!e) throw notFound('The entry');
+    return e;
+  };
+  const entryTeam = async (req: Request) => (await loadEntry(req)).teamId;
+
+  /** Whether the caller is of the entry's team (member or its API key) or a moderator. */
+  const privileged = async (req: Request, teamId: string): Promise<boolean> => {
+    const a = req.actor;
+    if (a.kind === 'api-key') return a.teamId === teamId;
+    if (a.kind !== 'user') return false;
+    if (a.user.role === 'moderator' || a.user.role === 'admin') return true;
+    return (await teamRole(db, a.user.id, teamId)) !== null;
+  };
+
+  routes.add({
+    method: 'post', path: '/challenges/:slug/entries', access: 'team-member', apiKey: true, team: postingTeam,
+    summary: 'Create a draft entry from a document (schemas/entry.schema.json) as the JSON body or multipart field "file"; ?team=<teamId> when you are in several teams',
+    middleware: [documentBody],
+    handler: async (req, res) => {
+      const doc = parseEntryDocument(documentText(req));
+      const check = await checkEntry(db, doc, { slug: String(req.params.slug) });
+      const teamId = (await postingTeam(req))!;
+      const out = await createEntry(db, { check, teamId, actor: req.actor, now: ctx.now() });
+      res.status(201);
+      return { ...out, challenge: { slug: check.version.slug, version: check.version.version }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, next: `POST /api/entries/${out.id}/submit sends it to review` };
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/entries/validate', access: 'public',
+    summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing',
+    middleware: [documentBody],
+    handler: async (req) => {
+      const doc = parseEntryDocument(documentText(req));
+      const check = await checkEntry(db, doc);
+      const scores = await previewScores(db, check, ctx.now());
+      return { valid: true, stored: false, challenge: { slug: check.version.slug, version: check.version.version, checksum: check.version.checksum }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, scores };
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/entries/:entryId', access: 'public',
+    summary: 'One entry with its document, revisions and history (the public sees published, superseded and withdrawn-after-publication entries; the team and moderators see all)',
+    handler: async (req) => {
+      const e = await loadEntry(req);
+      const priv = await privileged(req, e.teamId);
+      if (!priv && !isPublicEntry(e)) throw notFound('The entry');
+      return presentEntry(db, e, { document: true, privileged: priv });
+    },
+  });
+
+  routes.add({
+    method: 'put', path: '/entries/:entryId', access: 'team-member', apiKey: true, team: entryTeam,
+    summary: "Replace a draft's (or returned entry's) whole document; submitted and published entries are frozen",
+    middleware: [documentBody],
+    handler: async (req) => {
+      const e = await loadEntry(req);
+      const doc = parseEntryDocument(documentText(req));
+      const check = await checkEntry(db, doc, { slug: e.challengeSlug });
+      const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now: ctx.now() });
+      return { ...out, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings };
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/entries/:entryId/submit', access: 'team-member', apiKey: true, team: entryTeam,
+    summary: 'Send a draft (or returned) entry to review; it is frozen from then on',
+    handler: async (req) => submitEntry(db, { entryId: String(req.params.entryId), actor: req.actor, now: ctx.now() }),
+  });
+
+  routes.add({
+    method: 'post', path: '/entries/:entryId/withdraw', access: 'team-member', apiKey: true, team: entryTeam,
+    summary: 'Withdraw an entry with a reason (a recorded state, never a deletion)',
+    handler: async (req) => {
+      const body = parseBody(withdrawBody, req.body);
+      const out = await withdrawEntry(db, { entryId: String(req.params.entryId), reason: body.reason, actor: req.actor, now: ctx.now() });
+      if (out.standingsChanged) ctx.jobs.kick();
+      return out;
+    },
+  });
+
+  routes.add({
+    method: 'post', path: '/entries/:entryId/revise', access: 'team-member', apiKey: true, team: entryTeam,
+    summary: 'Start a new draft revision of a published entry (the published one stays until the revision is published)',
+    handler: async (req, res) => {
+      const out = await reviseEntry(db, { entryId: String(req.params.entryId), actor: req.actor, now: ctx.now() });
+      res.status(201);
+      return out;
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/teams/:teamId/entries', access: 'public',
+    summary: "A team's entries: all states for its members and moderators, published and superseded ones for everyone else",
+    handler: async (req) => {
+      const teamId = String(req.params.teamId);
+      const priv = await privileged(req, teamId);
+      const rows = await db.select().from(entries)
+        .where(priv ? eq(entries.teamId, teamId) : and(eq(entries.teamId, teamId), inArray(entries.state, ['published', 'superseded'])))
+        .orderBy(desc(entries.updatedAt)).limit(500);
+      return { entries: await Promise.all(rows.map((e) => presentEntry(db, e, { privileged: priv }).then(({ history: _h, ...rest }) => rest))) };
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/entries', access: 'public',
+    summary: 'The published entries of a challenge version (?version=N) with a summary of their estimates',
+    handler: async (req) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const rows = await db.select().from(entries).where(and(eq(entries.versionId, v.id), eq(entries.state, 'published'))).orderBy(desc(entries.publishedAt));
+      const out = [];
+      for (const e of rows) {
+        const { history: _h, revisions: _r, ...rest } = await presentEntry(db, e);
+        const ests = await db.select({ u: estimates.uncertainty }).from(estimates).where(eq(estimates.entryId, e.id));
+        const us = ests.map((x) => x.u).sort((a, b) => a - b);
+        out.push({ ...rest, summary: { estimates: us.length, medianUncertainty: us.length ? us[Math.floor(us.length / 2)] : null, resources: (e.document as { resources?: unknown }).resources ?? null } });
+      }
+      return { challenge: v.challengeSlug, version: v.version, checksum: v.checksum, entries: out };
+    },
+  });
+}
+
+export const ENTRY_LIMIT_NOTE = `Entries: at most ${MAX_ESTIMATES} estimates, nesting depth ${MAX_DEPTH}.`;

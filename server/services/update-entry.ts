@@ -1,0 +1,34 @@
+/**
+ * Replacing the document of a draft (or returned) entry: metadata and every estimate, in one
+ * transaction. A submitted entry is frozen; a published one changes only through a revision.
+ */
+import { eq } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { entries, estimates } from '../db/schema';
+import { conflict, invalid, notFound } from '../errors';
+import { recordAudit, type AuditActor } from './record-audit';
+import { entryMetadata, insertEstimates } from './create-entry';
+import type { EntryCheck } from './validate-entry';
+
+export const EDITABLE_STATES = ['draft', 'returned'];
+
+export async function updateEntry(db: Db, p: { entryId: string; check: EntryCheck; actor: AuditActor; now: Date }) {
+  const doc = p.check.document;
+  return db.transaction(async (tx) => {
+    const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
+    if (!e) throw notFound('The entry');
+    if (!EDITABLE_STATES.includes(e.state)) {
+      throw conflict(e.state === 'published'
+        ? 'This entry is published and is never edited in place: POST /api/entries/' + e.id + '/revise creates a new draft revision.'
+        : `This entry is ${e.state} and frozen: only a draft or a returned entry can be edited.`);
+    }
+    if (e.challengeSlug !== p.check.version.slug) {
+      throw invalid([{ path: '/challenge/id', message: `this entry answers ${e.challengeSlug}; an entry for ${p.check.version.slug} is a new entry (POST /api/challenges/${p.check.version.slug}/entries)` }]);
+    }
+    await tx.delete(estimates).where(eq(estimates.entryId, e.id));
+    await insertEstimates(tx, e.id, doc.estimates);
+    await tx.update(entries).set({ versionId: p.check.version.versionId, track: doc.track, methodFamily: doc.method.family, label: doc.label, document: entryMetadata(doc), updatedAt: p.now }).where(eq(entries.id, e.id));
+    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, details: { estimates: doc.estimates.length, coverage: p.check.coverage, warnings: p.check.warnings.slice(0, 20) } });
+    return { id: e.id, state: e.state };
+  });
+}
