@@ -186,7 +186,8 @@ export class Planner {
     readonly challenge: ValidatedChallenge,
     options: PlannerOptions = {},
   ) {
-    this.options = { ...DEFAULT_PLANNER_OPTIONS, ...options };
+    const given = Object.fromEntries(Object.entries(options).filter(([k, v]) => v !== undefined && k in DEFAULT_PLANNER_OPTIONS));
+    this.options = { ...DEFAULT_PLANNER_OPTIONS, ...given };
     this.lattice = compileLattice(challenge.spec);
     this.graph = csr(this.lattice.graph.n, this.lattice.graph.edges);
     this.mark = new Int32Array(Math.max(challenge.nQubits, this.lattice.graph.n));
