@@ -341,6 +341,10 @@ function quadTan(d: Float64Array, base: number, sa: number, sb: number, len: num
   }
 }
 
+function isRealMat(m: Mat2): boolean {
+  return m[1] === 0 && m[3] === 0 && m[5] === 0 && m[7] === 0;
+}
+
 function isRxForm(m: Mat2): boolean {
   return m[1] === 0 && m[7] === 0 && m[0] === m[6] && m[2] === 0 && m[4] === 0 && m[3] === m[5];
 }
@@ -623,7 +627,16 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
   const get = (i: number) => [0x20, ...uleb(i)];
   const set = (i: number) => [0x21, ...uleb(i)];
   const tee = (i: number) => [0x22, ...uleb(i)];
-  const i32c = (v: number) => [0x41, ...uleb(v)]; // small non-negative constants only (< 64)
+  const sleb = (v: number): number[] => {
+    const o: number[] = [];
+    for (;;) {
+      const b = v & 0x7f;
+      v >>= 7;
+      if ((v === 0 && !(b & 0x40)) || (v === -1 && b & 0x40)) { o.push(b); return o; }
+      o.push(b | 0x80);
+    }
+  };
+  const i32c = (v: number) => [0x41, ...sleb(v)];
   const add = [0x6a], geu = [0x4f], ltu = [0x49];
   const simd = (op: number) => [0xfd, ...uleb(op)];
   const vload = (off = 0) => [...simd(0x00), 4, ...uleb(off)];
@@ -643,89 +656,83 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
   const brIf = (l: number) => [0x0d, ...uleb(l)];
   const PM = vconst(-1, 1);
 
-  // strided pair loop: params start(0) end(1) step(2) run(3) sB(4);
-  // for (base = start; base < end; base += step) for (p = base; p < base + run; p += 16) body(p, p + sB)
-  const pairLoop = (base: number, p: number, lim: number, body: number[]) => [
-    ...get(0), ...set(base),
-    ...block([
-      ...loop([
-        ...get(base), ...get(1), ...geu, ...brIf(1),
-        ...get(base), ...set(p),
-        ...get(base), ...get(3), ...add, ...set(lim),
-        ...loop([...body, ...get(p), ...i32c(16), ...add, ...tee(p), ...get(lim), ...ltu, ...brIf(0)]),
-        ...get(base), ...get(2), ...add, ...set(base),
-        ...br(0),
-      ]),
-    ]),
-  ];
-  // adjacent-pair loop: params start(0) end(1); for (p = start; p < end; p += 32) body(p, p + 16)
-  const adjLoop = (p: number, body: number[]) => [
-    ...get(0), ...set(p),
-    ...block([...loop([...get(p), ...get(1), ...geu, ...brIf(1), ...body, ...get(p), ...i32c(32), ...add, ...set(p), ...br(0)])]),
-  ];
-  // rx(start, end, step, run, sB, c f64, s f64); locals 7 base, 8 p, 9 lim; 10 C, 11 S, 12 x, 13 y
-  const rxBody = [
-    ...get(5), ...splat, ...set(10),
-    ...get(6), ...splat, ...vconst(1, -1), ...vmul, ...set(11),
-    ...pairLoop(7, 8, 9, [
-      ...get(8), ...vload(), ...set(12),
-      ...get(8), ...get(4), ...add, ...vload(), ...set(13),
-      ...get(8), ...get(10), ...get(12), ...vmul, ...get(11), ...swapOf(13), ...vmul, ...vadd, ...vstore(),
-      ...get(8), ...get(4), ...add, ...get(10), ...get(13), ...vmul, ...get(11), ...swapOf(12), ...vmul, ...vadd, ...vstore(),
-    ]),
-  ];
-  const rxLocals = vec([[...uleb(3), I32], [...uleb(4), V128]]);
-
-  // coefficient vectors of a general matrix at mptr: A = splat(m0r), Ai = m0i [-1, 1], ...
-  const coeffs = (mptr: number, first: number) => {
-    const o: number[] = [];
-    for (let k = 0; k < 4; k++) {
-      o.push(...get(mptr), ...f64load(16 * k), ...splat, ...set(first + 2 * k));
-      o.push(...get(mptr), ...f64load(16 * k + 8), ...splat, ...PM, ...vmul, ...set(first + 2 * k + 1));
+  // Kernel families: rx (RX form: C = splat(c), S = [s, -s]; x' = C x + S swap(y), y' = C y + S swap(x)),
+  // real (real 2x2: x' = A x + B y, y' = C x + D y), gen (complex 2x2, 8 coefficient vectors).
+  // Layouts: strided (start, end, step, run, sB, ...): for (base = start; base < end; base += step)
+  //   for (p = base; p < base + run; p += 32) pairs (p + o, p + o + sB), o = 0, 16 (run % 32 == 0);
+  // adjacent (start, end, ...): for (p = start; p < end; p += 64) pairs (p + o, p + o + 16), o = 0, 32.
+  type Kind = 'rx' | 'real' | 'gen';
+  const build = (kind: Kind, adjacent: boolean): { params: number[]; locals: number[]; body: number[] } => {
+    const nI = adjacent ? 2 : 5; // i32 params before the kind-specific ones
+    const params = [...Array(nI).fill(I32), ...(kind === 'rx' ? [F64, F64] : [I32])];
+    const np = params.length;
+    const base = np, p = adjacent ? np : np + 1, lim = np + 2;
+    const nIntLocals = adjacent ? 1 : 3;
+    const v0 = np + nIntLocals; // first v128 local
+    const nCoef = kind === 'rx' ? 2 : kind === 'real' ? 4 : 8;
+    const x = v0 + nCoef, y = x + 1, sx = x + 2, sy = x + 3;
+    const sBp = 4;
+    const init: number[] = [];
+    if (kind === 'rx') {
+      const cp = nI, spp = nI + 1;
+      init.push(...get(cp), ...splat, ...set(v0), ...get(spp), ...splat, ...vconst(1, -1), ...vmul, ...set(v0 + 1));
+    } else if (kind === 'real') {
+      for (let k = 0; k < 4; k++) init.push(...get(nI), ...f64load(16 * k), ...splat, ...set(v0 + k));
+    } else {
+      for (let k = 0; k < 4; k++) {
+        init.push(...get(nI), ...f64load(16 * k), ...splat, ...set(v0 + 2 * k));
+        init.push(...get(nI), ...f64load(16 * k + 8), ...splat, ...PM, ...vmul, ...set(v0 + 2 * k + 1));
+      }
     }
-    return o;
+    const yAddr = (): number[] => (adjacent ? [...get(p)] : [...get(p), ...get(sBp), ...add]);
+    const yOff = (o: number) => (adjacent ? o + 16 : o);
+    const pairBody = (o: number): number[] => {
+      const b: number[] = [...get(p), ...vload(o), ...set(x), ...yAddr(), ...vload(yOff(o)), ...set(y)];
+      let outX: number[], outY: number[];
+      if (kind === 'rx') {
+        outX = [...get(v0), ...get(x), ...vmul, ...get(v0 + 1), ...swapOf(y), ...vmul, ...vadd];
+        outY = [...get(v0), ...get(y), ...vmul, ...get(v0 + 1), ...swapOf(x), ...vmul, ...vadd];
+      } else if (kind === 'real') {
+        outX = [...get(v0), ...get(x), ...vmul, ...get(v0 + 1), ...get(y), ...vmul, ...vadd];
+        outY = [...get(v0 + 2), ...get(x), ...vmul, ...get(v0 + 3), ...get(y), ...vmul, ...vadd];
+      } else {
+        b.push(...swapOf(x), ...set(sx), ...swapOf(y), ...set(sy));
+        const lin = (c: number) => [
+          ...get(c), ...get(x), ...vmul, ...get(c + 1), ...get(sx), ...vmul, ...vadd,
+          ...get(c + 2), ...get(y), ...vmul, ...vadd, ...get(c + 3), ...get(sy), ...vmul, ...vadd,
+        ];
+        outX = lin(v0);
+        outY = lin(v0 + 4);
+      }
+      b.push(...get(p), ...outX, ...vstore(o), ...yAddr(), ...outY, ...vstore(yOff(o)));
+      return b;
+    };
+    let loopCode: number[];
+    if (adjacent) {
+      loopCode = [
+        ...get(0), ...set(p),
+        ...block([...loop([
+          ...get(p), ...get(1), ...geu, ...brIf(1),
+          ...pairBody(0), ...pairBody(32),
+          ...get(p), ...i32c(64), ...add, ...set(p), ...br(0),
+        ])]),
+      ];
+    } else {
+      loopCode = [
+        ...get(0), ...set(base),
+        ...block([...loop([
+          ...get(base), ...get(1), ...geu, ...brIf(1),
+          ...get(base), ...set(p),
+          ...get(base), ...get(3), ...add, ...set(lim),
+          ...loop([...pairBody(0), ...pairBody(16), ...get(p), ...i32c(32), ...add, ...tee(p), ...get(lim), ...ltu, ...brIf(0)]),
+          ...get(base), ...get(2), ...add, ...set(base),
+          ...br(0),
+        ])]),
+      ];
+    }
+    const nV = nCoef + (kind === 'gen' ? 4 : 2);
+    return { params, locals: vec([[...uleb(nIntLocals), I32], [...uleb(nV), V128]]), body: [...init, ...loopCode] };
   };
-  // out = c0 x + c1 swap(x) + c2 y + c3 swap(y)
-  const lin = (c: number, x: number, sx: number, y: number, sy: number) => [
-    ...get(c), ...get(x), ...vmul, ...get(c + 1), ...get(sx), ...vmul, ...vadd,
-    ...get(c + 2), ...get(y), ...vmul, ...vadd, ...get(c + 3), ...get(sy), ...vmul, ...vadd,
-  ];
-  // gen(start, end, step, run, sB, mptr); locals 6 base, 7 p, 8 lim; 9..16 coeffs; 17 x 18 y 19 sx 20 sy
-  const genBody = [
-    ...coeffs(5, 9),
-    ...pairLoop(6, 7, 8, [
-      ...get(7), ...vload(), ...tee(17), ...get(17), ...shuf(SWAP), ...set(19),
-      ...get(7), ...get(4), ...add, ...vload(), ...tee(18), ...get(18), ...shuf(SWAP), ...set(20),
-      ...get(7), ...lin(9, 17, 19, 18, 20), ...vstore(),
-      ...get(7), ...get(4), ...add, ...lin(13, 17, 19, 18, 20), ...vstore(),
-    ]),
-  ];
-  const genLocals = vec([[...uleb(3), I32], [...uleb(12), V128]]);
-
-  // rx0(start, end, c, s): qubit 0; locals 4 p; 5 C, 6 S, 7 x, 8 y
-  const rx0Body = [
-    ...get(2), ...splat, ...set(5),
-    ...get(3), ...splat, ...vconst(1, -1), ...vmul, ...set(6),
-    ...adjLoop(4, [
-      ...get(4), ...vload(), ...set(7),
-      ...get(4), ...vload(16), ...set(8),
-      ...get(4), ...get(5), ...get(7), ...vmul, ...get(6), ...swapOf(8), ...vmul, ...vadd, ...vstore(),
-      ...get(4), ...get(5), ...get(8), ...vmul, ...get(6), ...swapOf(7), ...vmul, ...vadd, ...vstore(16),
-    ]),
-  ];
-  const rx0Locals = vec([[...uleb(1), I32], [...uleb(4), V128]]);
-
-  // gen0(start, end, mptr): qubit 0; locals 3 p; 4..11 coeffs; 12 x 13 y 14 sx 15 sy
-  const gen0Body = [
-    ...coeffs(2, 4),
-    ...adjLoop(3, [
-      ...get(3), ...vload(), ...tee(12), ...get(12), ...shuf(SWAP), ...set(14),
-      ...get(3), ...vload(16), ...tee(13), ...get(13), ...shuf(SWAP), ...set(15),
-      ...get(3), ...lin(4, 12, 14, 13, 15), ...vstore(),
-      ...get(3), ...lin(8, 12, 14, 13, 15), ...vstore(16),
-    ]),
-  ];
-  const gen0Locals = vec([[...uleb(1), I32], [...uleb(12), V128]]);
 
   // diag(start, end, tptr, pr, pi): amp *= (pr + i pi) * table; locals 5 p, 6 tp; 7 PR, 8 PI, 9 t, 10 f, 11 a
   const diagBody = [
@@ -755,27 +762,19 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
     return [...uleb(b.length), ...b];
   };
   const fn = (params: number[]) => [0x60, ...vec(params.map((p) => [p])), ...vec([])];
-  const types = vec([
-    fn([I32, I32, I32, I32, I32, F64, F64]), // 0 rx
-    fn([I32, I32, I32, I32, I32, I32]), // 1 gen
-    fn([I32, I32, F64, F64]), // 2 rx0
-    fn([I32, I32, I32]), // 3 gen0
-    fn([I32, I32, I32, F64, F64]), // 4 diag
-  ]);
-  const names = ['rx', 'gen', 'rx0', 'gen0', 'diag'];
+  const kernels: { name: string; params: number[]; locals: number[]; body: number[] }[] = [];
+  for (const kind of ['rx', 'real', 'gen'] as Kind[]) {
+    for (const adjacent of [false, true]) kernels.push({ name: kind + (adjacent ? '0' : ''), ...build(kind, adjacent) });
+  }
+  kernels.push({ name: 'diag', params: [I32, I32, I32, F64, F64], locals: diagLocals, body: diagBody });
+  const types = vec(kernels.map((k) => fn(k.params)));
   const mod = [
     0x00, 0x61, 0x73, 0x6d, 1, 0, 0, 0,
     ...section(1, types),
     ...section(2, vec([[...str('env'), ...str('mem'), 0x02, 0x00, ...uleb(1)]])),
-    ...section(3, vec([[0], [1], [2], [3], [4]])),
-    ...section(7, vec(names.map((nm, i) => [...str(nm), 0x00, i]))),
-    ...section(10, vec([
-      code(rxLocals, rxBody),
-      code(genLocals, genBody),
-      code(rx0Locals, rx0Body),
-      code(gen0Locals, gen0Body),
-      code(diagLocals, diagBody),
-    ])),
+    ...section(3, vec(kernels.map((_, i) => [i]))),
+    ...section(7, vec(kernels.map((k, i) => [...str(k.name), 0x00, i]))),
+    ...section(10, vec(kernels.map((k) => code(k.locals, k.body)))),
   ];
   return new Uint8Array(mod);
 }
@@ -783,8 +782,10 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
 interface WasmKernels {
   rx(start: number, end: number, step: number, run: number, sB: number, c: number, s: number): void;
   gen(start: number, end: number, step: number, run: number, sB: number, mptr: number): void;
+  real(start: number, end: number, step: number, run: number, sB: number, mptr: number): void;
   rx0(start: number, end: number, c: number, s: number): void;
   gen0(start: number, end: number, mptr: number): void;
+  real0(start: number, end: number, mptr: number): void;
   diag(start: number, end: number, tptr: number, pr: number, pi: number): void;
 }
 
@@ -847,13 +848,17 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
   // one gate on qubit q over amplitudes [start, end)
   const gate = (q: number, m: Mat2, start: number, end: number) => {
     const rx = isRxForm(m);
+    const real = !rx && isRealMat(m);
     if (q === 0) {
+      if (end - start < 4) { q0Gen(ws.data, start, end, m, false); return; } // 1-qubit states
       if (rx) k.rx0(start * 16, end * 16, m[0], -m[3]);
+      else if (real) { setMat(m); k.real0(start * 16, end * 16, ws.mptr); }
       else { setMat(m); k.gen0(start * 16, end * 16, ws.mptr); }
       return;
     }
     const sB = 16 * 2 ** q;
     if (rx) k.rx(start * 16, end * 16, 2 * sB, sB, sB, m[0], -m[3]);
+    else if (real) { setMat(m); k.real(start * 16, end * 16, 2 * sB, sB, sB, ws.mptr); }
     else { setMat(m); k.gen(start * 16, end * 16, 2 * sB, sB, sB, ws.mptr); }
   };
 
@@ -867,6 +872,7 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
       const pos = grp.map((i) => qubits[i]);
       const ms = grp.map((i) => mats[i]);
       const rxs = ms.map(isRxForm);
+      const reals = ms.map((m, j) => !rxs[j] && isRealMat(m));
       const offs = new Float64Array(1 << G);
       for (let s = 0; s < 1 << G; s++) {
         let o = 0;
@@ -889,6 +895,7 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
             if (s & bit) continue;
             const o0 = (base + offs[s]) * 16;
             if (rxs[j]) k.rx(o0, o0 + 1, runB, runB, sB, c, sn);
+            else if (reals[j]) k.real(o0, o0 + 1, runB, runB, sB, ws.mptr);
             else k.gen(o0, o0 + 1, runB, runB, sB, ws.mptr);
           }
         }
