@@ -715,7 +715,7 @@ function applyRotation(sum: PauliSum, g: Gate, tr: Trunc, st: Stats, scratch: Sc
       if (hash[jj] === hQ) {
         const jb = jj * S;
         let k = 0;
-        while (k < S && (words[jb + k] ^ words[base + k]) === flip[k]) k++;
+        while (k < S && (words[jb + k] ^ words[base + k] ^ flip[k]) === 0) k++; // int32 XOR: bit 31 safe
         if (k === S) {
           j = jj;
           break;

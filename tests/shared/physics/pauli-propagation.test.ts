@@ -303,6 +303,20 @@ describe('random circuits against quantum-circuit', () => {
     expect(cases).toBe(42);
   });
 
+  it('multi-word strings: 6 active qubits spread over a 130-qubit register (word boundaries) match quantum-circuit on 6', () => {
+    const r = rng(4242);
+    const place = [0, 31, 32, 63, 64, 129]; // 5 words of 32 bits
+    for (let rep = 0; rep < 12; rep++) {
+      const small = randomCircuit(r, 6, 40);
+      // add runs of diagonal Cliffords so fused blocks cross words too
+      for (let k = 0; k < 6; k++) small.splice(Math.floor(r() * small.length), 0, g2('rzz', k % 6, (k + 1 + rep) % 6 === k % 6 ? (k + 2) % 6 : (k + 1 + rep) % 6, -Math.PI / 2), g2('cz', (k + 3) % 6, (k + 4) % 6));
+      const big = small.map((g) => ({ ...g, qubits: g.qubits.map((q) => place[q]) }));
+      const f = randomFactors(r, 6);
+      const res = propagate(circ(130, big), obs(f.map((x) => ({ qubit: place[x.qubit], op: x.op }))));
+      expect(Math.abs(res.value - qcExpectation(6, small, f))).toBeLessThan(1e-10); // quantum-circuit
+    }
+  });
+
   it('kicked Ising on an 8-ring and a 7-chain at generic angles matches quantum-circuit', () => {
     for (const [n, edges] of [[8, ring(8)], [7, chain(7)]] as const) {
       const c = kickedIsing(n, edges as [number, number][], 3, 0.41, 0.83);
@@ -346,6 +360,31 @@ describe('Clifford points of the kicked-Ising family at 200 qubits (PHYSICS.md /
       expect(r.peakTerms).toBe(1);
     }
   });
+  it('random Clifford circuits on 200 qubits (h, s, sdg, sx, x, y, z, cx, cz, Clifford-angle rotations) stay at one string per term', () => {
+    const r = rng(8);
+    const cl = ['x', 'y', 'z', 'h', 's', 'sdg', 'sx', 'cx', 'cz', 'rx', 'ry', 'rz', 'rzz'] as const;
+    for (let rep = 0; rep < 5; rep++) {
+      const gates: Gate[] = [];
+      for (let k = 0; k < 3000; k++) {
+        const name = cl[Math.floor(r() * cl.length)];
+        const a = Math.floor(r() * n);
+        const b = (a + 1 + Math.floor(r() * 3)) % n;
+        const t = (Math.floor(r() * 8) - 4) * (Math.PI / 2);
+        gates.push(name === 'cx' || name === 'cz' ? g2(name, a, b) : name === 'rzz' ? g2(name, a, b, t)
+          : name === 'rx' || name === 'ry' || name === 'rz' ? g1(name, a, t) : g1(name, a));
+      }
+      const res = propagate(circ(n, gates), { id: 'two', terms: [
+        { coef: 0.5, factors: [{ qubit: 100, op: 'Z' }] },
+        { coef: 0.25, factors: [{ qubit: 7, op: 'X' }, { qubit: 8, op: 'Y' }] },
+      ] });
+      expect(res.peakTerms).toBe(2); // common practice: Clifford circuits are efficiently simulable
+      expect(res.updates).toBe(0);
+      // each Pauli value is -1, 0 or 1 (stabilizer states; PHYSICS.md Clifford points)
+      const allowed = [0, 0.5, -0.5, 0.25, -0.25, 0.75, -0.75];
+      expect(allowed.some((v) => Math.abs(res.value - v) < 1e-15)).toBe(true);
+    }
+  });
+
   it('heavy-hex-like patch of ~200 qubits at thetaH = pi/2, 10 steps stays at one string', () => {
     const hh = heavyHex(8, 22);
     expect(hh.n).toBeGreaterThan(190);
