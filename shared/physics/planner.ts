@@ -609,8 +609,14 @@ export class Planner {
     let qubits = 0;
     for (const t of terms) {
       for (const f of t.factors) {
-        if (mark[f.qubit] !== s) (mark[f.qubit] = s, qubits++);
-        if (f.op !== 'Z' && inD[f.qubit]) (inD[f.qubit] = 0, dCount--);
+        if (mark[f.qubit] !== s) {
+          mark[f.qubit] = s;
+          qubits++;
+        }
+        if (f.op !== 'Z' && inD[f.qubit]) {
+          inD[f.qubit] = 0;
+          dCount--;
+        }
       }
     }
     let gates = 0;
@@ -636,20 +642,47 @@ export class Planner {
       const fl = flags[i];
       if (fl & 1) {
         if (inD[a] && (b < 0 || inD[b])) continue;
-        if (!inA) (mark[a] = s, qubits++);
-        if (b >= 0 && !inB) (mark[b] = s, qubits++);
+        if (!inA) {
+          mark[a] = s;
+          qubits++;
+        }
+        if (b >= 0 && !inB) {
+          mark[b] = s;
+          qubits++;
+        }
       } else if (fl & 4) {
         // cx(a = control, b = target)
         if (!inB && inD[a]) continue;
-        if (!inA) (mark[a] = s, qubits++);
-        if (!inB) (mark[b] = s, qubits++);
-        if (inD[b]) (inD[b] = 0, dCount--);
+        if (!inA) {
+          mark[a] = s;
+          qubits++;
+        }
+        if (!inB) {
+          mark[b] = s;
+          qubits++;
+        }
+        if (inD[b]) {
+          inD[b] = 0;
+          dCount--;
+        }
       } else {
-        if (!inA) (mark[a] = s, qubits++);
-        if (inD[a]) (inD[a] = 0, dCount--);
+        if (!inA) {
+          mark[a] = s;
+          qubits++;
+        }
+        if (inD[a]) {
+          inD[a] = 0;
+          dCount--;
+        }
         if (b >= 0) {
-          if (!inB) (mark[b] = s, qubits++);
-          if (inD[b]) (inD[b] = 0, dCount--);
+          if (!inB) {
+            mark[b] = s;
+            qubits++;
+          }
+          if (inD[b]) {
+            inD[b] = 0;
+            dCount--;
+          }
         }
       }
       gates++;
@@ -687,7 +720,10 @@ export class Planner {
       gates = [];
       for (let step = 1; step <= steps; step++) {
         const rxq = [...collect.rx[steps - step]].sort((a, b) => a - b);
-        for (const q of rxq) (gates.push({ name: 'rx', qubits: [q], params: [thetaH] }), set.add(q));
+        for (const q of rxq) {
+          gates.push({ name: 'rx', qubits: [q], params: [thetaH] });
+          set.add(q);
+        }
         const block = collect.rzz[steps - step] ?? [];
         const byColour = new Map<number, number[]>();
         for (const e of block) {

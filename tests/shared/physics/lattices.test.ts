@@ -84,7 +84,10 @@ describe('graph facts', () => {
       expect(g.edges.length - g.n + 1).toBe(R * C);
       // no vertex of degree 1 (no dangling qubits)
       const deg = new Array(g.n).fill(0);
-      for (const [a, b] of g.edges) (deg[a]++, deg[b]++);
+      for (const [a, b] of g.edges) {
+        deg[a]++;
+        deg[b]++;
+      }
       expect(Math.min(...deg)).toBe(2);
     }
   });
@@ -111,7 +114,10 @@ describe('graph facts', () => {
     const h = honeycomb(3, 4);
     const g = heavyHex(3, 4);
     const nbrs: number[][] = Array.from({ length: g.n }, () => []);
-    for (const [a, b] of g.edges) (nbrs[a].push(b), nbrs[b].push(a));
+    for (const [a, b] of g.edges) {
+      nbrs[a].push(b);
+      nbrs[b].push(a);
+    }
     for (let m = h.n; m < g.n; m++) {
       expect(nbrs[m].length).toBe(2);
       const [a, b] = nbrs[m];
@@ -174,7 +180,10 @@ describe('edge colouring', () => {
       for (let k = 0; k < left * right * 0.4; k++) {
         const a = Math.floor(rnd() * left);
         const b = left + Math.floor(rnd() * right);
-        if (!set.has(`${a},${b}`)) (set.add(`${a},${b}`), edges.push([a, b]));
+        if (!set.has(`${a},${b}`)) {
+          set.add(`${a},${b}`);
+          edges.push([a, b]);
+        }
       }
       const n = left + right;
       const layers = edgeColouring(n, edges);
