@@ -10,6 +10,8 @@ import { member, organization, user } from './schema';
 import { DEMO_SPECS } from './demo-challenges';
 import { createChallengeVersion } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
+import { enqueueJob } from '../jobs/queue';
+import './demo-entries';
 import { recordAudit } from '../services/record-audit';
 
 export const DEMO_PASSWORD = 'parallax-demo-2026';
@@ -60,7 +62,9 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
   const seedActor = { kind: 'system' as const, label: 'seed' };
   for (const spec of DEMO_SPECS) {
     await createChallengeVersion(db, spec, seedActor, ctx.now());
-    await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: ctx.now() });
+    const pub = await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: ctx.now() });
+    // queued after the reference job, so the invented entries are made from computed references
+    await enqueueJob(db, 'demo-entries', { versionId: pub.versionId }, `demo-entries:${pub.versionId}`);
   }
   ctx.jobs.kick();
   return true;

@@ -8,6 +8,8 @@ import { registerChallengeRoutes } from './challenges';
 import { registerEntryRoutes } from './entries';
 import { registerOpenApiRoutes } from './openapi';
 import { registerStandingsRoutes } from './standings';
+import { registerPublicDataRoutes } from './public-data';
+import { registerExportRoutes } from './exports';
 import '../jobs/standings-job';
 
 export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -19,4 +21,6 @@ export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerEntryRoutes(routes, ctx);
   registerOpenApiRoutes(routes, ctx);
   registerStandingsRoutes(routes, ctx);
+  registerPublicDataRoutes(routes, ctx);
+  registerExportRoutes(routes, ctx);
 }

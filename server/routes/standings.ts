@@ -7,7 +7,7 @@ import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
 import type { AppContext } from '../app';
 import { entries, estimates, organization } from '../db/schema';
 import { badRequest } from '../errors';
-import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+import { latestStandings, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
 import { standingsCache } from './standings-cache';
@@ -80,7 +80,8 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
           meanRatio: result?.agreement.meanRatio ?? [], targets: result?.agreement.targets ?? [],
         };
       }
-      const ids = result?.entries.map((e) => e.id) ?? [];
+      const hideBaseline = (await sealedTargetKeys(db, v.id, ctx.now())).has(target);
+      const ids = (result?.entries ?? []).filter((e) => !(hideBaseline && e.isBaseline)).map((e) => e.id);
       const est = ids.length ? await db.select({ entryId: estimates.entryId, value: estimates.value, u: estimates.uncertainty })
         .from(estimates).innerJoin(entries, eq(entries.id, estimates.entryId))
         .innerJoin(organization, eq(organization.id, entries.teamId))

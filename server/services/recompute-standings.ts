@@ -40,12 +40,24 @@ export async function recomputeStandings(db: Db, versionId: string, now: Date = 
       };
     }).filter((x) => !eRows.find((r) => r.e.id === x.id)!.e.hiddenReason);
     const exact = (t: (typeof tRows)[number]) => (t.value === null || t.value === undefined ? null : { value: t.value, uncertainty: t.unc ?? 0 });
-    const pub = computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: t.sealedUntil && t.sealedUntil > now ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
+    const sealed = new Set(tRows.filter((t) => t.sealedUntil && t.sealedUntil > now).map((t) => t.key));
+    const publicInputs = sealed.size ? entryInputs.map((e) => (e.isBaseline ? { ...e, estimates: new Map([...e.estimates].filter(([k]) => !sealed.has(k))) } : e)) : entryInputs;
+    const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, reference: t.sealedUntil && t.sealedUntil > now ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
     const priv = computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
     const payload: StandingsPayload = { public: pub, private: priv, computedAt: now.toISOString(), versionId, estimator };
     const [row] = await tx.insert(standings).values({ versionId, computedAt: now, engineVersion: ENGINE_VERSION, payload }).returning({ id: standings.id, computedAt: standings.computedAt });
     return row;
   });
+}
+
+/**
+ * Targets whose reference is sealed at `now`. The house baseline is usually exact on small
+ * circuits, so its estimates for these targets are withheld from every public view too
+ * (otherwise the baseline would reveal the sealed value).
+ */
+export async function sealedTargetKeys(db: DbOrTx, versionId: string, now: Date): Promise<Set<string>> {
+  const rows = await db.select({ key: targets.key, until: references.sealedUntil }).from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, versionId));
+  return new Set(rows.filter((r) => r.until && r.until > now).map((r) => r.key));
 }
 
 /** The newest standings row of a version computed at or before `asOf` (default: now). */

@@ -69,6 +69,15 @@ const MATRIX: Record<string, Probe> = {
   'GET /openapi.json': { row: ALL_200, path: () => '/api/openapi.json' },
   'GET /challenges/:slug/standings': { row: ALL_200, path: () => '/api/challenges/seeded-chain/standings' },
   'GET /challenges/:slug/agreement': { row: ALL_200, path: () => '/api/challenges/seeded-chain/agreement' },
+  'GET /challenges/:slug/estimates': { row: ALL_200, path: () => '/api/challenges/seeded-chain/estimates' },
+  'GET /challenges/:slug/targets/:targetKey/light-cone': { row: ALL_200, path: () => '/api/challenges/seeded-chain/targets/t1-h0.100000:z1/light-cone' },
+  'GET /challenges/:slug/history': { row: ALL_200, path: () => '/api/challenges/seeded-chain/history' },
+  'GET /challenges/:slug/export.csv': { row: ALL_200, path: () => '/api/challenges/seeded-chain/export.csv' },
+  'GET /challenges/:slug/export.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/export.json' },
+  'GET /challenges/:slug/package.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/package.json' },
+  'GET /challenges/:slug/cite.bib': { row: ALL_200, path: () => '/api/challenges/seeded-chain/cite.bib' },
+  'GET /challenges/:slug/CITATION.cff': { row: ALL_200, path: () => '/api/challenges/seeded-chain/CITATION.cff' },
+  'GET /entries/:entryId/cite.bib': { row: { anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/entries/00000000-0000-0000-0000-000000000000/cite.bib' },
 };
 
 let t: TestApp;
