@@ -317,6 +317,40 @@ describe('random circuits against quantum-circuit', () => {
     }
   });
 
+  it('102-qubit heavy-hex kicked Ising near a word boundary: equals quantum-circuit on the light-cone qubits', () => {
+    const hh = heavyHex(6, 14);
+    const values: number[] = [];
+    for (const [t, f] of [[3, [{ qubit: 31, op: 'Z' }]], [2, [{ qubit: 32, op: 'Y' }]], [2, [{ qubit: 32, op: 'X' }]], [2, [{ qubit: 63, op: 'Y' }, { qubit: 64, op: 'Z' }]]] as [number, PauliFactor[]][]) {
+      const c = kickedIsing(hh.n, hh.edges, t, Math.PI / 16);
+      const full = propagate(c, obs(f));
+      expect(full.exact).toBe(true);
+      // the cone by PHYSICS.md (ball of radius t - 1 around Z sites, t around X/Y sites), by BFS here
+      const radius = (op: string) => (op === 'Z' ? t - 1 : t);
+      const inCone = new Set<number>();
+      for (const x of f) {
+        let frontier = [x.qubit];
+        inCone.add(x.qubit);
+        for (let k = 0; k < radius(x.op); k++) {
+          const next: number[] = [];
+          for (const u of frontier) for (const [a, b] of hh.edges) {
+            const v = a === u ? b : b === u ? a : -1;
+            if (v >= 0 && !inCone.has(v)) { inCone.add(v); next.push(v); }
+          }
+          frontier = next;
+        }
+      }
+      const qs = [...inCone].sort((a, b) => a - b);
+      expect(qs.length).toBeLessThanOrEqual(11);
+      const loc = new Map(qs.map((q, i) => [q, i]));
+      // every gate whose qubits all lie in the ball, re-indexed (gates leaving the ball cannot matter)
+      const sub = c.gates.filter((g) => g.qubits.every((q) => loc.has(q))).map((g) => ({ ...g, qubits: g.qubits.map((q) => loc.get(q)!) }));
+      const ref = qcExpectation(qs.length, sub, f.map((x) => ({ qubit: loc.get(x.qubit)!, op: x.op })));
+      expect(Math.abs(full.value - ref)).toBeLessThan(1e-10); // quantum-circuit
+      values.push(full.value);
+    }
+    expect(values.filter((v) => Math.abs(v) > 1e-3).length).toBeGreaterThanOrEqual(2); // not all trivial zeros
+  });
+
   it('kicked Ising on an 8-ring and a 7-chain at generic angles matches quantum-circuit', () => {
     for (const [n, edges] of [[8, ring(8)], [7, chain(7)]] as const) {
       const c = kickedIsing(n, edges as [number, number][], 3, 0.41, 0.83);
