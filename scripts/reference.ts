@@ -4,9 +4,10 @@
  *
  * Validates the challenge, plans every target (shared/physics/planner.ts), computes the exact
  * references (shared/physics/reference.ts) and writes a JSON array, one entry per target:
- *   { targetId, instanceId, params, observableId, value, method, size, unit, wallMs, engineVersion }
+ *   { targetId, instanceId, params, observableId, value, method, size, unit, wallMs, engineVersion, detail }
  * with value null and a reason where no exact method is feasible. Progress goes to stderr; the
- * JSON goes to --out, or to stdout without it. Validation errors are printed and exit with 1.
+ * JSON goes to --out, or to stdout without it (use `npm run -s reference` so npm's banner stays out
+ * of the JSON). Validation errors are printed and exit with 1.
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { validateChallenge } from '../shared/physics/challenge';
@@ -76,7 +77,7 @@ plans.forEach((plan, k) => {
     counts.none = (counts.none ?? 0) + 1;
     console.error(`[${k + 1}/${plans.length}] ${target.id}: no exact value (${r.reason})`);
   } else {
-    results.push({ ...base, value: r.value, method: r.method, size: r.size, unit: r.unit, wallMs: Math.round(r.wallMs * 1000) / 1000, engineVersion: r.engineVersion });
+    results.push({ ...base, value: r.value, method: r.method, size: r.size, unit: r.unit, wallMs: Math.round(r.wallMs * 1000) / 1000, engineVersion: r.engineVersion, detail: r.detail });
     counts[r.method] = (counts[r.method] ?? 0) + 1;
     console.error(`[${k + 1}/${plans.length}] ${target.id}: ${r.value} (${r.method}, ${r.size} ${r.unit}, ${r.wallMs.toFixed(1)} ms)`);
   }

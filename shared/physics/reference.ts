@@ -24,6 +24,8 @@ export interface ReferenceValue {
   unit: MethodEstimate['unit'];
   wallMs: number;
   engineVersion: string;
+  /** one plain sentence of provenance, e.g. "light-cone statevector on 19 of 1017 qubits" */
+  detail: string;
 }
 
 export interface ReferenceMissing {
@@ -70,7 +72,10 @@ export class ReferenceRunner {
       try {
         const r = this.runMethod(est, inst, obs);
         if (r.ok) {
-          return { value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION };
+          return {
+            value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION,
+            detail: this.detail(est.method, r, plan, obs),
+          };
         }
         failures.push(`${est.method}: ${r.reason}`);
       } catch (e) {
@@ -85,7 +90,11 @@ export class ReferenceRunner {
    * once on the union cone, or once per term when `perTerm` is set or the union is wider than the
    * cone limit.
    */
-  runMethod(est: Pick<MethodEstimate, 'method' | 'perTerm'>, inst: Instance, obs: ObservableSpec): { ok: true; value: number; size: number } | { ok: false; reason: string } {
+  runMethod(
+    est: Pick<MethodEstimate, 'method' | 'perTerm'>,
+    inst: Instance,
+    obs: ObservableSpec,
+  ): { ok: true; value: number; size: number; perTerm?: boolean } | { ok: false; reason: string } {
     const progress = this.options.onProgress;
     const identityOnly = obs.terms.every((t) => t.factors.length === 0);
     if (identityOnly) {
@@ -151,7 +160,7 @@ export class ReferenceRunner {
           value += term.coef * lightConeStatevectorValue(one.circuit, one.observable, { maxQubits: limit }).value;
           progress?.((k + 1) / obs.terms.length);
         });
-        return { ok: true, value, size: widest };
+        return { ok: true, value, size: widest, perTerm: true };
       }
       case 'statevector': {
         const circ = this.circuit(inst);
@@ -161,6 +170,22 @@ export class ReferenceRunner {
         });
         return { ok: true, value: r.value, size: circ.nQubits };
       }
+    }
+  }
+
+  private detail(method: ExactMethod, r: { size: number; perTerm?: boolean }, plan: TargetPlan, obs: ObservableSpec): string {
+    const n = this.challenge.nQubits;
+    const terms = obs.terms.length;
+    const each = terms > 1 ? `, one run per term (${terms} terms)` : '';
+    switch (method) {
+      case 'pauli-propagation':
+        return `exact Pauli propagation${plan.clifford ? ' at a Clifford point (no branching)' : ''}, no truncation, ${r.size} term${r.size === 1 ? "" : "s"} in all${each}`;
+      case 'free-fermion':
+        return `free-fermion (Majorana covariance) on sub-chains of up to ${r.size} of ${n} sites`;
+      case 'light-cone-statevector':
+        return `light-cone statevector on ${r.size} of ${n} qubits${r.perTerm ? each : ''}`;
+      case 'statevector':
+        return `full statevector on ${n} qubits`;
     }
   }
 

@@ -69,6 +69,7 @@ describe('planner choices', () => {
       } else if (thetaH === 0) expect(r.value).toBe(0);
       expect([-1, 0, 1].some((v) => Math.abs(r.value - v) < 1e-12)).toBe(true);
       expect(r.size).toBe(1); // Clifford: one term all the way
+      expect(r.detail).toBe('exact Pauli propagation at a Clifford point (no branching), no truncation, 1 term in all');
     }
   });
 
@@ -231,6 +232,7 @@ describe('per-term light cones', () => {
     }
     expect(r.value).toBeCloseTo(want, 12);
     expect(r.size).toBe(lc.size);
+    expect(r.detail).toBe(`light-cone statevector on ${lc.size} of 68 qubits, one run per term (68 terms)`);
   });
 });
 
