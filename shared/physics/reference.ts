@@ -179,7 +179,7 @@ export class ReferenceRunner {
     const each = terms > 1 ? `, one run per term (${terms} terms)` : '';
     switch (method) {
       case 'pauli-propagation':
-        return `exact Pauli propagation${plan.clifford ? ' at a Clifford point (no branching)' : ''}, no truncation, ${r.size} term${r.size === 1 ? "" : "s"} in all${each}`;
+        return `exact Pauli propagation${plan.clifford ? ' at a Clifford point (no branching)' : ''}, no truncation, ${r.size} term${r.size === 1 ? '' : 's'} in all${each}`;
       case 'free-fermion':
         return `free-fermion (Majorana covariance) on sub-chains of up to ${r.size} of ${n} sites`;
       case 'light-cone-statevector':
