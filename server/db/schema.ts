@@ -296,3 +296,39 @@ export const mailMessages = pgTable('mail_messages', {
   text: text('text').notNull(),
   html: text('html'),
 }, (t) => [index('mail_to_idx').on(t.to)]);
+
+// ---------------------------------------------------------------- moderation: blind rounds
+/**
+ * A moderator's seal of reference values until a date (a blind round). Applied to existing
+ * reference rows at once (references.sealed_until), and to rows the reference job writes later by
+ * the trigger references_apply_seal (migration 0003): a value is never stored unsealed. The
+ * reveal job sets revealed_at once the date has passed.
+ */
+export const referenceSeals = pgTable('reference_seals', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  challengeSlug: text('challenge_slug').notNull(),
+  /** true: every target of the version; false: the keys in target_keys */
+  allTargets: boolean('all_targets').notNull().default(false),
+  targetKeys: jsonb('target_keys').notNull().default(sql`'[]'::jsonb`),
+  sealedUntil: ts('sealed_until').notNull(),
+  createdBy: text('created_by'),
+  createdAt: created(),
+  revealedAt: ts('revealed_at'),
+}, (t) => [index('reference_seals_version_idx').on(t.versionId), index('reference_seals_due_idx').on(t.revealedAt, t.sealedUntil)]);
+
+/**
+ * A team's commitment to an entry's estimates before a reveal: the SHA-256 of the canonical string
+ * of server/services/register-commitment.ts (commitmentString). Checked at the reveal.
+ */
+export const entryCommitments = pgTable('entry_commitments', {
+  entryId: uuid('entry_id').primaryKey().references(() => entries.id, { onDelete: 'cascade' }),
+  sha256: text('sha256').notNull(),
+  registeredAt: ts('registered_at').notNull(),
+  registeredBy: text('registered_by').notNull(),
+  /** pending | match | mismatch */
+  result: text('result').notNull().default('pending'),
+  /** the hash of the entry's estimates as the reveal found them */
+  computedSha256: text('computed_sha256'),
+  checkedAt: ts('checked_at'),
+});
