@@ -662,8 +662,10 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
   //   for (p = base; p < base + run; p += 32) pairs (p + o, p + o + sB), o = 0, 16 (run % 32 == 0);
   // adjacent (start, end, ...): for (p = start; p < end; p += 64) pairs (p + o, p + o + 16), o = 0, 32.
   type Kind = 'rx' | 'real' | 'gen';
-  const build = (kind: Kind, adjacent: boolean): { params: number[]; locals: number[]; body: number[] } => {
-    const nI = adjacent ? 2 : 5; // i32 params before the kind-specific ones
+  const build = (kind: Kind, adjacent: boolean, dual: boolean): { params: number[]; locals: number[]; body: number[] } => {
+    // dual: every pair (a, b) is also applied at (a + D, b + D), D a parameter: two memory streams
+    const nI = (adjacent ? 2 : 5) + (dual ? 1 : 0); // i32 params before the kind-specific ones
+    const Dp = adjacent ? 2 : 5;
     const params = [...Array(nI).fill(I32), ...(kind === 'rx' ? [F64, F64] : [I32])];
     const np = params.length;
     const base = np, p = adjacent ? np : np + 1, lim = np + 2;
@@ -684,10 +686,12 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
         init.push(...get(nI), ...f64load(16 * k + 8), ...splat, ...PM, ...vmul, ...set(v0 + 2 * k + 1));
       }
     }
-    const yAddr = (): number[] => (adjacent ? [...get(p)] : [...get(p), ...get(sBp), ...add]);
+    const xAddr = (second: boolean): number[] => [...get(p), ...(second ? [...get(Dp), ...add] : [])];
+    const yAddr = (second: boolean): number[] =>
+      adjacent ? xAddr(second) : [...get(p), ...get(sBp), ...add, ...(second ? [...get(Dp), ...add] : [])];
     const yOff = (o: number) => (adjacent ? o + 16 : o);
-    const pairBody = (o: number): number[] => {
-      const b: number[] = [...get(p), ...vload(o), ...set(x), ...yAddr(), ...vload(yOff(o)), ...set(y)];
+    const onePair = (o: number, second: boolean): number[] => {
+      const b: number[] = [...xAddr(second), ...vload(o), ...set(x), ...yAddr(second), ...vload(yOff(o)), ...set(y)];
       let outX: number[], outY: number[];
       if (kind === 'rx') {
         outX = [...get(v0), ...get(x), ...vmul, ...get(v0 + 1), ...swapOf(y), ...vmul, ...vadd];
@@ -704,9 +708,10 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
         outX = lin(v0);
         outY = lin(v0 + 4);
       }
-      b.push(...get(p), ...outX, ...vstore(o), ...yAddr(), ...outY, ...vstore(yOff(o)));
+      b.push(...xAddr(second), ...outX, ...vstore(o), ...yAddr(second), ...outY, ...vstore(yOff(o)));
       return b;
     };
+    const pairBody = (o: number): number[] => (dual ? [...onePair(o, false), ...onePair(o, true)] : onePair(o, false));
     let loopCode: number[];
     if (adjacent) {
       loopCode = [
@@ -764,7 +769,9 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
   const fn = (params: number[]) => [0x60, ...vec(params.map((p) => [p])), ...vec([])];
   const kernels: { name: string; params: number[]; locals: number[]; body: number[] }[] = [];
   for (const kind of ['rx', 'real', 'gen'] as Kind[]) {
-    for (const adjacent of [false, true]) kernels.push({ name: kind + (adjacent ? '0' : ''), ...build(kind, adjacent) });
+    for (const adjacent of [false, true]) {
+      for (const dual of [false, true]) kernels.push({ name: kind + (adjacent ? '0' : '') + (dual ? 'd' : ''), ...build(kind, adjacent, dual) });
+    }
   }
   kernels.push({ name: 'diag', params: [I32, I32, I32, F64, F64], locals: diagLocals, body: diagBody });
   const types = vec(kernels.map((k) => fn(k.params)));
@@ -786,6 +793,12 @@ interface WasmKernels {
   rx0(start: number, end: number, c: number, s: number): void;
   gen0(start: number, end: number, mptr: number): void;
   real0(start: number, end: number, mptr: number): void;
+  rxd(start: number, end: number, step: number, run: number, sB: number, D: number, c: number, s: number): void;
+  gend(start: number, end: number, step: number, run: number, sB: number, D: number, mptr: number): void;
+  reald(start: number, end: number, step: number, run: number, sB: number, D: number, mptr: number): void;
+  rx0d(start: number, end: number, D: number, c: number, s: number): void;
+  gen0d(start: number, end: number, D: number, mptr: number): void;
+  real0d(start: number, end: number, D: number, mptr: number): void;
   diag(start: number, end: number, tptr: number, pr: number, pi: number): void;
 }
 
@@ -845,21 +858,35 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
   lowIdx.sort((a, b) => qubits[a] - qubits[b]);
   highIdx.sort((a, b) => qubits[a] - qubits[b]);
   const setMat = (m: Mat2) => ws.mat.set(m);
-  // one gate on qubit q over amplitudes [start, end)
-  const gate = (q: number, m: Mat2, start: number, end: number) => {
+  // one gate on qubit q over amplitudes [start, end), and also over [start + dual, end + dual) if dual > 0
+  const gate = (q: number, m: Mat2, start: number, end: number, dual: number) => {
     const rx = isRxForm(m);
     const real = !rx && isRealMat(m);
+    if (!rx) setMat(m);
+    const a = start * 16, b = end * 16, D = dual * 16;
     if (q === 0) {
-      if (end - start < 4) { q0Gen(ws.data, start, end, m, false); return; } // 1-qubit states
-      if (rx) k.rx0(start * 16, end * 16, m[0], -m[3]);
-      else if (real) { setMat(m); k.real0(start * 16, end * 16, ws.mptr); }
-      else { setMat(m); k.gen0(start * 16, end * 16, ws.mptr); }
+      if (end - start < 4) { // 1-qubit states
+        q0Gen(ws.data, start, end, m, false);
+        if (dual) q0Gen(ws.data, start + dual, end + dual, m, false);
+        return;
+      }
+      if (dual) {
+        if (rx) k.rx0d(a, b, D, m[0], -m[3]);
+        else if (real) k.real0d(a, b, D, ws.mptr);
+        else k.gen0d(a, b, D, ws.mptr);
+      } else if (rx) k.rx0(a, b, m[0], -m[3]);
+      else if (real) k.real0(a, b, ws.mptr);
+      else k.gen0(a, b, ws.mptr);
       return;
     }
     const sB = 16 * 2 ** q;
-    if (rx) k.rx(start * 16, end * 16, 2 * sB, sB, sB, m[0], -m[3]);
-    else if (real) { setMat(m); k.real(start * 16, end * 16, 2 * sB, sB, sB, ws.mptr); }
-    else { setMat(m); k.gen(start * 16, end * 16, 2 * sB, sB, sB, ws.mptr); }
+    if (dual) {
+      if (rx) k.rxd(a, b, 2 * sB, sB, sB, D, m[0], -m[3]);
+      else if (real) k.reald(a, b, 2 * sB, sB, sB, D, ws.mptr);
+      else k.gend(a, b, 2 * sB, sB, sB, D, ws.mptr);
+    } else if (rx) k.rx(a, b, 2 * sB, sB, sB, m[0], -m[3]);
+    else if (real) k.real(a, b, 2 * sB, sB, sB, ws.mptr);
+    else k.gen(a, b, 2 * sB, sB, sB, ws.mptr);
   };
 
   // high passes: groups of HIGH_GROUP qubits on 2^G runs of 2^RUN_BITS amplitudes
@@ -881,10 +908,16 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
       }
       const nBases = 2 ** (n - runBits - G);
       const runB = runLen * 16;
-      for (let u = 0; u < nBases; u++) {
+      const expand = (u: number) => {
         let v = u;
         for (let j = 0; j < G; j++) v = insertZeroBit(v, pos[j] - runBits);
-        const base = v * runLen;
+        return v * runLen;
+      };
+      // bases u and u + nBases/2 go together (two memory streams); their distance is constant
+      const half = nBases >= 2 ? nBases / 2 : 0;
+      const D = half ? expand(half) * 16 : 0;
+      for (let u = 0; u < (half || 1); u++) {
+        const base = expand(u);
         for (let j = 0; j < G; j++) {
           const bit = 1 << j;
           const m = ms[j];
@@ -894,7 +927,11 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
           for (let s = 0; s < 1 << G; s++) {
             if (s & bit) continue;
             const o0 = (base + offs[s]) * 16;
-            if (rxs[j]) k.rx(o0, o0 + 1, runB, runB, sB, c, sn);
+            if (D) {
+              if (rxs[j]) k.rxd(o0, o0 + 1, runB, runB, sB, D, c, sn);
+              else if (reals[j]) k.reald(o0, o0 + 1, runB, runB, sB, D, ws.mptr);
+              else k.gend(o0, o0 + 1, runB, runB, sB, D, ws.mptr);
+            } else if (rxs[j]) k.rx(o0, o0 + 1, runB, runB, sB, c, sn);
             else if (reals[j]) k.real(o0, o0 + 1, runB, runB, sB, ws.mptr);
             else k.gen(o0, o0 + 1, runB, runB, sB, ws.mptr);
           }
@@ -946,15 +983,22 @@ function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats: Mat2[]
   }
   if (lowIdx.length > 0 || hasDiag) {
     const H = 2 ** (n - W);
-    for (let h = 0; h < H; h++) {
+    // blocks h and h + H/2 go together (two memory streams keep more loads in flight)
+    const pairs = H >= 2 ? H / 2 : 1;
+    const dual = H >= 2 ? (H / 2) * L : 0;
+    const diagBlock = (start: number) => {
+      let a = 0;
+      for (const t of highTerms) a += termAngle(t, start);
+      let c = 0;
+      for (let j = 0; j < C; j++) c |= ((start >>> cross[j]) & 1) << j;
+      k.diag(start * 16, (start + L) * 16, ws.tptr + c * L * 16, Math.cos(a), Math.sin(a));
+    };
+    for (let h = 0; h < pairs; h++) {
       const start = h * L, end = start + L;
-      for (const i of lowIdx) gate(qubits[i], mats[i], start, end);
+      for (const i of lowIdx) gate(qubits[i], mats[i], start, end, dual);
       if (hasDiag) {
-        let a = 0;
-        for (const t of highTerms) a += termAngle(t, start);
-        let c = 0;
-        for (let j = 0; j < C; j++) c |= ((start >>> cross[j]) & 1) << j;
-        k.diag(start * 16, end * 16, ws.tptr + c * L * 16, Math.cos(a), Math.sin(a));
+        diagBlock(start);
+        if (dual) diagBlock(start + dual);
       }
     }
   }
