@@ -1,0 +1,30 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { parseStrictJson } from '../../server/util/strict-json';
+
+describe('strict JSON', () => {
+  it('parses what JSON.parse parses, to the same value', () => {
+    fc.assert(fc.property(fc.jsonValue({ maxDepth: 6 }), (v) => {
+      const text = JSON.stringify(v);
+      const r = parseStrictJson(text);
+      if (!r.ok) return /beyond 2\^53/.test(r.problems[0].message); // JSON.stringify of 1e21-style integers is allowed to differ
+      expect(r.value).toEqual(JSON.parse(text));
+      return true;
+    }), { numRuns: 300 });
+  });
+  it('reports duplicate keys, huge integers, depth and syntax with positions', () => {
+    expect(parseStrictJson('{"a": {"b": 1, "b": 2}}')).toEqual({ ok: false, syntax: false, problems: [{ path: '/a/b', message: 'the key "b" appears twice in the same object: keep one (JSON readers silently drop one of them)' }] });
+    const big = parseStrictJson('{"n": [1, 9007199254740993]}');
+    expect(big.ok).toBe(false);
+    expect((big as { problems: { path: string }[] }).problems[0].path).toBe('/n/1');
+    expect(parseStrictJson('{"n": 9007199254740991, "x": 1.5e300}').ok).toBe(true);
+    const deep = parseStrictJson('['.repeat(10_000) + ']'.repeat(10_000));
+    expect(deep.ok).toBe(false);
+    expect((deep as { problems: { message: string }[] }).problems[0].message).toMatch(/nested deeper than 32 levels/);
+    const s = parseStrictJson('{\n  "a": 1,\n  "b": Infinity\n}');
+    expect((s as { problems: { message: string }[] }).problems[0].message).toMatch(/^not valid JSON at line 3, column 8 .*Infinity is not JSON/);
+    expect((parseStrictJson('{"a": 1} x') as { problems: { message: string }[] }).problems[0].message).toMatch(/there is text after the JSON value/);
+    expect((parseStrictJson('') as { problems: { message: string }[] }).problems[0].message).toMatch(/the body is empty/);
+    expect(parseStrictJson('{"s": "a\\u00e9\\n"}')).toEqual({ ok: true, value: { s: 'aé\n' } });
+  });
+});
