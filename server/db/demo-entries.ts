@@ -25,7 +25,7 @@ async function truths(db: Db, versionId: string, spec: unknown) {
   const missing = rows.filter((r) => r.value === null || r.value === undefined).map((r) => r.key);
   const standIn = new Map<string, number>();
   if (missing.length) {
-    await runCompute({ mode: 'baseline', spec, targetIds: missing, baseline: { delta: 2e-4, maxTerms: 150_000 } }, (m) => {
+    await runCompute({ mode: 'baseline', spec, targetIds: missing, baseline: { delta: 5e-4, maxTerms: 100_000 } }, (m) => {
       if (m.type === 'baseline') standIn.set(m.targetId, m.value);
     });
   }

@@ -22,12 +22,16 @@ export async function enqueueJob(db: DbOrTx, kind: JobKind, payload: Record<stri
   return row.id;
 }
 
+/** Cheap, visible work first: standings, then references, then the house baseline, then demo data. */
+const PRIORITY = sql.raw(`case kind when 'standings' then 0 when 'references' then 1 when 'baseline' then 2 when 'reveal' then 0 else 3 end`);
+
 export async function claimJob(db: Db, workerId: string, kinds?: JobKind[]): Promise<JobRow | null> {
   const kindFilter = kinds?.length ? sql`and kind in (${sql.join(kinds.map((k) => sql`${k}`), sql`, `)})` : sql``;
   const r = (await db.execute(sql`
     update jobs set state = 'running', locked_by = ${workerId}, locked_at = now(),
       started_at = coalesce(started_at, now()), attempts = attempts + 1
-    where id = (select id from jobs where state = 'queued' ${kindFilter} order by created_at, id for update skip locked limit 1)
+    where id = (select id from jobs where state = 'queued' ${kindFilter}
+      order by ${PRIORITY}, created_at, id for update skip locked limit 1)
     returning id`)) as unknown as { rows: { id: string }[] };
   if (!r.rows.length) return null;
   const [row] = await db.select().from(jobs).where(eq(jobs.id, r.rows[0].id));

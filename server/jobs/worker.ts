@@ -14,7 +14,7 @@ import { runCompute } from './run-compute';
 import { recordAudit } from '../services/record-audit';
 
 export const HOUSE_TEAM = { id: 'parallax-house', name: 'Parallax house baseline', slug: 'parallax-house' };
-export const BASELINE_SETTINGS = { delta: 1e-3, maxTerms: 200_000 };
+export const BASELINE_SETTINGS = { delta: 5e-3, maxTerms: 20_000 };
 
 export type JobHandler = (job: JobRow, w: WorkerContext) => Promise<Record<string, unknown>>;
 export interface PlannerBudget { secondsBudget: number; coneQubitLimit: number }
