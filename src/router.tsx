@@ -2,7 +2,7 @@ import { createBrowserRouter } from 'react-router';
 import { AppShell } from '@/components/layout/app-shell';
 import { RouteError } from '@/routes/route-error';
 import * as home from '@/routes/home';
-import * as challenge from '@/routes/challenge';
+import * as challenges from '@/routes/challenges';
 import * as signUp from '@/routes/sign-up';
 import * as signIn from '@/routes/sign-in';
 import * as verified from '@/routes/verified';
@@ -23,7 +23,10 @@ export const router = createBrowserRouter([
         errorElement: <RouteError />,
         children: [
           { index: true, loader: home.loader, Component: home.Component },
-          { path: 'challenges/:slug', loader: challenge.loader, Component: challenge.Component },
+          { path: 'challenges', loader: challenges.loader, Component: challenges.Component },
+          // the challenge and entry pages (tables, charts) load on first visit only
+          { path: 'challenges/:slug', lazy: () => import('@/routes/challenge') },
+          { path: 'entries/:entryId', lazy: () => import('@/routes/entry') },
           { path: 'sign-up', Component: signUp.Component },
           { path: 'sign-in', Component: signIn.Component },
           { path: 'verified', Component: verified.Component },

@@ -1,15 +1,14 @@
 import { Link } from 'react-router';
 import { queryClient } from '@/lib/query-client';
-import { getChallengesQueryOptions, useChallenges, type ChallengeSummary } from '@/features/challenges/api/get-challenges';
-import { Badge, EmptyState, ErrorState, PageLoading, TrackMark, type BadgeTone } from '@/components/ui';
+import { getChallengesQueryOptions } from '@/features/challenges/api/get-challenges';
+import { ChallengeCatalogue } from '@/features/challenges/components/challenge-catalogue';
+import { TrackMark } from '@/components/ui';
 
 export async function loader() {
   // warm the cache without holding the page: the list shows its own loading state
   void queryClient.prefetchQuery(getChallengesQueryOptions());
   return null;
 }
-
-const STATE_TONE: Record<string, BadgeTone> = { open: 'ok', closed: 'neutral', archived: 'neutral' };
 
 export function Component() {
   return (
@@ -26,9 +25,9 @@ export function Component() {
       <section aria-labelledby="challenges-title" className="lg:col-start-2 lg:row-span-2 lg:row-start-1">
         <div className="mb-3 flex flex-wrap items-baseline justify-between gap-x-3 border-b border-rule pb-2">
           <h2 id="challenges-title" className="text-xl">Challenges</h2>
-          <span className="text-sm text-ink-soft">open to browse, no sign-in needed</span>
+          <span className="text-sm text-ink-soft">open to browse, no sign-in needed · <Link to="/challenges">the full table</Link></span>
         </div>
-        <ChallengeList />
+        <ChallengeCatalogue layout="cards" />
       </section>
       <aside aria-label="How to read Parallax" className="max-w-prose lg:col-start-1 lg:row-start-2">
         <ApertureFigure />
@@ -44,39 +43,6 @@ export function Component() {
         </dl>
       </aside>
     </div>
-  );
-}
-
-function ChallengeList() {
-  const q = useChallenges();
-  if (q.isPending) return <PageLoading label="Loading the challenges…" />;
-  if (q.isError) return <ErrorState error={q.error} retry={() => q.refetch()} />;
-  const list = q.data.challenges;
-  if (!list.length)
-    return (
-      <EmptyState title="No challenges are published yet">
-        Moderators publish challenges here; come back soon.
-      </EmptyState>
-    );
-  return (
-    <ul className="divide-y divide-rule" data-testid="challenge-list">
-      {list.map((c) => <ChallengeRow key={c.slug} c={c} />)}
-    </ul>
-  );
-}
-
-function ChallengeRow({ c }: { c: ChallengeSummary }) {
-  return (
-    <li className="py-4 first:pt-1">
-      <div className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
-        <h3 className="text-lg font-medium">
-          <Link to={`/challenges/${encodeURIComponent(c.slug)}`} className="no-underline hover:underline">{c.title}</Link>
-        </h3>
-        <Badge tone={STATE_TONE[c.state] ?? 'neutral'}>{c.state}</Badge>
-      </div>
-      <p className="mt-1 text-ink-soft">{c.summary}</p>
-      <p className="mt-1 text-xs text-ink-faint"><code>{c.slug}</code></p>
-    </li>
   );
 }
 

@@ -23,7 +23,7 @@ export function AppShell() {
             <Wordmark />
           </NavLink>
           <nav aria-label="Main" className="flex items-center gap-0.5 sm:gap-1">
-            <NavLink to="/" end className={navClass}>Challenges</NavLink>
+            <NavLink to="/challenges" className={navClass}>Challenges</NavLink>
             <NavLink to="/teams" className={navClass}>Teams</NavLink>
           </nav>
           <div className="ml-auto flex items-center gap-2">

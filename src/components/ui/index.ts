@@ -7,3 +7,6 @@ export * from './spinner';
 export * from './table';
 export * from './track';
 export * from './cx';
+export * from './measured';
+export * from './tabs';
+export * from './copy';

@@ -7,7 +7,17 @@ export interface ChallengeSummary {
   title: string;
   summary: string;
   state: ChallengeState;
-  updatedAt: string;
+  version: number | null;
+  checksum: string | null;
+  lattice: ({ kind: string } & Record<string, unknown>) | null;
+  qubits: number | null;
+  family: string | null;
+  steps: { min: number; max: number } | null;
+  targets: number;
+  exactTargets: number;
+  sealedTargets: number;
+  entries: { hardware: number; classical: number };
+  lastActivity: string | null;
 }
 
 export const getChallenges = (signal?: AbortSignal) => api.get<{ challenges: ChallengeSummary[] }>('/challenges', { signal });

@@ -1,0 +1,174 @@
+import { useMemo, useState } from 'react';
+import { Link } from 'react-router';
+import {
+  columnFilteringFeature,
+  createColumnHelper,
+  createFilteredRowModel,
+  createSortedRowModel,
+  filterFn_equals,
+  rowSortingFeature,
+  sortFn_alphanumeric,
+  sortFn_basic,
+  sortFn_text,
+  tableFeatures,
+  useTable,
+} from '@tanstack/react-table';
+import type { StandingsEntry } from '@/features/standings/api/get-standings';
+import { formatHours, formatMetric, formatPercent, formatSig } from '@/lib/format';
+import { Badge, Provenance, ProvenanceList, TrackMark, cx } from '@/components/ui';
+
+const features = tableFeatures({
+  rowSortingFeature,
+  columnFilteringFeature,
+  sortedRowModel: createSortedRowModel(),
+  filteredRowModel: createFilteredRowModel(),
+  sortFns: { alphanumeric: sortFn_alphanumeric, text: sortFn_text, basic: sortFn_basic },
+  filterFns: { equals: filterFn_equals },
+});
+const helper = createColumnHelper<typeof features, StandingsEntry>();
+const orUndef = (x: number | null | undefined) => (x === null || x === undefined || !Number.isFinite(x) ? undefined : x);
+
+export function CostCell({ e }: { e: StandingsEntry }) {
+  const h = e.metrics.costHours;
+  if (h === null) return <span className="text-ink-faint">not declared</span>;
+  const c = e.cost;
+  return (
+    <span className="inline-flex items-baseline whitespace-nowrap">
+      <span className="num">{formatHours(h)}</span>
+      <Provenance label={`Cost parts of ${e.label}`}>
+        <p className="mb-1 font-medium">Declared cost</p>
+        <ProvenanceList
+          items={[
+            ['CPU core-hours', c.cpuCoreHours !== undefined ? formatSig(c.cpuCoreHours, 3) : '—'],
+            ['GPU hours', c.gpuHours !== undefined ? formatSig(c.gpuHours, 3) : '—'],
+            ['QPU seconds', c.qpuSeconds !== undefined ? formatSig(c.qpuSeconds, 3) : '—'],
+            ['Wall time', c.wallTimeSeconds !== undefined ? `${formatSig(c.wallTimeSeconds / 3600, 3)} h` : '—'],
+          ]}
+        />
+        <p className="mt-2 text-ink-soft">Cost = CPU core-hours + GPU hours + QPU seconds / 3600, a plain sum; the parts are stated as declared.</p>
+      </Provenance>
+    </span>
+  );
+}
+
+const metricCell = (x: number | null | undefined) => <span className="num">{formatMetric(x)}</span>;
+
+export function StandingsTable({ entries, metric, slug }: { entries: StandingsEntry[]; metric: string; slug: string }) {
+  const [family, setFamily] = useState('');
+  const families = useMemo(() => [...new Set(entries.map((e) => e.methodFamily))].sort(), [entries]);
+  const columns = useMemo(
+    () =>
+      helper.columns([
+        helper.accessor('rank', { header: 'Rank', sortFn: 'basic', cell: (c) => <span className="num">{c.row.original.tiedWithPrevious ? '=' : ''}{c.getValue()}</span> }),
+        helper.accessor('label', {
+          header: 'Entry',
+          sortFn: 'text',
+          cell: (c) => {
+            const e = c.row.original;
+            return (
+              <div className="min-w-[10rem]">
+                <span className="inline-flex items-center gap-1.5">
+                  <TrackMark track={e.track} />
+                  <Link to={`/entries/${encodeURIComponent(e.id)}`} className="font-medium">{e.label}</Link>
+                  <span className="sr-only">({e.track})</span>
+                </span>
+                <div className="mt-0.5 flex flex-wrap gap-1">
+                  {e.isBaseline && <Badge tone="exact">house baseline</Badge>}
+                  {e.featured && <Badge tone="consensus">featured</Badge>}
+                  {e.onFront && <Badge tone="ok">on the cost front</Badge>}
+                </div>
+              </div>
+            );
+          },
+        }),
+        helper.accessor('teamName', { header: 'Team', sortFn: 'text', cell: (c) => <Link to={`/teams/${encodeURIComponent(c.row.original.teamId)}`}>{c.getValue()}</Link> }),
+        helper.accessor('methodFamily', { header: 'Method', sortFn: 'text', filterFn: 'equals', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+        helper.accessor((r) => orUndef(r.metrics.rmseVerifiable), { id: 'rmse', header: 'RMSE', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
+        helper.accessor((r) => orUndef(r.metrics.maxErrorVerifiable), { id: 'maxError', header: 'Max error', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
+        helper.accessor((r) => orUndef(r.metrics.meanZ2Verifiable), { id: 'meanZ2', header: 'Mean z²', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
+        helper.accessor((r) => orUndef(r.metrics.coveredVerifiable), { id: 'covered', header: 'Coverage', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
+        helper.accessor((r) => orUndef(r.metrics.agreementMedianRatio), {
+          id: 'agreement',
+          header: 'Agreement',
+          sortFn: 'basic',
+          sortUndefined: 'last',
+          cell: (c) => {
+            const m = c.row.original.metrics;
+            return (
+              <span className="num whitespace-nowrap" title={`median |d|/U over ${m.unverifiableScored} targets without exact reference; ${m.outsideInterval} outside |d| ≤ U`}>
+                {formatMetric(c.getValue())}
+                {m.unverifiableScored > 0 && <span className={cx('ml-1 text-xs', m.outsideInterval > 0 ? 'text-disputed-ink' : 'text-ink-faint')}>{m.outsideInterval} out</span>}
+              </span>
+            );
+          },
+        }),
+        helper.accessor((r) => r.metrics.gridCoverage, { id: 'grid', header: 'Grid', sortFn: 'basic', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
+        helper.accessor((r) => orUndef(r.metrics.costHours), { id: 'cost', header: 'Cost', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <CostCell e={c.row.original} /> }),
+      ]),
+    [],
+  );
+  const [sorting, setSorting] = useState([{ id: 'rank', desc: false }]);
+  const columnFilters = useMemo(() => (family ? [{ id: 'methodFamily', value: family }] : []), [family]);
+  const table = useTable({
+    features,
+    columns,
+    data: entries,
+    getRowId: (r) => r.id,
+    state: { sorting, columnFilters },
+    onSortingChange: (u) => setSorting((s) => (typeof u === 'function' ? u(s) : u) as typeof s),
+  });
+  const rows = table.getRowModel().rows;
+  const numeric = new Set(['rank', 'rmse', 'maxError', 'meanZ2', 'covered', 'agreement', 'grid', 'cost']);
+  const primaryCol: Record<string, string> = { 'rmse-verifiable': 'rmse', agreement: 'agreement', 'max-error-verifiable': 'maxError', calibration: 'meanZ2' };
+
+  return (
+    <div className="space-y-3">
+      <div className="flex flex-wrap items-center gap-2 text-sm">
+        <label className="inline-flex items-center gap-2">
+          <span className="text-ink-soft">Method family</span>
+          <select value={family} onChange={(e) => setFamily(e.target.value)} className="h-8 rounded border border-rule-strong bg-paper-raised px-2 text-sm" aria-label="Filter by method family">
+            <option value="">all</option>
+            {families.map((f) => <option key={f} value={f}>{f}</option>)}
+          </select>
+        </label>
+        <span className="num ml-auto text-ink-soft">{rows.length} of {entries.length} entries</span>
+      </div>
+      <div className="-mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
+        <table className="w-full min-w-[58rem] border-collapse text-sm" data-testid="standings-table">
+          <caption className="sr-only">Standings of {slug}: the column buttons sort, the rank is the official order by the chosen metric</caption>
+          <thead>
+            {table.getHeaderGroups().map((g) => (
+              <tr key={g.id}>
+                {g.headers.map((h) => {
+                  const sorted = h.column.getIsSorted();
+                  const num = numeric.has(h.column.id);
+                  const primary = primaryCol[metric] === h.column.id;
+                  return (
+                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined} className={cx('border-b border-rule-strong px-2 py-2 text-xs font-semibold tracking-wide uppercase first:pl-0 last:pr-0', num ? 'text-right' : 'text-left', primary ? 'text-ink' : 'text-ink-soft')}>
+                      <button type="button" onClick={h.column.getToggleSortingHandler()} className={cx('inline-flex items-center gap-1 uppercase hover:text-ink', num && 'flex-row-reverse')}>
+                        <table.FlexRender header={h} />
+                        <span aria-hidden="true" className="w-2 text-ink">{sorted === 'asc' ? '↑' : sorted === 'desc' ? '↓' : ''}</span>
+                      </button>
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {rows.map((r) => (
+              <tr key={r.id} className={cx(r.original.isBaseline && 'bg-exact-soft/50')} data-testid="standings-row">
+                {r.getAllCells().map((c) => (
+                  <td key={c.id} className={cx('border-b border-rule px-2 py-2 align-top first:pl-0 last:pr-0', numeric.has(c.column.id) && 'text-right')}>
+                    <table.FlexRender cell={c} />
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      {rows.length === 0 && <p className="text-sm text-ink-soft">No entry of this method family.</p>}
+    </div>
+  );
+}

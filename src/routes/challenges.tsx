@@ -1,0 +1,20 @@
+import { queryClient } from '@/lib/query-client';
+import { getChallengesQueryOptions } from '@/features/challenges/api/get-challenges';
+import { ChallengeCatalogue } from '@/features/challenges/components/challenge-catalogue';
+import { PageHeader } from '@/components/ui';
+
+export async function loader() {
+  void queryClient.prefetchQuery(getChallengesQueryOptions());
+  return null;
+}
+
+export function Component() {
+  return (
+    <div>
+      <PageHeader title="Challenges">
+        <p>Every published challenge: its lattice and depth, how many of its targets have an exact reference, and who has answered it so far.</p>
+      </PageHeader>
+      <ChallengeCatalogue />
+    </div>
+  );
+}
