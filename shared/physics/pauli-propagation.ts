@@ -17,9 +17,18 @@
  * i at [i*S, i*S + S) with S = 2W (W x words, then W z words); coefficients in a Float64Array; a
  * 32-bit Zobrist hash per term (XOR of a random key per set bit, so a gate that flips a few bits
  * updates it in O(1)); an open-addressing, linear-probing table of term indices keyed by the hash.
- * Rotations are done in place: a term whose partner i G P is already present is updated as a pair,
- * otherwise the partner is appended. Clifford gates rewrite strings in place and only mark the
- * table stale; it is rebuilt from the stored hashes before the next rotation.
+ * Rotations are done in place (no double buffer is needed): terms present before the gate are
+ * scanned once; a term whose partner i G P is already present is updated together with it as a
+ * pair (the partner is marked so it is not visited again), otherwise the partner is appended. Only
+ * touched coefficients can fall below delta, so truncation checks just those; few removals are
+ * swap-removals that keep the table valid, many are a compaction. Clifford gates rewrite strings
+ * in place and only mark the table stale; it is rebuilt from the stored hashes before the next
+ * rotation. A run of consecutive diagonal Cliffords (an RZZ(-pi/2) colour layer or several) is one
+ * fused pass that visits, per string, only the gates at its X/Y sites.
+ *
+ * Memory: 2W words + 8 (coefficient) + 4 (hash) + 1 (mark) bytes per term of capacity, plus 4
+ * bytes per table slot (2 to 4 slots per term of capacity); about 60 to 90 bytes per term at
+ * 100 qubits.
  *
  * Plain TypeScript; performance.now() is the only host API used.
  */
@@ -544,6 +553,13 @@ for (const [name, gen] of Object.entries(ROTATION_GEN)) {
 
 class Scratch {
   flip: Uint32Array = new Uint32Array(0);
+  candIdx: Int32Array = new Int32Array(0);
+  sel: Float64Array = new Float64Array(0);
+  lastThr = 0;
+  selBuf(n: number): Float64Array {
+    if (this.sel.length < n) this.sel = new Float64Array(Math.ceil(n * 1.5));
+    return this.sel;
+  }
   /** A zeroed scratch word buffer of length S (callers re-zero it after use). */
   flipWords(S: number): Uint32Array {
     if (this.flip.length !== S) this.flip = new Uint32Array(S);
@@ -989,32 +1005,39 @@ function tableReplace(sum: PauliSum, from: number, to: number): void {
 function keepLargest(sum: PauliSum, budget: number, st: Stats, scratch: Scratch): void {
   const N = sum.count;
   if (N <= budget) return;
-  if (scratch.abs.length < N) scratch.abs = new Float64Array(Math.ceil(N * 1.5));
-  const abs = scratch.abs;
-  for (let i = 0; i < N; i++) abs[i] = Math.abs(sum.coef[i]);
-  // the (N - budget)-th smallest is the largest dropped value: select the budget-th largest
-  const thr = quickselect(abs, N, N - budget); // value v: exactly N - budget elements are <= v in order
-  const drop = scratch.dropFlags(N);
-  let toDrop = N - budget;
-  for (let i = 0; i < N && toDrop > 0; i++) {
-    const a = Math.abs(sum.coef[i]);
-    if (a < thr) {
-      drop[i] = 1;
-      toDrop--;
-      st.droppedTerms++;
-      st.droppedWeight += a;
+  const k = N - budget; // number to drop: the k smallest |c|
+  const coef = sum.coef;
+  // Gather the candidates below a guess T (from the previous prune), in index order, so the
+  // selection runs on a small set; widen T until at least k candidates are found.
+  let T = scratch.lastThr > 0 ? scratch.lastThr * 2 : Infinity;
+  let m = 0;
+  for (;;) {
+    if (scratch.abs.length < N) scratch.abs = new Float64Array(Math.ceil(N * 1.5));
+    if (scratch.candIdx.length < N) scratch.candIdx = new Int32Array(Math.ceil(N * 1.5));
+    const val = scratch.abs, idx = scratch.candIdx;
+    m = 0;
+    for (let i = 0; i < N; i++) {
+      const a = coef[i] < 0 ? -coef[i] : coef[i];
+      if (a < T) {
+        val[m] = a;
+        idx[m++] = i;
+      }
     }
+    if (m >= k) break;
+    T = Infinity; // the guess was too low: take every term as a candidate (m = N >= k next time)
   }
-  for (let i = 0; i < N && toDrop > 0; i++) {
-    const a = Math.abs(sum.coef[i]);
-    if (a === thr && !drop[i]) {
-      drop[i] = 1;
-      toDrop--;
-      st.droppedTerms++;
-      st.droppedWeight += a;
-    }
-  }
-  sum.compact(drop);
+  const val = scratch.abs, idx = scratch.candIdx;
+  const sel = scratch.selBuf(m);
+  sel.set(val.subarray(0, m));
+  const thr = quickselect(sel, m, k); // the k-th smallest |c| overall (all smaller ones are candidates)
+  scratch.lastThr = thr;
+  if (scratch.del.length < k) scratch.del = new Int32Array(Math.ceil(k * 1.5));
+  const del = scratch.del;
+  let nDel = 0;
+  for (let c = 0; c < m && nDel < k; c++) if (val[c] < thr) del[nDel++] = idx[c];
+  for (let c = 0; c < m && nDel < k; c++) if (val[c] === thr) del[nDel++] = idx[c];
+  // few removals keep the hash table valid by swap-removal, many compact and rebuild it
+  removeIndices(sum, del, nDel, st, scratch);
 }
 
 /** The k-th smallest (1-based k) of a[0..n), reordering a. */

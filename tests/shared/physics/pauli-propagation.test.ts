@@ -480,6 +480,20 @@ describe('truncation', () => {
   it('maxTerms keeps at most the budget after every gate, and the largest', () => {
     const r = propagate(c, o, { maxTerms: 25, returnTerms: true });
     expect(r.terms).toBeLessThanOrEqual(25);
+    // ten distinct strings with |c| = 1..10 (signs alternate), budget 4: keep 7..10, drop 1+...+6 = 21
+    const terms = Array.from({ length: 10 }, (_, k) => ({ coef: (k % 2 ? -1 : 1) * (k + 1), factors: [{ qubit: k, op: 'Z' as const }] }));
+    const kept = propagate(circ(10, []), { id: 't', terms }, { maxTerms: 4, returnTerms: true });
+    expect(kept.finalTerms!.map((t) => Math.abs(t.coef)).sort((a, b) => a - b)).toEqual([7, 8, 9, 10]);
+    expect(kept.droppedWeight).toBe(21);
+    expect(kept.droppedTerms).toBe(6);
+    // after a gate: RX on qubit 9 splits the largest term into cos and sin parts; the budget holds after it
+    const t2 = propagate(circ(10, [g1('rx', 9, 0.3)]), { id: 't', terms }, { maxTerms: 4, returnTerms: true });
+    expect(t2.terms).toBe(4);
+    const mags = t2.finalTerms!.map((t) => Math.abs(t.coef)).sort((a, b) => a - b);
+    // candidates after the gate: 7, 8, 9, 10 cos 0.3 = 9.553, 10 sin 0.3 = 2.955: keep the 4 largest
+    expect(mags[0]).toBe(7);
+    expect(mags[3]).toBeCloseTo(10 * Math.cos(0.3), 14);
+    expect(t2.droppedWeight).toBeCloseTo(21 + 10 * Math.sin(0.3), 12);
   });
   it('a generous threshold changes nothing and stays exact', () => {
     const r = propagate(c, o, { delta: 1e-300 });
