@@ -1265,11 +1265,17 @@ export class Statevector {
       const hs = parity32(hIndex & zmask) ? -1 : 1;
       let ar = 0, ai = 0;
       if (xmask === 0) {
+        // two independent accumulators (the add latency, not memory, bounds one)
         let o = 2 * hIndex;
-        for (let l = 0; l < L; l++, o += 2) {
-          const re = d[o], im = d[o + 1];
-          ar += sgn[l] * (re * re + im * im);
+        let a0 = 0, a1 = 0;
+        let l = 0;
+        for (; l + 1 < L; l += 2, o += 4) {
+          const r0 = d[o], i0 = d[o + 1], r1 = d[o + 2], i1 = d[o + 3];
+          a0 += sgn[l] * (r0 * r0 + i0 * i0);
+          a1 += sgn[l + 1] * (r1 * r1 + i1 * i1);
         }
+        for (; l < L; l++, o += 2) a0 += sgn[l] * (d[o] * d[o] + d[o + 1] * d[o + 1]);
+        ar = a0 + a1;
       } else {
         const pIndex = (hIndex ^ xmask) & ~lmask;
         for (let l = 0; l < L; l++) {
