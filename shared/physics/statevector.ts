@@ -465,7 +465,7 @@ export function applyFused(d: Float64Array, n: number, qubits: number[], mats: M
   highIdx.sort((a, b) => qubits[a] - qubits[b]);
   // a low pass happens if there are low gates or diagonal terms: only then can scalars be folded
   const lowPass = lowIdx.length > 0 || terms.length > 0;
-  let scR = 1, scI = 0;
+  let scR = 1; // RX scalars are real
   const mkOp = (i: number, allowTan: boolean): SingleOp => {
     const m = mats[i];
     if (allowTan && isRxForm(m) && Math.abs(m[0]) >= 0.5) {
@@ -477,7 +477,6 @@ export function applyFused(d: Float64Array, n: number, qubits: number[], mats: M
   const highOps = highIdx.map((i) => mkOp(i, lowPass));
   // the first low op stays general: the per-block scalar is folded into it
   const lowOps = lowIdx.map((i, k) => mkOp(i, k > 0));
-  void scI;
 
   // high passes
   if (highOps.length > 0) {

@@ -181,9 +181,7 @@ function naiveRun(c: CompiledCircuit): { re: Float64Array; im: Float64Array } {
             [im[i], im[j]] = [im[j], im[i]];
           }
         } else {
-          let ang = 0;
-          if (g.name === 'cz') ang = A && B ? Math.PI : 0;
-          else ang = A === B ? -t / 2 : t / 2;
+          const ang = g.name === 'cz' ? (A && B ? Math.PI : 0) : A === B ? -t / 2 : t / 2;
           const cr = Math.cos(ang), ci = Math.sin(ang);
           const xr = re[i], xi = im[i];
           re[i] = cr * xr - ci * xi;
