@@ -8,7 +8,7 @@ import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
 import { jobs } from '../db/schema';
 
-export type JobKind = 'references' | 'baseline' | 'standings' | 'demo-entries';
+export type JobKind = 'references' | 'baseline' | 'standings' | 'demo-entries' | 'reveal';
 export type JobRow = typeof jobs.$inferSelect;
 
 export async function enqueueJob(db: DbOrTx, kind: JobKind, payload: Record<string, unknown>, dedupeKey?: string): Promise<string> {

@@ -11,6 +11,9 @@ import { registerStandingsRoutes } from './standings';
 import { registerPublicDataRoutes } from './public-data';
 import { registerExportRoutes } from './exports';
 import '../jobs/standings-job';
+import { startRevealClock } from '../jobs/reveal-job';
+import { registerModerationRoutes } from './moderation';
+import { registerAuditRoutes } from './audit';
 
 export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerHealthRoutes(routes, ctx);
@@ -23,4 +26,7 @@ export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerStandingsRoutes(routes, ctx);
   registerPublicDataRoutes(routes, ctx);
   registerExportRoutes(routes, ctx);
+  registerModerationRoutes(routes, ctx);
+  registerAuditRoutes(routes, ctx);
+  startRevealClock(ctx);
 }

@@ -21,7 +21,7 @@ const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, membe
 const TEAM_A = (ok: number): Row => ({ anon: 401, memberA: ok, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: ok });
 
 interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
-interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string; entryReview: string }
 // a spec the moderators' routes accept (400 for everyone else never happens: access is checked first)
 const SPEC = { id: 'matrix-chain', version: 1, title: 'Matrix chain', description: 'x', lattice: { kind: 'chain', n: 4 }, circuit: { family: 'kicked-ising', steps: [1], thetaH: [0.1] }, observables: [{ id: 'z1', pauli: 'Z1' }] };
 
@@ -78,6 +78,19 @@ const MATRIX: Record<string, Probe> = {
   'GET /challenges/:slug/cite.bib': { row: ALL_200, path: () => '/api/challenges/seeded-chain/cite.bib' },
   'GET /challenges/:slug/CITATION.cff': { row: ALL_200, path: () => '/api/challenges/seeded-chain/CITATION.cff' },
   'GET /entries/:entryId/cite.bib': { row: { anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/entries/00000000-0000-0000-0000-000000000000/cite.bib' },
+  // moderation: team leads and API keys cannot moderate
+  'GET /moderation/queue': { row: MODERATOR(200), path: () => '/api/moderation/queue' },
+  // the moderator decides; the admin's later call finds it decided (409)
+  'POST /entries/:entryId/decision': { row: { ...MODERATOR(200), admin: 409 }, path: (i) => `/api/entries/${i.entryReview}/decision`, body: () => ({ decision: 'return', reason: 'matrix' }) },
+  'POST /entries/:entryId/curation': { row: MODERATOR(200), path: (i) => `/api/entries/${i.entryPublished}/curation`, body: () => ({ featured: true }) },
+  'POST /challenges/:slug/targets/:targetKey/dispute': { row: MODERATOR(200), path: () => '/api/challenges/seeded-chain/targets/t1-h0.100000:z1/dispute', body: () => ({ disputed: false }) },
+  'POST /challenges/:slug/settings': { row: MODERATOR(200), path: () => '/api/challenges/seeded-chain/settings', body: () => ({ license: 'CC-BY-4.0' }) },
+  'POST /challenges/:slug/seal': { row: MODERATOR(200), path: () => '/api/challenges/seeded-chain/seal', body: () => ({ targets: 'all', until: new Date(Date.now() + 86400_000).toISOString() }) },
+  // after the seal above: team A (members and its key) may commit to its entry
+  'POST /entries/:entryId/commitment': { row: TEAM_A(200), path: (i) => `/api/entries/${i.entryPublished}/commitment`, body: () => ({ sha256: 'a'.repeat(64) }) },
+  // before the reveal: team A and moderators only
+  'GET /entries/:entryId/commitment': { row: { anon: 404, memberA: 200, leadA: 200, memberB: 404, moderator: 200, admin: 200, keyA: 200 }, path: (i) => `/api/entries/${i.entryPublished}/commitment` },
+  'GET /audit': { row: MODERATOR(200), path: () => '/api/audit' },
 };
 
 let t: TestApp;
@@ -114,7 +127,7 @@ beforeAll(async () => {
   expect((await as.moderator.post('/api/challenges', seeded)).status).toBe(201);
   const pub = await as.moderator.post('/api/challenges/seeded-chain/publish', {});
   expect(pub.status).toBe(200);
-  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '' };
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '', entryReview: '' };
   // team A's entries in the states the entry routes need
   const newEntry = async () => {
     const r = await as.memberA!.post('/api/challenges/seeded-chain/entries', ENTRY(ids));
@@ -125,6 +138,8 @@ beforeAll(async () => {
   ids.entrySubmit = await newEntry();
   ids.entryWithdraw = await newEntry();
   ids.entryPublished = await newEntry();
+  ids.entryReview = await newEntry();
+  expect((await as.memberA!.post(`/api/entries/${ids.entryReview}/submit`)).status).toBe(200);
   expect((await as.memberA!.post(`/api/entries/${ids.entryPublished}/submit`)).status).toBe(200);
   await t.database.db.transaction((tx) => publishEntry(tx, ids.entryPublished, { kind: 'system', label: 'matrix' }));
 }, 120_000);

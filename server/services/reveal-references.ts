@@ -1,0 +1,61 @@
+/**
+ * The reveal of a seal once its date has passed (run by the 'reveal' job): the seal is marked
+ * revealed (so the trigger no longer seals new rows), every pending commitment of the version is
+ * checked against the entry's stored estimates (match / mismatch), audit 'references.unseal'.
+ * The values themselves become public by the date alone (every public read compares
+ * sealed_until with now); the job then recomputes the standings and e-mails the teams.
+ * Idempotent: the seal row is locked and a revealed seal is skipped.
+ */
+import { and, eq, inArray, isNull } from 'drizzle-orm';
+import type { Db } from '../db/client';
+import { entries, entryCommitments, referenceSeals, references, targets } from '../db/schema';
+import { recordAudit } from './record-audit';
+import { storedEstimatesHash } from './register-commitment';
+
+export interface RevealOutcome {
+  revealed: boolean;
+  skipped?: string;
+  sealId: string;
+  versionId?: string;
+  slug?: string;
+  targets?: number;
+  commitments?: { entryId: string; teamId: string; label: string; result: 'match' | 'mismatch' }[];
+  teamIds?: string[];
+}
+
+export async function revealSeal(db: Db, sealId: string, now: Date): Promise<RevealOutcome> {
+  return db.transaction(async (tx) => {
+    const [s] = await tx.select().from(referenceSeals).where(eq(referenceSeals.id, sealId)).for('update');
+    if (!s) return { revealed: false, skipped: 'no such seal', sealId };
+    if (s.revealedAt) return { revealed: false, skipped: 'already revealed', sealId };
+    if (s.sealedUntil > now) return { revealed: false, skipped: 'not due', sealId };
+    await tx.update(referenceSeals).set({ revealedAt: now }).where(eq(referenceSeals.id, s.id));
+    const tg = await tx.select({ key: targets.key, until: references.sealedUntil }).from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, s.versionId));
+    const keys = new Set(s.allTargets ? tg.map((t) => t.key) : (s.targetKeys as string[]));
+    const covered = tg.filter((t) => keys.has(t.key));
+    const nowPublic = covered.filter((t) => !t.until || t.until <= now).length;
+    // a later seal of the same targets moved the date: nothing is revealed by this one
+    if (covered.length && !nowPublic) return { revealed: false, skipped: 'superseded by a later seal', sealId };
+    const later = await tx.select({ id: referenceSeals.id }).from(referenceSeals).where(and(eq(referenceSeals.versionId, s.versionId), isNull(referenceSeals.revealedAt)));
+    const commitments: NonNullable<RevealOutcome['commitments']> = [];
+    if (!later.length) {
+      // the last open seal of the version: the commitments are checked now
+      const pending = await tx.select({ c: entryCommitments, teamId: entries.teamId, label: entries.label }).from(entryCommitments)
+        .innerJoin(entries, eq(entries.id, entryCommitments.entryId)).where(and(eq(entries.versionId, s.versionId), eq(entryCommitments.result, 'pending')));
+      for (const p of pending) {
+        const got = await storedEstimatesHash(tx, p.c.entryId);
+        const result = got === p.c.sha256 ? 'match' as const : 'mismatch' as const;
+        await tx.update(entryCommitments).set({ result, computedSha256: got, checkedAt: now }).where(eq(entryCommitments.entryId, p.c.entryId));
+        await recordAudit(tx, { actor: { kind: 'system', label: 'reveal' }, action: 'entry.commitment.check', subjectType: 'entry', subjectId: p.c.entryId, at: now, details: { result, registered: p.c.sha256, computed: got, sealId: s.id } });
+        commitments.push({ entryId: p.c.entryId, teamId: p.teamId, label: p.label, result });
+      }
+    }
+    const teams = await tx.selectDistinct({ teamId: entries.teamId }).from(entries)
+      .where(and(eq(entries.versionId, s.versionId), eq(entries.isBaseline, false), inArray(entries.state, ['in-review', 'published', 'superseded', 'returned', 'draft'])));
+    await recordAudit(tx, {
+      actor: { kind: 'system', label: 'reveal' }, action: 'references.unseal', subjectType: 'challenge', subjectId: s.challengeSlug, at: now,
+      details: { sealId: s.id, versionId: s.versionId, targets: covered.length, sealedUntil: s.sealedUntil.toISOString(), commitments: { match: commitments.filter((c) => c.result === 'match').length, mismatch: commitments.filter((c) => c.result === 'mismatch').length }, reason: `${covered.length} reference value(s) revealed (sealed until ${s.sealedUntil.toISOString()})` },
+    });
+    return { revealed: true, sealId: s.id, versionId: s.versionId, slug: s.challengeSlug, targets: covered.length, commitments, teamIds: teams.map((t) => t.teamId) };
+  });
+}
