@@ -62,7 +62,6 @@ export async function createChallengeVersion(db: Db, spec: unknown, actor: Audit
   });
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
 async function insertChunks<R extends Record<string, any>>(tx: any, table: any, rows: object[], returning: R, size = 1000): Promise<{ [K in keyof R]: any }[]> {
   const out: any[] = [];
   for (let i = 0; i < rows.length; i += size) {

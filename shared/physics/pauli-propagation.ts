@@ -1010,7 +1010,7 @@ function keepLargest(sum: PauliSum, budget: number, st: Stats, scratch: Scratch)
   // Gather the candidates below a guess T (from the previous prune), in index order, so the
   // selection runs on a small set; widen T until at least k candidates are found.
   let T = scratch.lastThr > 0 ? scratch.lastThr * 2 : Infinity;
-  let m = 0;
+  let m: number;
   for (;;) {
     if (scratch.abs.length < N) scratch.abs = new Float64Array(Math.ceil(N * 1.5));
     if (scratch.candIdx.length < N) scratch.candIdx = new Int32Array(Math.ceil(N * 1.5));

@@ -134,7 +134,7 @@ describe('products and commutation', () => {
 
   it('commutes iff ab = ba, i.e. the product phases agree (common practice)', () => {
     const r = rng(4);
-    let seenBoth = [0, 0];
+    const seenBoth = [0, 0];
     for (let rep = 0; rep < 300; rep++) {
       const n = 1 + Math.floor(r() * 70);
       const a = randomString(r, n);
