@@ -27,6 +27,9 @@ export const router = createBrowserRouter([
           // the challenge and entry pages (tables, charts) load on first visit only
           { path: 'challenges/:slug', lazy: () => import('@/routes/challenge') },
           { path: 'entries/:entryId', lazy: () => import('@/routes/entry') },
+          // submitting and the team's entries (editable table) load on first visit only
+          { path: 'challenges/:slug/submit', lazy: () => import('@/routes/submit') },
+          { path: 'my-entries', lazy: () => import('@/routes/my-entries') },
           { path: 'sign-up', Component: signUp.Component },
           { path: 'sign-in', Component: signIn.Component },
           { path: 'verified', Component: verified.Component },

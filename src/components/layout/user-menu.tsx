@@ -52,6 +52,7 @@ export function UserMenu({ user, teams }: { user: MeUser; teams: MeTeam[] }) {
             <p className="truncate text-xs text-ink-soft">{user.email}</p>
           </div>
           <Link role="menuitem" to="/account" className={item}>Account</Link>
+          {teams.length > 0 && <Link role="menuitem" to="/my-entries" className={item}>My entries</Link>}
           {teams.length > 0 && (
             <div className="border-t border-rule py-1">
               <p className="px-3 pt-1 text-xs text-ink-faint uppercase tracking-wide">Your teams</p>

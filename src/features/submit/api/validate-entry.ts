@@ -1,0 +1,19 @@
+import { useMutation } from '@tanstack/react-query';
+import { sendDocument, type DocumentSource } from './send-document';
+
+export interface ProblemItem { path: string; message: string }
+export interface SweepStats { targets: number; answered: number; scored: number; gridCoverage: number | null; rmse: number | null; maxAbsError: number | null; meanZ2: number | null; fractionCovered: number | null; meanCrps: number | null; meanIntervalScore: number | null }
+export interface PreviewTarget { target: string; value: number; uncertainty: number; reference: number; error: number; z: number | null; covered: boolean }
+export interface ValidateResult {
+  valid: true; stored: false;
+  challenge: { slug: string; version: number; checksum: string };
+  estimates: number;
+  coverage: { targets: number; covered: number; fraction: number };
+  warnings: ProblemItem[];
+  scores: { exactReferences: number; sweep: { verifiable: SweepStats; unverifiable: SweepStats; gridCoverage: number | null }; targets: PreviewTarget[]; listed: string };
+}
+
+/** Dry run: validate and preview scores against the public references; stores nothing. */
+export const validateEntry = (src: DocumentSource) => sendDocument<ValidateResult>('POST', '/entries/validate', src);
+
+export const useValidateEntry = () => useMutation({ mutationFn: validateEntry });

@@ -1,0 +1,40 @@
+import type { Problem } from '../lib/entry-form';
+import { controlId } from '../lib/entry-form';
+import { cx } from '@/components/ui';
+
+/** Problems (errors or warnings) with the JSON pointer they name; a pointer that names a control jumps to it. */
+export function ProblemList({ problems, tone, testId }: { problems: Problem[]; tone: 'danger' | 'warning'; testId?: string }) {
+  if (!problems.length) return null;
+  return (
+    <ul data-testid={testId} className={cx('divide-y rounded border text-sm', tone === 'danger' ? 'divide-danger/20 border-danger/40 bg-danger-soft text-danger-ink' : 'divide-rule border-rule-strong bg-paper-sunk text-ink')}>
+      {problems.map((p, i) => {
+        const target = controlId(p.path);
+        return (
+          <li key={`${p.path}-${i}`} className="flex flex-col gap-0.5 px-3 py-2 sm:flex-row sm:gap-3">
+            <code className="shrink-0 font-mono text-xs sm:w-56 sm:pt-0.5">
+              {target ? (
+                <a
+                  href={`#${target}`}
+                  className="break-all"
+                  onClick={(e) => {
+                    const el = document.getElementById(target);
+                    if (!el) return;
+                    e.preventDefault();
+                    el.scrollIntoView({ block: 'center' });
+                    const control = el.matches('input,select,textarea') ? el : el.querySelector<HTMLElement>('input,select,textarea');
+                    (control ?? el).focus();
+                  }}
+                >
+                  {p.path || '(document)'}
+                </a>
+              ) : (
+                <span className="break-all">{p.path || '(document)'}</span>
+              )}
+            </code>
+            <span>{p.message}</span>
+          </li>
+        );
+      })}
+    </ul>
+  );
+}

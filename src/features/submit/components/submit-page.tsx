@@ -1,0 +1,316 @@
+/**
+ * Submitting an entry to one challenge: start from a file (dropped or chosen; sent as it is to
+ * the dry run) or type the estimates into the table, describe the method, check (the dry run:
+ * errors beside the fields they name, warnings apart, a score preview), save a draft, submit.
+ */
+import { useEffect, useMemo, useRef, useState } from 'react';
+import { Link, useNavigate, useSearchParams } from 'react-router';
+import { ApiError, errorMessage } from '@/lib/api-client';
+import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
+import type { Target } from '@/features/challenges/api/get-targets';
+import type { Entry } from '@/features/entries/api/get-entry';
+import type { MeTeam } from '@/features/me/api/get-me';
+import { Badge, Button, FormMessage, PageHeader, Panel, SelectField, cx } from '@/components/ui';
+import { useValidateEntry, type ValidateResult } from '../api/validate-entry';
+import { useCreateEntry } from '../api/create-entry';
+import { useUpdateEntry } from '../api/update-entry';
+import { submitEntry } from '../api/entry-actions';
+import type { DocumentSource } from '../api/send-document';
+import { documentFromForm, EDITABLE_ROWS, emptyForm, formFromDocument, locate, type EntryForm, type EstimateRow, type Problem } from '../lib/entry-form';
+import { DropZone } from './drop-zone';
+import { EstimatesTable, cellProblems } from './estimates-table';
+import { MetadataForm } from './metadata-form';
+import { ProblemList } from './problem-list';
+import { ScorePreview } from './score-preview';
+
+const EDITABLE_STATES = ['draft', 'returned'];
+const kib = (n: number) => (n < 1024 * 1024 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1024 / 1024).toFixed(1)} MiB`);
+
+export function SubmitPage({ challenge, targets, teams, entry }: { challenge: ChallengeDetail; targets: Target[]; teams: MeTeam[]; entry: Entry | null }) {
+  const navigate = useNavigate();
+  const [, setSearch] = useSearchParams();
+  const current = useMemo(() => ({ id: challenge.slug, version: challenge.version.version, checksum: `sha256:${challenge.version.checksum}` }), [challenge]);
+  const [form, setForm] = useState<EntryForm>(() => (entry?.document ? formFromDocument(entry.document, current) : emptyForm(current)));
+  const [file, setFile] = useState<{ file: File; estimates: number | null; parsed: boolean } | null>(null);
+  const [problems, setProblems] = useState<Problem[]>([]);
+  const [warnings, setWarnings] = useState<Problem[]>([]);
+  const [result, setResult] = useState<ValidateResult | null>(null);
+  const [message, setMessage] = useState<{ tone: 'danger' | 'ok' | 'info'; text: string } | null>(null);
+  const [entryId, setEntryId] = useState<string | null>(entry?.id ?? null);
+  const [entryState, setEntryState] = useState<string | null>(entry?.state ?? null);
+  const [teamId, setTeamId] = useState<string>(entry?.team.id ?? (teams.length === 1 ? teams[0].id : ''));
+  const [dirty, setDirty] = useState(false);
+  const [submitting, setSubmitting] = useState(false);
+  const resultsRef = useRef<HTMLDivElement>(null);
+
+  const check = useValidateEntry();
+  const create = useCreateEntry();
+  const update = useUpdateEntry();
+  const frozen = entryState !== null && !EDITABLE_STATES.includes(entryState);
+  const tooLarge = form.estimates.length > EDITABLE_ROWS;
+  const targetKeys = useMemo(() => targets.map((t) => t.key), [targets]);
+  const cells = useMemo(() => cellProblems(problems), [problems]);
+
+  useEffect(() => {
+    if (!dirty) return;
+    const warn = (e: BeforeUnloadEvent) => e.preventDefault();
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  }, [dirty]);
+
+  const source = (): DocumentSource => (file && !dirty ? { kind: 'file', file: file.file } : file && tooLarge ? { kind: 'file', file: file.file } : { kind: 'json', document: documentFromForm(form) });
+
+  /**
+   * The server checks in two passes (the format first, then the targets), so a document with a
+   * format error does not yet hear about unknown targets. The page knows the targets, so it adds
+   * those at once rather than one round of fixes later.
+   */
+  const withTargetProblems = (ps: Problem[], rows: EstimateRow[]): Problem[] => {
+    if (ps.some((p) => /^\/(estimates\/\d+\/target|challenge)/.test(p.path))) return ps;
+    const known = new Set(targetKeys);
+    const extra = rows.flatMap((r, k) =>
+      r.target && !known.has(r.target) ? [{ path: `/estimates/${k}/target`, message: `"${r.target}" is not a target of ${challenge.slug} v${challenge.version.version}: choose one from the list (GET /api/challenges/${challenge.slug}/targets)` }] : []);
+    return [...ps, ...extra].sort((a, b) => a.path.localeCompare(b.path, 'en', { numeric: true }));
+  };
+
+  const showError = (e: unknown, rows: EstimateRow[] = form.estimates) => {
+    if (e instanceof ApiError && e.problems.length) {
+      const ps = withTargetProblems(e.problems, rows);
+      setProblems(ps);
+      setMessage({ tone: 'danger', text: `${ps.length === 1 ? 'One problem' : `${ps.length} problems`} to fix: each is listed with the field it names and marked beside that field.` });
+    } else {
+      setMessage({ tone: 'danger', text: errorMessage(e) });
+    }
+  };
+
+  const runCheck = async (src: DocumentSource = source(), rows: EstimateRow[] = form.estimates) => {
+    setMessage(null);
+    try {
+      const r = await check.mutateAsync(src);
+      setProblems([]);
+      setWarnings(r.warnings);
+      setResult(r);
+      setMessage({ tone: 'ok', text: `The entry is valid: ${r.estimates} estimate${r.estimates === 1 ? '' : 's'}, covering ${r.coverage.covered} of ${r.coverage.targets} targets.` });
+    } catch (e) {
+      setResult(null);
+      setWarnings([]);
+      showError(e, rows);
+    }
+    requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
+  };
+
+  const onFile = async (f: File) => {
+    setMessage(null);
+    let parsed = false;
+    let n: number | null = null;
+    let rows: EstimateRow[] = [];
+    try {
+      const doc = JSON.parse(await f.text()) as { estimates?: unknown[] };
+      n = Array.isArray(doc.estimates) ? doc.estimates.length : null;
+      const next = formFromDocument(doc, current);
+      setForm(next);
+      rows = next.estimates;
+      parsed = true;
+    } catch {
+      /* not JSON: the dry run says so */
+    }
+    setFile({ file: f, estimates: n, parsed });
+    setDirty(true);
+    await runCheck({ kind: 'file', file: f }, rows);
+  };
+
+  /** an edit: the form is now the source, and problems of the edited field are cleared */
+  const edit = (next: EntryForm, clear: (p: Problem) => boolean) => {
+    setForm(next);
+    if (file && !tooLarge) setFile(null);
+    setDirty(true);
+    setProblems((ps) => ps.filter((p) => !clear(p)));
+  };
+  const set = (patch: Partial<EntryForm>, touched?: string) =>
+    edit({ ...form, ...patch }, (p) => {
+      const l = locate(p.path);
+      return touched !== undefined && l.kind === 'field' && (l.field === touched || l.field.startsWith(`${touched}/`));
+    });
+  const onRows = (rows: EstimateRow[], ch: { removed?: number }) => {
+    const prev = form.estimates;
+    const changed = new Set<number>();
+    rows.forEach((r, i) => { if (prev[i] && prev[i].id === r.id && prev[i] !== r) changed.add(i); });
+    const fieldOf = (i: number) => {
+      const a = prev[i], b = rows[i];
+      return (['target', 'value', 'uncertainty', 'kind'] as const).filter((k) => a[k] !== b[k]);
+    };
+    setForm({ ...form, estimates: rows });
+    if (file) setFile(null);
+    setDirty(true);
+    setProblems((ps) =>
+      ps.flatMap((p) => {
+        const l = locate(p.path);
+        if (l.kind !== 'cell' && l.kind !== 'row') return [p];
+        if (ch.removed !== undefined) {
+          if (l.row === ch.removed) return [];
+          if (l.row > ch.removed) return [{ ...p, path: p.path.replace(/^\/estimates\/\d+/, `/estimates/${l.row - 1}`) }];
+          return [p];
+        }
+        if (changed.has(l.row)) {
+          const fs = fieldOf(l.row);
+          if (l.kind === 'row' || fs.includes(l.column as never)) return [];
+        }
+        return [p];
+      }),
+    );
+  };
+
+  const save = async (): Promise<string | null> => {
+    setMessage(null);
+    if (!entryId && teams.length > 1 && !teamId) {
+      setMessage({ tone: 'danger', text: 'Choose the team this entry is for.' });
+      return null;
+    }
+    try {
+      const src = source();
+      const out = entryId ? await update.mutateAsync({ entryId, src, teamId }) : await create.mutateAsync({ slug: challenge.slug, src, teamId: teamId || undefined });
+      setEntryId(out.id);
+      setEntryState(out.state ?? 'draft');
+      setProblems([]);
+      setWarnings(out.warnings ?? []);
+      setDirty(false);
+      setSearch((s) => { s.set('entry', out.id); return s; }, { replace: true });
+      return out.id;
+    } catch (e) {
+      showError(e);
+      requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
+      return null;
+    }
+  };
+
+  const onSave = async () => {
+    const id = await save();
+    if (id) setMessage({ tone: 'ok', text: 'Draft saved. You can come back to it from My entries.' });
+  };
+
+  const onSubmit = async () => {
+    setSubmitting(true);
+    try {
+      const id = dirty || !entryId ? await save() : entryId;
+      if (!id) return;
+      await submitEntry(id);
+      setDirty(false);
+      navigate(`/my-entries?submitted=${id}`);
+    } catch (e) {
+      showError(e);
+    } finally {
+      setSubmitting(false);
+    }
+  };
+
+  const errorFor = (field: string) => problems.find((p) => { const l = locate(p.path); return l.kind === 'field' && l.field === field; })?.message;
+  const challengeError = errorFor('challenge');
+  const estimatesError = errorFor('estimates');
+  const busy = check.isPending || create.isPending || update.isPending || submitting;
+  const noTeam = teams.length === 0;
+
+  return (
+    <div>
+      <PageHeader
+        kicker={<Link to={`/challenges/${challenge.slug}`}>{challenge.title}</Link>}
+        title={entryId ? `Entry${form.label ? `: ${form.label}` : ''}` : 'Submit an entry'}
+        actions={entryState && <Badge tone={entryState === 'returned' ? 'danger' : 'neutral'}>{entryState}</Badge>}
+      >
+        <p className="text-sm">
+          Version {challenge.version.version}, checksum <code className="break-all text-xs">{challenge.version.checksum.slice(0, 12)}…</code> · {targets.length} targets.
+          Uncertainties are standard uncertainties (1σ).
+        </p>
+      </PageHeader>
+
+      {noTeam && <FormMessage tone="info">Entries belong to teams and you are in none. <Link to="/teams">Create a team or accept an invitation</Link> first.</FormMessage>}
+      {frozen && <FormMessage tone="info">This entry is {entryState} and can no longer be edited. <Link to="/my-entries">Back to My entries</Link></FormMessage>}
+      {entry?.state === 'returned' && <ReturnedNote entry={entry} />}
+
+      <div className="space-y-6">
+        <Panel title="Start from a file" description="An entry document (schemas/entry.schema.json). It is checked as it is; small entries can then be edited below.">
+          <DropZone onFile={onFile} disabled={busy || frozen}>Up to {EDITABLE_ROWS.toLocaleString('en')} estimates can be edited here; larger files are checked and stored as they are.</DropZone>
+          {file && (
+            <p className="mt-2 text-sm text-ink-soft" data-testid="file-info">
+              {file.file.name} · {kib(file.file.size)}{file.estimates !== null && ` · ${file.estimates} estimates`}
+              {!file.parsed && ' · not readable as JSON'}
+            </p>
+          )}
+        </Panel>
+
+        <div ref={resultsRef} className="scroll-mt-4 space-y-3" data-testid="check-results" aria-live="polite">
+          {message && <FormMessage tone={message.tone}>{message.text}</FormMessage>}
+          {problems.length > 0 && (
+            <section aria-label="Errors" className="space-y-1">
+              <h2 className="text-base font-semibold">Errors</h2>
+              <ProblemList problems={problems} tone="danger" testId="error-list" />
+            </section>
+          )}
+          {warnings.length > 0 && (
+            <section aria-label="Warnings" className="space-y-1">
+              <h2 className="text-base font-semibold">Warnings <span className="text-sm font-normal text-ink-soft">accepted, but worth a look</span></h2>
+              <ProblemList problems={warnings} tone="warning" testId="warning-list" />
+            </section>
+          )}
+          {result && (
+            <Panel title="Score preview" description="What the scores would be now. Nothing is stored by a check.">
+              <ScorePreview result={result} />
+            </Panel>
+          )}
+        </div>
+
+        {challengeError && (
+          <div id="f-challenge" className="rounded border border-danger/40 bg-danger-soft px-3 py-2 text-sm text-danger-ink">
+            <p><strong>Challenge version:</strong> {challengeError}</p>
+            <p className="mt-1">This entry names {form.challenge.id} v{form.challenge.version}.{' '}
+              <button type="button" className="underline" onClick={() => set({ challenge: current }, 'challenge')}>Answer the current version {current.version} instead</button>
+            </p>
+          </div>
+        )}
+
+        <Panel title="Estimates" description={`${form.estimates.length} row${form.estimates.length === 1 ? '' : 's'} · one estimate per target`} id="f-estimates">
+          {estimatesError && <p className="mb-2 text-sm text-danger">{estimatesError}</p>}
+          {tooLarge ? (
+            <p className="text-sm text-ink-soft">This file has {form.estimates.length.toLocaleString('en')} estimates: too many to edit in the browser. Fix the file and drop it again; it is stored as it is.</p>
+          ) : (
+            <EstimatesTable rows={form.estimates} onRowsChange={onRows} targets={targetKeys} problems={cells} />
+          )}
+        </Panel>
+
+        <Panel title="About the method">
+          <MetadataForm form={form} set={set} errorFor={errorFor} />
+        </Panel>
+
+        {teams.length > 1 && !entryId && (
+          <Panel title="Team">
+            <SelectField label="This entry is for" value={teamId} onChange={(e) => setTeamId(e.target.value)} wrapperClassName="max-w-sm">
+              <option value="">choose a team…</option>
+              {teams.map((t) => <option key={t.id} value={t.id}>{t.name}</option>)}
+            </SelectField>
+          </Panel>
+        )}
+      </div>
+
+      <div className="sticky bottom-0 z-10 -mx-4 mt-6 border-t border-rule bg-paper/95 backdrop-blur sm:mx-0">
+        <div className="flex flex-wrap items-center gap-2 px-4 py-3 sm:px-0">
+          <Button variant="secondary" onClick={() => runCheck()} busy={check.isPending} disabled={busy || frozen}>Check</Button>
+          <Button variant="secondary" onClick={onSave} busy={create.isPending || update.isPending} disabled={busy || frozen || noTeam}>Save draft</Button>
+          <Button onClick={onSubmit} busy={submitting} disabled={busy || frozen || noTeam}>Submit for review</Button>
+          <span className={cx('ml-auto hidden text-sm sm:inline', dirty ? 'text-ink-soft' : 'text-ink-faint')}>
+            {dirty ? 'Unsaved changes' : entryId ? 'Saved' : ''}
+          </span>
+        </div>
+      </div>
+    </div>
+  );
+}
+
+function ReturnedNote({ entry }: { entry: Entry }) {
+  const last = [...(entry.history ?? [])].reverse().find((h) => h.reason && h.action === 'entry.review');
+  return (
+    <div className="mb-4">
+      <FormMessage tone="danger">
+        <strong>Returned by a moderator.</strong> {last?.reason ? <>“{last.reason}”</> : 'No reason was recorded.'} Edit the entry, check it and submit it again.
+      </FormMessage>
+    </div>
+  );
+}

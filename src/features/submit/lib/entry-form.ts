@@ -1,0 +1,206 @@
+/**
+ * The submit form's model: editable strings for every field, converted to and from an entry
+ * document (schemas/entry.schema.json). The options (tracks, method families, uncertainty kinds)
+ * and limits come from the schema itself, so the form and the server never disagree. Values that
+ * do not parse are sent as they are typed: the server's validation then names the field and the
+ * fix, with the same JSON pointer the form uses to mark the field.
+ */
+import schema from '../../../../schemas/entry.schema.json';
+import type { EntryDocument, EntryDocumentEstimate } from '@/features/entries/api/get-entry';
+
+type Obj = Record<string, unknown>;
+const props = schema.properties;
+const estimateProps = schema.$defs.estimate.properties;
+
+export const TRACKS = props.track.enum as readonly string[];
+export const METHOD_FAMILIES = props.method.properties.family.enum as readonly string[];
+export const UNCERTAINTY_KINDS = estimateProps.uncertaintyKind.enum as readonly string[];
+export const LIMITS = {
+  label: props.label.maxLength,
+  description: props.method.properties.description.maxLength,
+  settings: props.method.properties.settings.maxProperties,
+  estimates: props.estimates.maxItems,
+  notes: props.notes.maxLength,
+  license: props.license.maxLength,
+};
+/** above this many estimates the table is not editable in the browser (fix the file instead) */
+export const EDITABLE_ROWS = 2000;
+
+export const FAMILY_LABELS: Record<string, string> = {
+  'error-mitigated-hardware': 'Error-mitigated hardware',
+  'tensor-network': 'Tensor network',
+  'pauli-propagation': 'Pauli propagation',
+  'neural-quantum-state': 'Neural quantum state',
+  'monte-carlo': 'Monte Carlo',
+  exact: 'Exact',
+  other: 'Other',
+};
+export const TRACK_LABELS: Record<string, string> = { hardware: 'Quantum hardware', classical: 'Classical simulation' };
+export const KIND_HINT: Record<string, string> = {
+  statistical: 'statistical (shots, sampling)',
+  systematic: 'systematic (truncation, extrapolation)',
+  bound: 'bound (a rigorous error bound)',
+  none: 'none (claimed exact, u = 0)',
+};
+
+/** the numeric and text fields of `resources`, from the schema */
+export const RESOURCE_FIELDS = (Object.keys(props.resources.properties) as (keyof typeof props.resources.properties)[])
+  .filter((k) => k !== 'software')
+  .map((k) => {
+    const p = props.resources.properties[k] as { type?: string; $ref?: string; maxLength?: number };
+    return { key: k as string, numeric: p.type === 'integer' || p.type === 'number' || Boolean(p.$ref), integer: p.type === 'integer', maxLength: p.maxLength };
+  });
+export const RESOURCE_LABELS: Record<string, string> = {
+  wallTimeSeconds: 'Wall time (s)', cpuCoreHours: 'CPU core-hours', gpuHours: 'GPU hours', qpuSeconds: 'QPU seconds',
+  memoryGiB: 'Memory (GiB)', qubitsUsed: 'Qubits used', hardware: 'Hardware', device: 'Device', commit: 'Code commit',
+};
+export const LINK_FIELDS = Object.keys(props.links.properties);
+export const LINK_LABELS: Record<string, string> = { code: 'Code (URL)', preprint: 'Preprint (URL)', doi: 'DOI' };
+
+let seq = 0;
+export const rowId = () => `r${++seq}`;
+
+export interface EstimateRow { id: string; target: string; value: string; uncertainty: string; kind: string; extra: Obj }
+export interface SettingRow { id: string; key: string; value: string }
+export interface EntryForm {
+  challenge: { id: string; version: number; checksum: string };
+  label: string;
+  track: string;
+  family: string;
+  description: string;
+  settings: SettingRow[];
+  resources: Record<string, string>;
+  /** parts of resources the form does not edit (software list), kept as they came */
+  resourcesExtra: Obj;
+  links: Record<string, string>;
+  license: string;
+  notes: string;
+  estimates: EstimateRow[];
+}
+
+export const emptyRow = (): EstimateRow => ({ id: rowId(), target: '', value: '', uncertainty: '', kind: 'statistical', extra: {} });
+
+export function emptyForm(challenge: EntryForm['challenge']): EntryForm {
+  return {
+    challenge, label: '', track: 'classical', family: 'tensor-network', description: '',
+    settings: [], resources: {}, resourcesExtra: {}, links: {}, license: 'CC-BY-4.0', notes: '', estimates: [emptyRow()],
+  };
+}
+
+const str = (x: unknown) => (x === undefined || x === null ? '' : typeof x === 'string' ? x : typeof x === 'object' ? JSON.stringify(x) : String(x));
+
+/** a document (from a file or a stored draft) into the form; `challenge` fills what the file lacks */
+export function formFromDocument(raw: unknown, challenge: EntryForm['challenge']): EntryForm {
+  const d = (raw && typeof raw === 'object' ? raw : {}) as Obj;
+  const m = (d.method ?? {}) as Obj;
+  const res = (d.resources ?? {}) as Obj;
+  const { software, ...resRest } = res;
+  const ch = (d.challenge ?? {}) as Partial<EntryForm['challenge']>;
+  const ests = Array.isArray(d.estimates) ? (d.estimates as Obj[]) : [];
+  return {
+    challenge: { id: ch.id ?? challenge.id, version: ch.version ?? challenge.version, checksum: ch.checksum ?? challenge.checksum },
+    label: str(d.label), track: str(d.track) || 'classical', family: str(m.family) || 'other', description: str(m.description),
+    settings: Object.entries((m.settings ?? {}) as Obj).map(([key, v]) => ({ id: rowId(), key, value: str(v) })),
+    resources: Object.fromEntries(Object.entries(resRest).map(([k, v]) => [k, str(v)])),
+    resourcesExtra: software !== undefined ? { software } : {},
+    links: Object.fromEntries(Object.entries((d.links ?? {}) as Obj).map(([k, v]) => [k, str(v)])),
+    license: str(d.license), notes: str(d.notes),
+    estimates: ests.map((e) => {
+      const { target, value, uncertainty, uncertaintyKind, ...extra } = (e && typeof e === 'object' ? e : {}) as EntryDocumentEstimate;
+      return { id: rowId(), target: str(target), value: str(value), uncertainty: str(uncertainty), kind: str(uncertaintyKind), extra };
+    }),
+  };
+}
+
+/** "0.5" → 0.5; anything else is sent as typed so the server names the problem */
+function num(s: string): number | string {
+  const t = s.trim().replace(/\u2212/g, '-');
+  if (t === '') return s;
+  const n = Number(t);
+  return Number.isFinite(n) ? n : s;
+}
+function settingValue(s: string): unknown {
+  const t = s.trim();
+  if (t === 'true') return true;
+  if (t === 'false') return false;
+  if (t !== '' && Number.isFinite(Number(t))) return Number(t);
+  if (t.startsWith('[')) { try { return JSON.parse(t); } catch { /* a string then */ } }
+  return s;
+}
+const nonEmpty = (o: Obj) => (Object.keys(o).length ? o : undefined);
+
+export function documentFromForm(f: EntryForm): EntryDocument {
+  const settings: Obj = {};
+  for (const s of f.settings) if (s.key.trim()) settings[s.key.trim()] = settingValue(s.value);
+  const resources: Obj = { ...f.resourcesExtra };
+  for (const r of RESOURCE_FIELDS) {
+    const v = f.resources[r.key]?.trim();
+    if (v) resources[r.key] = r.numeric ? num(v) : v;
+  }
+  const links: Obj = {};
+  for (const k of LINK_FIELDS) { const v = f.links[k]?.trim(); if (v) links[k] = v; }
+  const doc: Obj = {
+    challenge: f.challenge,
+    track: f.track,
+    label: f.label,
+    method: { family: f.family, ...(f.description.trim() ? { description: f.description } : {}), ...(Object.keys(settings).length ? { settings } : {}) },
+    resources: nonEmpty(resources),
+    links: nonEmpty(links),
+    license: f.license.trim() || undefined,
+    notes: f.notes.trim() ? f.notes : undefined,
+    estimates: f.estimates.map((r) => ({ target: r.target, value: num(r.value), uncertainty: num(r.uncertainty), uncertaintyKind: r.kind, ...r.extra })),
+  };
+  for (const k of Object.keys(doc)) if (doc[k] === undefined) delete doc[k];
+  return doc as unknown as EntryDocument;
+}
+
+/**
+ * Rows pasted from a spreadsheet (tab- or comma-separated): target, value, uncertainty[, kind].
+ * A first line whose value column is not a number is taken for a header and skipped.
+ */
+export function rowsFromTsv(text: string, defaultKind = 'statistical'): EstimateRow[] {
+  const lines = text.replace(/\r/g, '').split('\n').filter((l) => l.trim());
+  const out: EstimateRow[] = [];
+  lines.forEach((line, i) => {
+    const cells = (line.includes('\t') ? line.split('\t') : line.split(/[,;]/)).map((c) => c.trim());
+    if (i === 0 && cells.length > 1 && !Number.isFinite(Number(cells[1].replace(/\u2212/g, '-')))) return;
+    const kind = cells[3] && UNCERTAINTY_KINDS.includes(cells[3]) ? cells[3] : defaultKind;
+    out.push({ id: rowId(), target: cells[0] ?? '', value: cells[1] ?? '', uncertainty: cells[2] ?? '', kind, extra: {} });
+  });
+  return out;
+}
+
+// ------------------------------------------------------------------ problems by field
+export interface Problem { path: string; message: string }
+const ESTIMATE_FIELD: Record<string, string> = { target: 'target', value: 'value', uncertainty: 'uncertainty', uncertaintyKind: 'kind' };
+
+/** where a pointer lands in the form: a table cell, a row, or a named form field */
+export function locate(path: string): { kind: 'cell'; row: number; column: string } | { kind: 'row'; row: number } | { kind: 'field'; field: string } | { kind: 'none' } {
+  const m = /^\/estimates\/(\d+)(?:\/([^/]+))?/.exec(path);
+  if (m) {
+    const row = Number(m[1]);
+    const col = m[2] ? ESTIMATE_FIELD[m[2]] : undefined;
+    return col ? { kind: 'cell', row, column: col } : { kind: 'row', row };
+  }
+  if (path === '/estimates') return { kind: 'field', field: 'estimates' };
+  const f = /^\/(challenge|label|track|license|notes)(?:\/|$)/.exec(path);
+  if (f) return { kind: 'field', field: f[1] };
+  if (path.startsWith('/method/family')) return { kind: 'field', field: 'family' };
+  if (path.startsWith('/method/description')) return { kind: 'field', field: 'description' };
+  const s = /^\/method\/settings\/([^/]+)/.exec(path);
+  if (s) return { kind: 'field', field: `settings/${s[1].replace(/~1/g, '/').replace(/~0/g, '~')}` };
+  if (path.startsWith('/method/settings')) return { kind: 'field', field: 'settings' };
+  const r = /^\/(resources|links)\/([^/]+)/.exec(path);
+  if (r) return { kind: 'field', field: `${r[1]}/${r[2]}` };
+  if (/^\/(resources|links)$/.test(path)) return { kind: 'field', field: path.slice(1) };
+  return { kind: 'none' };
+}
+
+/** the id of the form control a pointer names, for "go to field" links */
+export function controlId(path: string): string | null {
+  const l = locate(path);
+  if (l.kind === 'cell') return `est-${l.row}-${l.column}`;
+  if (l.kind === 'row') return `est-${l.row}-target`;
+  if (l.kind === 'field') return `f-${l.field.replace(/[^a-zA-Z0-9-]/g, '-')}`;
+  return null;
+}
