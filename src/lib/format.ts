@@ -46,7 +46,7 @@ export function formatMeasurement(value: number | null | undefined, u?: number |
     return { value: v, u: null, text: v };
   }
   if (u === 0) {
-    const v = formatSig(value, 6);
+    const v = formatSig(Math.abs(value) < 1e-12 ? 0 : value, 6);
     return { value: v, u: '0', text: `${v} (exact)` };
   }
   const d = decimalsFor(u);
@@ -74,11 +74,14 @@ export function formatAngle(x: number): string {
   return sign(String(Number(x.toFixed(4))));
 }
 
-/** hours of compute, with the unit: 0.25 h, 12 h, 3.4k h */
+/** compute time from hours, in the unit that reads best: 3.2 s, 6 min, 1.5 h, 310 h, 12,000 h */
 export function formatHours(h: number | null | undefined): string {
   if (h === null || h === undefined || !Number.isFinite(h)) return '—';
-  if (h >= 1e4) return `${formatSig(h / 1000, 3)}k h`;
-  return `${formatSig(h, h >= 100 ? 4 : 3)} h`;
+  if (h === 0) return '0 h';
+  const p = (x: number) => Number(x.toPrecision(x >= 100 ? 4 : 2)).toLocaleString('en-GB');
+  if (h < 1 / 60) return `${p(h * 3600)} s`;
+  if (h < 1) return `${p(h * 60)} min`;
+  return `${p(h)} h`;
 }
 
 /** a relative time for "last activity": today, 3 days ago, else the date */

@@ -5,6 +5,7 @@ import { useUser } from '@/features/me/api/get-me';
 import { InviteForm } from '@/features/teams/components/invite-form';
 import { InvitationsList } from '@/features/teams/components/invitations-list';
 import { ApiKeysPanel } from '@/features/teams/components/api-keys-panel';
+import { TeamEntries } from '@/features/entries/components/team-entries';
 import { formatDate } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, isTrack, PageHeader, PageLoading, Panel, Table, Td, Th, TrackBadge } from '@/components/ui';
 
@@ -55,6 +56,9 @@ export function Component() {
               </tbody>
             </Table>
           )}
+        </Panel>
+        <Panel title="Entries" description="Estimates this team has posted, by challenge." className="lg:col-span-2" id="team-entries">
+          <TeamEntries teamId={t.id} />
         </Panel>
         {myRole === 'lead' && (
           <Panel title="Invite someone" description="They get a mail with a link to accept.">

@@ -31,7 +31,7 @@ export const getTargetsQueryOptions = (slug: string) =>
     queryFn: ({ signal }) => getTargets(slug, signal),
     refetchInterval: (q) => (q.state.data?.targets.some((t) => t.reference.status === 'pending') ? 5000 : false),
   });
-export const useTargets = (slug: string) => useQuery(getTargetsQueryOptions(slug));
+export const useTargets = (slug: string) => useQuery({ ...getTargetsQueryOptions(slug), enabled: Boolean(slug) });
 
 /** "free-fermion, 60 sites" */
 export function describeSize(size: Record<string, number> | null | undefined): string {

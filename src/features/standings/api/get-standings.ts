@@ -33,7 +33,7 @@ export const getStandingsQueryOptions = (slug: string, q: StandingsQuery = {}) =
     // the first standings are computed by a background job: look again until they are ready
     refetchInterval: (query) => (query.state.data?.status === 'pending' ? 4000 : false),
   });
-export const useStandings = (slug: string, q: StandingsQuery = {}) => useQuery(getStandingsQueryOptions(slug, q));
+export const useStandings = (slug: string, q: StandingsQuery = {}) => useQuery({ ...getStandingsQueryOptions(slug, q), enabled: Boolean(slug) });
 
 export const METRIC_LABEL: Record<string, string> = {
   'rmse-verifiable': 'RMSE on verifiable targets',
