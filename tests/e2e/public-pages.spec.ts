@@ -1,0 +1,174 @@
+/**
+ * The public face, as a visitor without an account: the catalogue (search and filter), a challenge
+ * page (standings sorted, the sweep plot's observable switched, the agreement matrix), an entry
+ * page, and the CSV download. Screenshots of every view at desktop and phone width go to
+ * test-output/screenshots/.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer } from './harness';
+
+let server: RunningServer;
+let browser: Browser;
+const contexts: BrowserContext[] = [];
+const SLUG = 'kicked-chain-60';
+
+async function newPage(viewport = DESKTOP): Promise<Page> {
+  const ctx = await browser.newContext({ viewport, baseURL: server.url, acceptDownloads: true });
+  contexts.push(ctx);
+  const page = await ctx.newPage();
+  page.setDefaultTimeout(20_000);
+  return page;
+}
+
+async function shots(page: Page, name: string): Promise<void> {
+  const own = page.viewportSize() ?? DESKTOP;
+  await page.setViewportSize(DESKTOP);
+  await page.waitForTimeout(300); // charts re-measure their box
+  await shot(page, `public-${name}-desktop`);
+  await page.setViewportSize(PHONE);
+  await page.waitForTimeout(300);
+  await shot(page, `public-${name}-phone`);
+  await page.setViewportSize(own);
+}
+
+/** the demo data (references, entries, standings) is computed by background jobs after start */
+async function waitForStandings(): Promise<void> {
+  const deadline = Date.now() + 170_000;
+  for (;;) {
+    const r = await fetch(`${server.url}/api/challenges/${SLUG}/standings`).catch(() => null);
+    const body = r?.ok ? ((await r.json()) as { status: string; entries: unknown[] }) : null;
+    if (body?.status === 'ready' && body.entries.length >= 2) return;
+    if (Date.now() > deadline) throw new Error(`standings of ${SLUG} not ready; server said:\n${server.output().slice(-3000)}`);
+    await new Promise((res) => setTimeout(res, 2000));
+  }
+}
+
+describe('the public pages in the browser', () => {
+  beforeAll(async () => {
+    server = await startServer();
+    browser = await launchBrowser();
+    await waitForStandings();
+  }, 240_000);
+
+  afterAll(async () => {
+    for (const c of contexts) await c.close().catch(() => undefined);
+    await browser?.close().catch(() => undefined);
+    await server?.stop();
+  });
+
+  it('a visitor browses, compares and downloads', async () => {
+    const p = await newPage(DESKTOP);
+    const errors: string[] = [];
+    p.on('pageerror', (e) => errors.push(e.message));
+
+    // the catalogue: a table at desktop, cards at phone width
+    await p.goto('/challenges');
+    const table = p.getByTestId('challenge-table');
+    await table.waitFor();
+    expect(await table.getByRole('row').count()).toBeGreaterThanOrEqual(4);
+    await shots(p, '01-catalogue');
+
+    // search and filter
+    await p.getByLabel('Search challenges').fill('chain');
+    await expect.poll(() => table.getByRole('link').count()).toBe(1);
+    await p.getByLabel('Search challenges').fill('');
+    await p.getByLabel('Lattice').selectOption('heavy-hex');
+    await expect.poll(() => table.getByRole('link').count()).toBe(1);
+    await expect(table.getByRole('link').first().textContent()).resolves.toMatch(/Heavy-hex/);
+    await shots(p, '02-catalogue-filtered');
+    await p.getByRole('button', { name: 'clear filters' }).click();
+    await expect.poll(() => table.getByRole('link').count()).toBeGreaterThanOrEqual(3);
+
+    // a challenge: standings first
+    await table.getByRole('link', { name: /Kicked Ising chain/ }).click();
+    const standings = p.getByTestId('standings-table');
+    await standings.waitFor();
+    const rows = standings.getByTestId('standings-row');
+    expect(await rows.count()).toBeGreaterThanOrEqual(2);
+    await shots(p, '03-standings');
+
+    // sort by max error (ascending, then descending)
+    const maxErr = standings.getByRole('button', { name: /max error/i });
+    await maxErr.click();
+    const header = standings.getByRole('columnheader', { name: /max error/i });
+    await expect.poll(() => header.getAttribute('aria-sort')).toMatch(/ascending|descending/);
+    const firstSort = await header.getAttribute('aria-sort');
+    await maxErr.click();
+    await expect.poll(() => header.getAttribute('aria-sort')).not.toBe(firstSort);
+    // the column really is in order
+    const values = async () => (await rows.evaluateAll((trs) => trs.map((tr) => tr.children[5]?.textContent ?? ''))).map((s) => Number(s.replace('\u2212', '-'))).filter((x) => Number.isFinite(x));
+    const v = await values();
+    const sorted = [...v].sort((a, b) => (firstSort === 'ascending' ? b - a : a - b));
+    expect(v).toEqual(sorted);
+    await shots(p, '04-standings-sorted');
+
+    // the specification with the lattice and the instances
+    await p.getByRole('tab', { name: 'Specification' }).click();
+    await p.getByTestId('instances').waitFor();
+    await p.getByTestId('checksum').waitFor();
+    await shots(p, '05-specification');
+
+    // the sweep plot, then another observable
+    await p.getByRole('tab', { name: 'Sweep plot' }).click();
+    await p.locator('#sweep svg').first().waitFor();
+    await shots(p, '06-sweep');
+    await p.getByRole('radio', { name: 'z29', exact: true }).click();
+    await expect.poll(() => new URL(p.url()).searchParams.get('observable')).toBe('z29');
+    await p.locator('#sweep svg').first().waitFor();
+    await p.getByRole('button', { name: 'Show as a table' }).click();
+    await p.getByTestId('sweep-table').waitFor();
+    await shots(p, '07-sweep-z29');
+
+    // the agreement matrix, averaged and for one target
+    await p.getByRole('tab', { name: 'Agreement' }).click();
+    await p.getByLabel('Compare on').waitFor();
+    await p.getByLabel('Compare on').selectOption('t4-h0.750000:z29');
+    await p.locator('#agreement svg').first().waitFor();
+    await shots(p, '08-agreement');
+
+    // accuracy against cost, verifiability, history and downloads
+    await p.getByRole('tab', { name: 'Accuracy vs cost' }).click();
+    await p.locator('#cost svg').first().waitFor();
+    await shots(p, '09-cost');
+    await p.getByRole('tab', { name: 'Verifiability' }).click();
+    await p.getByTestId('verifiability-z29').waitFor();
+    await p.getByTestId('verifiability-z29').getByRole('button').first().click();
+    await p.getByTestId('target-detail').waitFor();
+    await shots(p, '10-verifiability');
+    await p.getByRole('tab', { name: 'History' }).click();
+    await p.getByTestId('history').waitFor();
+    await shots(p, '11-history');
+
+    // downloads: the CSV arrives as a file
+    await p.getByRole('tab', { name: 'Downloads' }).click();
+    const [download] = await Promise.all([p.waitForEvent('download'), p.getByTestId('export-csv').click()]);
+    expect(download.suggestedFilename()).toMatch(/\.csv$/);
+    const path = await download.path();
+    const { readFileSync } = await import('node:fs');
+    const csv = readFileSync(path!, 'utf8');
+    expect(csv.split('\n').length).toBeGreaterThan(10);
+    await shots(p, '12-downloads');
+
+    // an entry from the standings (the hardware one: it has noise-scaled data)
+    await p.getByRole('tab', { name: 'Standings' }).click();
+    await standings.waitFor();
+    await standings.getByRole('link', { name: /ZNE/ }).first().click();
+    await p.getByTestId('entry-estimates').waitFor();
+    await p.getByTestId('entry-estimates').getByRole('button').nth(5).click();
+    await p.getByTestId('zne').waitFor();
+    await shots(p, '13-entry');
+
+    // the team behind it
+    await p.getByRole('main').getByRole('link', { name: 'Cobalt Qubit Lab' }).first().click();
+    await p.getByTestId('team-entries').waitFor();
+    await shots(p, '14-team');
+
+    // the home page lists the challenges as cards
+    await p.goto('/');
+    await p.getByTestId('challenge-list').waitFor();
+    await shots(p, '15-home');
+
+    expect(errors).toEqual([]);
+  });
+});
