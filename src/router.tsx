@@ -40,6 +40,9 @@ export const router = createBrowserRouter([
           { path: 'teams/:teamId', loader: team.loader, Component: team.Component },
           { path: 'invitations/:invitationId', Component: invitation.Component },
           { path: 'moderation', lazy: () => import('@/routes/moderation') },
+          { path: 'moderation/challenges', lazy: () => import('@/routes/moderation-challenges') },
+          { path: 'moderation/challenges/:slug', lazy: () => import('@/routes/moderation-challenge') },
+          { path: 'moderation/audit', lazy: () => import('@/routes/moderation-audit') },
           // admin pages (and @tanstack/react-table) load on first visit only
           { path: 'admin', lazy: () => import('@/routes/admin') },
           { path: 'admin/outbox', lazy: () => import('@/routes/admin-outbox') },

@@ -1,17 +1,23 @@
 import type { LoaderFunctionArgs } from 'react-router';
 import { requireUser } from '@/lib/guards';
-import { EmptyState, PageHeader } from '@/components/ui';
+import { queryClient } from '@/lib/query-client';
+import { PageHeader } from '@/components/ui';
+import { getQueueQueryOptions } from '@/features/moderation/api/get-queue';
+import { ModerationNav } from '@/features/moderation/components/moderation-nav';
+import { ReviewQueue } from '@/features/moderation/components/review-queue';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireUser(request, ['moderator', 'admin']);
+  await queryClient.prefetchQuery(getQueueQueryOptions());
   return null;
 }
 
 export function Component() {
   return (
     <div>
-      <PageHeader title="Moderation" />
-      <EmptyState title="The review queue is coming">Entries waiting for review, disputes and sealed references will be listed here.</EmptyState>
+      <PageHeader title="Moderation">Entries in review with their automatic checks; challenges; the audit log.</PageHeader>
+      <ModerationNav />
+      <ReviewQueue />
     </div>
   );
 }

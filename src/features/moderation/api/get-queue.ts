@@ -1,0 +1,26 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api-client';
+
+export interface QueueChecks {
+  schema: { ok: boolean; problems: { target: string; message: string }[] };
+  coverage: { targets: number; answered: number; fraction: number; partial: boolean };
+  scores: { exactReferences: number; scored: number; rmse: number | null; meanZ2: number | null; fractionCovered: number | null; maxAbsError: number | null };
+  outliers: { consensusComputedAt: string | null; compared: number; count: number; targets: { target: string; value: number; uncertainty: number; consensus: number; d: number; U: number }[] };
+  bounds: { count: number; targets: { target: string; value: number; uncertainty: number; bound: number; beyondThreeSigma: boolean }[] };
+  identical: { entryId: string; label: string; team: string; state: string; isBaseline: boolean; targets: number; examples: string[] }[];
+}
+export interface QueueItem {
+  id: string;
+  challenge: { slug: string; version: number };
+  team: { id: string; name: string };
+  label: string; track: 'hardware' | 'classical'; methodFamily: string; revision: number; lineageId: string | null; supersedesId: string | null;
+  submittedAt: string | null;
+  flags: string[];
+  checks: QueueChecks;
+}
+
+export const getQueue = (signal?: AbortSignal) => api.get<{ count: number; entries: QueueItem[] }>('/moderation/queue', { signal });
+
+export const queueQueryKey = ['moderation', 'queue'] as const;
+export const getQueueQueryOptions = () => queryOptions({ queryKey: queueQueryKey, queryFn: ({ signal }) => getQueue(signal), refetchInterval: 30_000 });
+export const useQueue = () => useQuery(getQueueQueryOptions());
