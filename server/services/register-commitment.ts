@@ -15,10 +15,9 @@
 import { createHash } from 'node:crypto';
 import { eq } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
-import { entries, entryCommitments, estimates } from '../db/schema';
+import { entries, entryCommitments, estimates, referenceSeals } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
-import { openSeals } from './seal-references';
 
 export const COMMITMENT_RECIPE = 'sha256 (lowercase hex) of the JSON array [[target, value, uncertainty], ...] of the entry\'s estimates sorted by target, no whitespace, numbers as JSON.stringify writes them, no trailing newline; e.g. printf \'%s\' \'[["t1-h0.300000:z2",0.4,0.01]]\' | sha256sum';
 
@@ -40,11 +39,14 @@ export async function storedEstimatesHash(db: DbOrTx, entryId: string): Promise<
 export async function registerCommitment(db: Db, p: { entryId: string; sha256: string; actor: AuditActor; now: Date }) {
   const [e] = await db.select().from(entries).where(eq(entries.id, p.entryId));
   if (!e) throw notFound('The entry');
-  const open = await openSeals(db, e.versionId, p.now);
-  if (!open.length) throw conflict('This entry\'s challenge version has no sealed round open: a commitment is registered before a reveal, while reference values are sealed.');
   const sha = p.sha256.toLowerCase();
   const by = p.actor.kind === 'user' ? `user ${p.actor.user.id}` : p.actor.kind === 'api-key' ? `api-key ${p.actor.keyId}` : 'system';
   return db.transaction(async (tx) => {
+    // the seal rows are share-locked: a reveal (which locks its seal for update) either ran before
+    // (no open seal: 409) or runs after this commit (and checks this commitment)
+    const seals = await tx.select().from(referenceSeals).where(eq(referenceSeals.versionId, e.versionId)).for('share');
+    const open = seals.filter((s) => !s.revealedAt && s.sealedUntil > p.now);
+    if (!open.length) throw conflict('This entry\'s challenge version has no sealed round open: a commitment is registered before a reveal, while reference values are sealed.');
     const [have] = await tx.select().from(entryCommitments).where(eq(entryCommitments.entryId, e.id)).for('update');
     if (have && have.result !== 'pending') throw conflict(`This commitment was already checked at the reveal (${have.result}); it cannot change.`);
     await tx.insert(entryCommitments).values({ entryId: e.id, sha256: sha, registeredAt: p.now, registeredBy: by })

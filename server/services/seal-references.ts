@@ -10,7 +10,7 @@
  *   standings view); the reveal job (server/jobs/reveal-job.ts) runs once the date has passed.
  * Sealing again replaces the date for the targets named. Audit 'references.seal'.
  */
-import { and, eq, inArray } from 'drizzle-orm';
+import { eq, inArray } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { referenceSeals, references, targets } from '../db/schema';
 import { invalid } from '../errors';
@@ -48,8 +48,3 @@ export async function sealReferences(db: Db, p: { slug: string; versionId: strin
   });
 }
 
-/** The unrevealed seals of a version (a commitment can be registered while one is open). */
-export async function openSeals(db: Db, versionId: string, now: Date) {
-  const rows = await db.select().from(referenceSeals).where(and(eq(referenceSeals.versionId, versionId)));
-  return rows.filter((s) => !s.revealedAt && s.sealedUntil > now);
-}
