@@ -127,16 +127,16 @@ export function Component() {
             </div>
             {tq.isError && <p className="mb-2 text-sm text-danger">The references could not be loaded; scores are missing.</p>}
             <div className="-mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
-              <table className="w-full min-w-[46rem] border-collapse text-sm" data-testid="entry-estimates">
+              <table className="w-full border-collapse text-sm sm:min-w-[46rem]" data-testid="entry-estimates">
                 <caption className="sr-only">Every estimate of this entry with its score against the exact reference or the consensus</caption>
                 <thead>
                   <tr className="text-xs text-ink-soft uppercase">
                     <th scope="col" className="border-b border-rule-strong py-2 pr-2 text-left font-semibold">Target</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Estimate</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Reference</th>
-                    <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Error</th>
+                    <th scope="col" className="hidden border-b border-rule-strong px-2 py-2 text-right font-semibold sm:table-cell">Error</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">z</th>
-                    <th scope="col" className="border-b border-rule-strong px-2 py-2 text-center font-semibold">Covered</th>
+                    <th scope="col" className="hidden border-b border-rule-strong px-2 py-2 text-center font-semibold sm:table-cell">Covered</th>
                     <th scope="col" className="border-b border-rule-strong py-2 pl-2 text-right font-semibold">|d|/U</th>
                   </tr>
                 </thead>
@@ -150,12 +150,12 @@ export function Component() {
                         <th scope="row" className="border-b border-rule py-1.5 pr-2 text-left font-normal">
                           {extra ? (
                             <button type="button" className="text-left underline decoration-rule-strong hover:decoration-ink" aria-pressed={on} onClick={() => setSelected(on ? '' : s.e.target)}>
-                              <code className="text-xs">{s.e.target}</code>
+                              <code className="text-xs whitespace-nowrap">{s.e.target}</code>
                             </button>
-                          ) : <code className="text-xs">{s.e.target}</code>}
+                          ) : <code className="text-xs whitespace-nowrap">{s.e.target}</code>}
                           {s.t?.disputed && <Badge tone="disputed" className="ml-1">disputed</Badge>}
                         </th>
-                        <td className="border-b border-rule px-2 py-1.5 text-right"><Measured value={s.e.value} u={s.e.uncertainty} /><span className="block text-[11px] text-ink-faint">{s.e.uncertaintyKind}</span></td>
+                        <td className="border-b border-rule px-2 py-1.5 text-right"><Measured value={s.e.value} u={s.e.uncertainty} /><span className="hidden text-[11px] text-ink-faint sm:block">{s.e.uncertaintyKind}</span></td>
                         <td className="border-b border-rule px-2 py-1.5 text-right">
                           {r?.status === 'exact' ? (
                             <span className="inline-flex items-baseline">
@@ -170,9 +170,9 @@ export function Component() {
                             <span className="text-ink-faint">{r?.status ?? '—'}</span>
                           )}
                         </td>
-                        <td className="num border-b border-rule px-2 py-1.5 text-right">{s.error === null ? '—' : formatSig(s.error, 2)}</td>
+                        <td className="num hidden border-b border-rule px-2 py-1.5 text-right sm:table-cell">{s.error === null ? '—' : formatSig(s.error, 2)}</td>
                         <td className={cx('num border-b border-rule px-2 py-1.5 text-right', s.z !== null && Math.abs(s.z) > 3 && 'text-danger')}>{s.z === null ? '—' : Number.isFinite(s.z) ? s.z.toFixed(2) : '∞'}</td>
-                        <td className="border-b border-rule px-2 py-1.5 text-center">{s.covered === null ? '—' : s.covered ? <span className="text-ok-ink">yes</span> : <span className="text-danger">no</span>}</td>
+                        <td className="hidden border-b border-rule px-2 py-1.5 text-center sm:table-cell">{s.covered === null ? '—' : s.covered ? <span className="text-ok-ink">yes</span> : <span className="text-danger">no</span>}</td>
                         <td className={cx('num border-b border-rule py-1.5 pl-2 text-right', s.dU !== null && s.dU > 1 && 'text-disputed-ink')}>{s.dU === null ? '—' : formatSig(s.dU, 2)}</td>
                       </tr>
                     );

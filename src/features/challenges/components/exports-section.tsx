@@ -41,7 +41,7 @@ export default function ExportsSection({ c }: { c: ChallengeDetail }) {
       </Panel>
       <Panel title="Cite" id="cite" actions={bib.data ? <CopyButton text={bib.data} label="Copy BibTeX" /> : undefined}>
         {bib.isPending ? <p className="text-sm text-ink-soft">Loading…</p> : bib.isError ? <p className="text-sm text-danger">{(bib.error as Error).message}</p> : (
-          <pre className="overflow-x-auto rounded bg-paper-sunk p-3 text-xs whitespace-pre-wrap">{bib.data}</pre>
+          <pre className="overflow-x-auto rounded bg-paper-sunk p-3 text-xs break-all whitespace-pre-wrap">{bib.data}</pre>
         )}
       </Panel>
     </div>

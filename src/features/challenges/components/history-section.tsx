@@ -1,6 +1,7 @@
 import { Link } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { useHistory } from '@/features/challenges/api/get-history';
+import { useStandings } from '@/features/standings/api/get-standings';
 import { formatDateTime } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, PageLoading, Panel, type BadgeTone } from '@/components/ui';
 
@@ -13,6 +14,9 @@ const KIND: Record<string, { label: string; tone: BadgeTone }> = {
 
 export default function HistorySection({ c }: { c: ChallengeDetail }) {
   const q = useHistory(c.slug);
+  // entry events carry the entry id: name the entry from the standings where it is ranked
+  const st = useStandings(c.slug, { track: 'all' });
+  const labels = new Map((st.data?.entries ?? []).map((e) => [e.id, e.label]));
   if (q.isPending) return <PageLoading label="Loading the history…" />;
   if (q.isError) return <ErrorState error={q.error} retry={() => q.refetch()} />;
   const ev = q.data.events;
@@ -32,7 +36,12 @@ export default function HistorySection({ c }: { c: ChallengeDetail }) {
                   <time className="num text-ink-soft" dateTime={e.at}>{formatDateTime(e.at)}</time>
                   <Badge tone={k.tone}>{k.label}</Badge>
                 </div>
-                <p className="mt-0.5">{e.summary}</p>
+                <p className="mt-0.5">
+                  {e.summary}
+                  {e.kind.startsWith('entry.') && typeof e.details?.subject === 'string' && (
+                    <>: <Link to={`/entries/${encodeURIComponent(e.details.subject)}`}>{labels.get(e.details.subject) ?? 'the entry'}</Link></>
+                  )}
+                </p>
                 {asOf && (
                   <Link className="text-sm" to={`/challenges/${encodeURIComponent(c.slug)}?asOf=${encodeURIComponent(asOf)}`}>
                     standings as of this rescoring

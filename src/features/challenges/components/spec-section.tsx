@@ -116,12 +116,12 @@ function InstancesPanel({ c }: { c: ChallengeDetail }) {
     <Panel title="Instances" id="spec-instances" description={<span className="num">{c.instances.length} circuits, each with {c.observables.length} observables</span>}>
       <Table aria-label="Instances" data-testid="instances">
         <thead>
-          <tr><Th>Instance</Th><Th num>Steps</Th><Th num>θ<sub>h</sub></Th><Th num>Gates</Th><Th num>Depth</Th><Th className="text-right">OpenQASM 3</Th></tr>
+          <tr><Th>Instance</Th><Th num>Steps</Th><Th num>θ<sub>h</sub></Th><Th num>Gates</Th><Th num>Depth</Th><Th className="text-right"><abbr title="OpenQASM 3" className="no-underline">QASM</abbr></Th></tr>
         </thead>
         <tbody>
           {rows.map((i) => (
             <tr key={i.key}>
-              <Td><code className="text-xs">{i.key}</code></Td>
+              <Td><code className="text-xs whitespace-nowrap">{i.key}</code></Td>
               <Td num>{i.params.steps ?? '—'}</Td>
               <Td num title={String(i.params.thetaH)}>{i.params.thetaH !== undefined ? formatAngle(i.params.thetaH) : '—'}</Td>
               <Td num>{i.gateCount.toLocaleString('en-GB')}</Td>

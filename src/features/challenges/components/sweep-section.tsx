@@ -134,7 +134,7 @@ function SweepTable({ id, model, estimates }: { id: string; model: { lines: Swee
             <th scope="col" className="border-b border-rule-strong py-1 pr-2 text-left text-xs text-ink-soft">θh</th>
             <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">Exact</th>
             <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">Consensus</th>
-            {model.entries.map((e) => <th key={e.id} scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">{e.label}</th>)}
+            {model.entries.map((e) => <th key={e.id} scope="col" title={e.label} className="max-w-[9rem] truncate border-b border-rule-strong px-2 py-1 text-right text-xs font-medium text-ink-soft">{e.label}</th>)}
           </tr>
         </thead>
         <tbody>

@@ -133,7 +133,57 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
         </label>
         <span className="num ml-auto text-ink-soft">{rows.length} of {entries.length} entries</span>
       </div>
-      <div className="-mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
+      <label className="flex items-center gap-2 text-sm md:hidden">
+        <span className="text-ink-soft">Sort by</span>
+        <select
+          aria-label="Sort the standings by"
+          value={`${sorting[0]?.id ?? 'rank'}:${sorting[0]?.desc ? 'desc' : 'asc'}`}
+          onChange={(e) => { const [id, dir] = e.target.value.split(':'); setSorting([{ id, desc: dir === 'desc' }]); }}
+          className="h-8 rounded border border-rule-strong bg-paper-raised px-2 text-sm"
+        >
+          <option value="rank:asc">rank</option>
+          <option value="rmse:asc">RMSE, lowest first</option>
+          <option value="maxError:asc">max error, lowest first</option>
+          <option value="meanZ2:asc">mean z², lowest first</option>
+          <option value="covered:desc">coverage, highest first</option>
+          <option value="agreement:asc">agreement, best first</option>
+          <option value="cost:asc">cost, cheapest first</option>
+        </select>
+      </label>
+      <ol className="divide-y divide-rule border-y border-rule md:hidden" data-testid="standings-cards">
+        {rows.map((r) => {
+          const e = r.original, m = e.metrics;
+          return (
+            <li key={r.id} className={cx('py-3', e.isBaseline && 'bg-exact-soft/50')}>
+              <div className="flex items-start gap-3">
+                <span className="num w-6 shrink-0 pt-0.5 text-right text-lg font-semibold">{e.tiedWithPrevious ? '=' : ''}{e.rank}</span>
+                <div className="min-w-0 flex-1">
+                  <span className="inline-flex items-start gap-1.5">
+                    <TrackMark track={e.track} className="mt-1.5" />
+                    <Link to={`/entries/${encodeURIComponent(e.id)}`} className="font-medium">{e.label}</Link>
+                  </span>
+                  <p className="text-sm text-ink-soft">
+                    <Link to={`/teams/${encodeURIComponent(e.teamId)}`}>{e.teamName}</Link> · {e.methodFamily}
+                  </p>
+                  <div className="mt-0.5 flex flex-wrap gap-1">
+                    {e.isBaseline && <Badge tone="exact">house baseline</Badge>}
+                    {e.onFront && <Badge tone="ok">on the cost front</Badge>}
+                  </div>
+                  <dl className="mt-2 grid grid-cols-3 gap-x-3 gap-y-1 text-sm">
+                    <div><dt className="text-xs text-ink-faint">RMSE</dt><dd className="num">{formatMetric(m.rmseVerifiable)}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Max error</dt><dd className="num">{formatMetric(m.maxErrorVerifiable)}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Mean z²</dt><dd className="num">{formatMetric(m.meanZ2Verifiable)}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Coverage</dt><dd className="num">{formatPercent(m.coveredVerifiable)}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Agreement</dt><dd className="num">{formatMetric(m.agreementMedianRatio)}{m.unverifiableScored > 0 && <span className="text-xs text-ink-faint"> {m.outsideInterval} out</span>}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Cost</dt><dd><CostCell e={e} /></dd></div>
+                  </dl>
+                </div>
+              </div>
+            </li>
+          );
+        })}
+      </ol>
+      <div className="-mx-4 hidden overflow-x-auto px-4 sm:mx-0 sm:px-0 md:block">
         <table className="w-full min-w-[58rem] border-collapse text-sm" data-testid="standings-table">
           <caption className="sr-only">Standings of {slug}: the column buttons sort, the rank is the official order by the chosen metric</caption>
           <thead>
