@@ -15,7 +15,7 @@ import { referenceSeals } from '../db/schema';
 import { recomputeStandings } from '../services/recompute-standings';
 import { revealSeal } from '../services/reveal-references';
 import { sendAll, teamEmails } from '../services/decide-entry';
-import { standingsCache } from '../routes/standings-cache';
+import { standingsCache } from '../services/standings-cache';
 import { enqueueJob } from './queue';
 import { registerJobHandler } from './worker';
 
