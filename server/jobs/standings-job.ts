@@ -1,6 +1,6 @@
 import { recomputeStandings } from '../services/recompute-standings';
 import { registerJobHandler } from './worker';
-import { standingsCache } from '../routes/standings-cache';
+import { standingsCache } from '../services/standings-cache';
 
 registerJobHandler('standings', async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);

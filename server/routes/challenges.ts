@@ -17,6 +17,7 @@ import { badRequest, notFound } from '../errors';
 import { createChallengeVersion, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { parseBody } from '../validate';
+import { standingsCache } from '../services/standings-cache';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
 import type { Request } from 'express';
@@ -199,6 +200,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     handler: async (req) => {
       const body = parseBody(publishBody, req.body);
       const out = await publishChallengeVersion(db, { slug: String(req.params.slug), version: body.version, reason: body.reason, actor: req.actor, now: ctx.now() });
+      standingsCache.invalidate(); // the current version changed
       ctx.jobs.kick();
       return out;
     },

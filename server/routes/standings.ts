@@ -7,10 +7,10 @@ import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
 import type { AppContext } from '../app';
 import { entries, estimates, organization } from '../db/schema';
 import { badRequest } from '../errors';
-import { latestStandings, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';
+import { latestStandings, privateView, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
-import { standingsCache } from './standings-cache';
+import { standingsCache } from '../services/standings-cache';
 
 const TRACKS = ['all', 'hardware', 'classical'] as const;
 const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
@@ -29,11 +29,12 @@ function parseQuery(req: Request, settings: { primaryMetric?: string }) {
   return { metric, track, asOf, view };
 }
 
-function send(req: Request, res: Response, body: string, etag: string) {
+function send(req: Request, res: Response, body: string | Buffer, etag: string) {
   res.setHeader('ETag', etag);
   res.setHeader('Cache-Control', 'public, max-age=0, must-revalidate');
   if (req.headers['if-none-match'] === etag) { res.status(304).end(); return; }
-  res.type('application/json').send(body);
+  res.setHeader('Content-Type', 'application/json; charset=utf-8');
+  res.end(body);
 }
 
 export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -42,14 +43,15 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
   routes.add({
     method: 'get', path: '/challenges/:slug/standings', access: 'public', summary: 'Ranked standings (?track=hardware|classical, ?metric=, ?asOf= a past date, ?version=)',
     handler: async (req, res) => {
+      // the cache is consulted before any database work: a hit costs no query at all
+      const rawKey = `${String(req.params.slug)}|${isModerator(req) ? 'm' : 'p'}|${new URLSearchParams(req.query as Record<string, string>).toString()}`;
+      const early = req.query.asOf ? undefined : standingsCache.get(rawKey);
+      if (early) return send(req, res, early.body, early.etag);
       const { challenge: c, version: v } = await loadChallengeVersion(db, req);
       const q = parseQuery(req, c.settings as { primaryMetric?: string });
-      const key = `${v.id}|${q.view}|${q.track}|${q.metric}`;
-      const hit = q.asOf ? undefined : standingsCache.get(key);
-      if (hit) return send(req, res, hit.body, hit.etag);
       const row = await latestStandings(db, v.id, q.asOf);
       const payload = row?.payload as StandingsPayload | undefined;
-      const result = payload?.[q.view];
+      const result = payload ? (q.view === 'private' ? privateView(payload) : payload.public) : undefined;
       const rows = (result?.entries ?? []).filter((e) => q.track === 'all' || e.track === q.track);
       const ranked = rankRows(rows, q.metric).map(({ row: r, rank, tiedWithPrevious }) => ({ ...r, rank, tiedWithPrevious }));
       const body = JSON.stringify({
@@ -60,7 +62,7 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
         entries: ranked,
       });
       const etag = `"${createHash('sha1').update(body).digest('base64url')}"`;
-      if (!q.asOf) standingsCache.set(key, body, etag);
+      if (!q.asOf) standingsCache.set(rawKey, body, etag, v.id);
       send(req, res, body, etag);
     },
   });

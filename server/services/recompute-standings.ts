@@ -7,17 +7,29 @@
  * Two views are stored: `public` (sealed references count as unknown; targets are then scored
  * against the consensus) and `private` (sealed references used), for moderators.
  */
-import { and, desc, eq, inArray, lte } from 'drizzle-orm';
+import { and, desc, eq, lte, sql } from 'drizzle-orm';
 import { computeStandings, type StandingsEntryInput, type StandingsEstimate, type StandingsResult } from '@shared/scoring/standings';
 import type { ConsensusEstimator } from '@shared/scoring';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db, DbOrTx } from '../db/client';
-import { challengeVersions, challenges, entries, estimates, organization, references, standings, targets } from '../db/schema';
+import { standingsCache } from './standings-cache';
+import { challengeVersions, challenges, entries, organization, references, standings, targets } from '../db/schema';
 
-export interface StandingsPayload { public: StandingsResult; private: StandingsResult; computedAt: string; versionId: string; estimator: ConsensusEstimator }
+/** `private` is null when nothing is sealed (it would equal `public`); use privateView(). */
+export interface StandingsPayload { public: StandingsResult; private: StandingsResult | null; computedAt: string; versionId: string; estimator: ConsensusEstimator }
+export const privateView = (p: StandingsPayload): StandingsResult => p.private ?? p.public;
 
-export async function recomputeStandings(db: Db, versionId: string, now: Date = new Date()): Promise<{ id: string; computedAt: Date }> {
+export interface RecomputeTimings { readMs: number; computeMs: number; storeMs: number }
+
+export async function recomputeStandings(db: Db, versionId: string, now: Date = new Date()): Promise<{ id: string; computedAt: Date; timings: RecomputeTimings }> {
+  const out = await recomputeInTransaction(db, versionId, now);
+  standingsCache.invalidate(versionId);
+  return out;
+}
+
+function recomputeInTransaction(db: Db, versionId: string, now: Date) {
   return db.transaction(async (tx) => {
+    const t0 = performance.now();
     const [v] = await tx.select({ slug: challengeVersions.challengeSlug }).from(challengeVersions).where(eq(challengeVersions.id, versionId));
     if (!v) throw new Error(`challenge version ${versionId} does not exist`);
     const [c] = await tx.select({ settings: challenges.settings }).from(challenges).where(eq(challenges.slug, v.slug));
@@ -27,9 +39,7 @@ export async function recomputeStandings(db: Db, versionId: string, now: Date = 
     const eRows = await tx.select({ e: entries, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId))
       .where(and(eq(entries.versionId, versionId), eq(entries.state, 'published'))).orderBy(entries.createdAt);
     const ids = eRows.map((r) => r.e.id);
-    const est = ids.length ? await tx.select({ entryId: estimates.entryId, key: estimates.targetKey, value: estimates.value, u: estimates.uncertainty, kind: estimates.kind }).from(estimates).where(inArray(estimates.entryId, ids)) : [];
-    const byEntry = new Map<string, Map<string, StandingsEstimate>>(ids.map((id) => [id, new Map()]));
-    for (const x of est) byEntry.get(x.entryId)!.set(x.key, { value: x.value, uncertainty: x.u, kind: x.kind as StandingsEstimate['kind'] });
+    const byEntry = await publishedEstimates(tx, ids);
     const entryInputs: StandingsEntryInput[] = eRows.map(({ e, teamName }) => {
       const res = ((e.document as { resources?: StandingsEntryInput['cost'] }).resources ?? {}) as StandingsEntryInput['cost'];
       return {
@@ -39,14 +49,16 @@ export async function recomputeStandings(db: Db, versionId: string, now: Date = 
         estimates: byEntry.get(e.id)!,
       };
     }).filter((x) => !eRows.find((r) => r.e.id === x.id)!.e.hiddenReason);
+    const t1 = performance.now();
     const exact = (t: (typeof tRows)[number]) => (t.value === null || t.value === undefined ? null : { value: t.value, uncertainty: t.unc ?? 0 });
     const sealed = new Set(tRows.filter((t) => t.sealedUntil && t.sealedUntil > now).map((t) => t.key));
     const publicInputs = sealed.size ? entryInputs.map((e) => (e.isBaseline ? { ...e, estimates: new Map([...e.estimates].filter(([k]) => !sealed.has(k))) } : e)) : entryInputs;
     const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, reference: t.sealedUntil && t.sealedUntil > now ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
-    const priv = computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
+    const priv = sealed.size ? computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) }) : null;
     const payload: StandingsPayload = { public: pub, private: priv, computedAt: now.toISOString(), versionId, estimator };
+    const t2 = performance.now();
     const [row] = await tx.insert(standings).values({ versionId, computedAt: now, engineVersion: ENGINE_VERSION, payload }).returning({ id: standings.id, computedAt: standings.computedAt });
-    return row;
+    return { ...row, timings: { readMs: t1 - t0, computeMs: t2 - t1, storeMs: performance.now() - t2 } };
   });
 }
 
@@ -58,6 +70,37 @@ export async function recomputeStandings(db: Db, versionId: string, now: Date = 
 export async function sealedTargetKeys(db: DbOrTx, versionId: string, now: Date): Promise<Set<string>> {
   const rows = await db.select({ key: targets.key, until: references.sealedUntil }).from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, versionId));
   return new Set(rows.filter((r) => r.until && r.until > now).map((r) => r.key));
+}
+
+/**
+ * Estimates of published entries, by entry. A published entry never changes (a correction is a new
+ * revision with a new id), so what was read once is kept in memory and only new entries are read.
+ */
+const estimateCache = new Map<string, Map<string, StandingsEstimate>>();
+let cachedEstimates = 0;
+const CACHE_LIMIT = 2_000_000;
+
+async function publishedEstimates(tx: DbOrTx, ids: string[]): Promise<Map<string, Map<string, StandingsEstimate>>> {
+  const out = new Map<string, Map<string, StandingsEstimate>>();
+  const missing = ids.filter((id) => !estimateCache.has(id));
+  if (missing.length) {
+    // one row per entry with its estimates as arrays: far fewer row objects than one per estimate
+    const r = (await tx.execute(sql`select entry_id as e, array_agg(target_key) as k, array_agg(value) as v, array_agg(uncertainty) as u, array_agg(kind) as t
+      from estimates where entry_id in (${sql.join(missing.map((x) => sql`${x}::uuid`), sql`, `)}) group by entry_id`)) as unknown as { rows: { e: string; k: string[]; v: number[]; u: number[]; t: string[] }[] };
+    for (const id of missing) out.set(id, new Map());
+    for (const row of r.rows) {
+      const m = out.get(row.e)!;
+      for (let i = 0; i < row.k.length; i++) m.set(row.k[i], { value: Number(row.v[i]), uncertainty: Number(row.u[i]), kind: row.t[i] as StandingsEstimate['kind'] });
+    }
+    for (const id of missing) {
+      const m = out.get(id)!;
+      if (cachedEstimates + m.size > CACHE_LIMIT) { estimateCache.clear(); cachedEstimates = 0; }
+      estimateCache.set(id, m);
+      cachedEstimates += m.size;
+    }
+  }
+  for (const id of ids) if (!out.has(id)) out.set(id, estimateCache.get(id)!);
+  return out;
 }
 
 /** The newest standings row of a version computed at or before `asOf` (default: now). */

@@ -103,10 +103,10 @@ export interface TargetConsensus {
   I2: number | null;
   disputed: boolean;
   disputedNote: string | null;
-  /** entry ids that entered the consensus value */
-  included: string[];
-  /** per entry: degree of equivalence d, expanded uncertainty U (k = 2) */
-  doe: { entryId: string; d: number; U: number }[];
+  /** how many estimates entered the consensus value */
+  includedCount: number;
+  /** entry ids that gave an estimate but did not enter the value (e.g. dropped by the LCS) */
+  excluded: string[];
 }
 
 export interface StandingsResult {
@@ -156,8 +156,8 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
       birgeRatio: ok ? fin(c.inputTest.birgeRatio) : null, tau2: ok ? fin(c.tau2) : null, I2: ok && c.I2 !== undefined ? fin(c.I2) : null,
       disputed: Boolean(t.disputedNote) || (t.reference === null && Boolean(c?.disputed)),
       disputedNote: t.disputedNote ?? null,
-      included: ok ? c.included.map((k) => E[idx[k]].id) : [],
-      doe: doe.map((x, k) => ({ entryId: E[idx[k]].id, d: x.d, U: x.U })),
+      includedCount: ok ? c.included.length : 0,
+      excluded: ok ? c.excluded.map((k) => E[idx[k]].id) : [],
     });
     for (let i = 0; i < nE; i++) {
       const e = E[i].estimates.get(t.key);
@@ -198,7 +198,8 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     methodFamily: row.e.methodFamily, submittedAt: row.e.submittedAt, isBaseline: row.e.isBaseline, featured: Boolean(row.e.featured),
     cost: row.e.cost, metrics: row.metrics, onFront: onFront.has(row.e.id),
   }));
-  const order = entries.map((r) => E.findIndex((e) => e.id === r.id));
+  const pos = new Map(E.map((e, i) => [e.id, i]));
+  const order = entries.map((r) => pos.get(r.id)!);
   return {
     estimator: input.estimator,
     entries,
