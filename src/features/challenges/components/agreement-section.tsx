@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { useSearchParams } from 'react-router';
+import { Link, useSearchParams } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { useAgreement, type AgreementEntry } from '@/features/challenges/api/get-agreement';
 import { useTargets } from '@/features/challenges/api/get-targets';
@@ -96,7 +96,7 @@ export default function AgreementSection({ c }: { c: ChallengeDetail }) {
                   <span className="num w-4 shrink-0 font-medium">{String.fromCharCode(65 + i)}</span>
                   {e.track && <TrackMark track={e.track} className="mt-1.5" />}
                   <span className="min-w-0">
-                    <a href={`/entries/${encodeURIComponent(e.id)}`} className="break-words">{e.label ?? e.id}</a>
+                    <Link to={`/entries/${encodeURIComponent(e.id)}`} className="break-words">{e.label ?? e.id}</Link>
                     <span className="text-ink-soft"> · {e.teamName}</span>
                     {e.value !== undefined && <span className="block"><Measured value={e.value} u={e.uncertainty} /></span>}
                   </span>

@@ -116,7 +116,7 @@ function InstancesPanel({ c }: { c: ChallengeDetail }) {
     <Panel title="Instances" id="spec-instances" description={<span className="num">{c.instances.length} circuits, each with {c.observables.length} observables</span>}>
       <Table aria-label="Instances" data-testid="instances">
         <thead>
-          <tr><Th>Instance</Th><Th num>Steps</Th><Th num>θ<sub>h</sub></Th><Th num>Gates</Th><Th num>Depth</Th><Th className="text-right"><abbr title="OpenQASM 3" className="no-underline">QASM</abbr></Th></tr>
+          <tr><Th>Instance</Th><Th num>Steps</Th><Th num className="normal-case">θ<sub>h</sub></Th><Th num>Gates</Th><Th num>Depth</Th><Th className="text-right"><abbr title="OpenQASM 3" className="no-underline">QASM</abbr></Th></tr>
         </thead>
         <tbody>
           {rows.map((i) => (
@@ -166,7 +166,8 @@ const JOB_LABEL: Record<string, string> = { references: 'Exact references', 'dem
 function JobsPanel({ c }: { c: ChallengeDetail }) {
   if (!c.jobs.length) return null;
   const active = c.jobs.filter((j) => j.state === 'queued' || j.state === 'running');
-  const recent = c.jobs.filter((j) => !(j.state === 'queued' || j.state === 'running')).slice(0, 4);
+  // the newest finished job of each kind (the list is newest first)
+  const recent = c.jobs.filter((j) => !(j.state === 'queued' || j.state === 'running')).filter((j, i, a) => a.findIndex((x) => x.kind === j.kind) === i);
   return (
     <Panel title="Reference computations" id="spec-jobs" description={active.length ? 'Running now; this updates by itself.' : 'All finished.'}>
       <div className="space-y-3" data-testid="jobs">

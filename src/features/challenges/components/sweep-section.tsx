@@ -2,9 +2,9 @@ import { useMemo, useState } from 'react';
 import { useSearchParams } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { useEstimates } from '@/features/challenges/api/get-estimates';
-import { useTargets } from '@/features/challenges/api/get-targets';
-import { formatAngle, formatMeasurement } from '@/lib/format';
-import { ChartTableToggle, EmptyState, ErrorState, Measured, PageLoading, Panel, Segmented, Spinner, inputClass } from '@/components/ui';
+import { describeSize, useTargets, type Target } from '@/features/challenges/api/get-targets';
+import { formatAngle, formatDateTime, formatMeasurement } from '@/lib/format';
+import { ChartTableToggle, EmptyState, ErrorState, Measured, PageLoading, Panel, Provenance, ProvenanceList, Segmented, Spinner, inputClass } from '@/components/ui';
 import SweepChart, { ResidualChart, type ResidualPoint, type SweepPoint, type SweepSeries, type SweepTargetLine } from '@/features/challenges/charts/sweep-chart';
 import type { MarkKind } from '@/features/challenges/charts/theme';
 import { Legend, LegendMark } from './chart-bits';
@@ -26,12 +26,13 @@ export default function SweepSection({ c }: { c: ChallengeDetail }) {
     if (!est.data || !tq.data) return null;
     const targets = tq.data.targets.filter((t) => t.observable === obs && t.params.steps === step);
     const byKey = new Map(targets.map((t) => [t.key, t]));
-    const lines: SweepTargetLine[] = targets.map((t) => ({
+    const lines: (SweepTargetLine & { ref: Target['reference'] })[] = targets.map((t) => ({
       theta: t.params.thetaH ?? 0,
       target: t.key,
       exact: t.reference.status === 'exact' ? t.reference.value : null,
       consensus: t.consensus && t.consensus.value !== null && t.consensus.uncertainty !== null ? { value: t.consensus.value, uncertainty: t.consensus.uncertainty } : null,
       disputed: t.disputed,
+      ref: t.reference,
     }));
     const thetas = lines.map((l) => l.theta);
     const xMin = thetas.length ? Math.min(...thetas) : 0, xMax = thetas.length ? Math.max(...thetas) : 1;
@@ -123,7 +124,7 @@ export default function SweepSection({ c }: { c: ChallengeDetail }) {
   );
 }
 
-function SweepTable({ id, model, estimates }: { id: string; model: { lines: SweepTargetLine[]; entries: { id: string; label: string }[] }; estimates: { entryId: string; target: string; value: number; uncertainty: number }[] }) {
+function SweepTable({ id, model, estimates }: { id: string; model: { lines: (SweepTargetLine & { ref: Target['reference'] })[]; entries: { id: string; label: string }[] }; estimates: { entryId: string; target: string; value: number; uncertainty: number }[] }) {
   const lines = [...model.lines].sort((a, b) => a.theta - b.theta);
   return (
     <div id={id} className="mt-6 overflow-x-auto">
@@ -141,7 +142,16 @@ function SweepTable({ id, model, estimates }: { id: string; model: { lines: Swee
           {lines.map((l) => (
             <tr key={l.target}>
               <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-normal"><span className="num">{formatAngle(l.theta)}</span>{l.disputed && <span className="ml-1 text-xs text-disputed-ink">disputed</span>}</th>
-              <td className="border-b border-rule px-2 py-1 text-right"><Measured value={l.exact} u={l.exact === null ? null : 0} exactLabel={false} /></td>
+              <td className="border-b border-rule px-2 py-1 text-right">
+                <span className="inline-flex items-baseline">
+                  <Measured value={l.exact} u={l.exact === null ? null : 0} exactLabel={false} />
+                  {l.ref.status === 'exact' ? (
+                    <Provenance label={`Provenance of the reference of ${l.target}`}>
+                      <ProvenanceList items={[['Method', l.ref.method], ['Size', describeSize(l.ref.size) || '—'], ['Engine', l.ref.engineVersion ?? '—'], ['Computed', formatDateTime(l.ref.createdAt)]]} />
+                    </Provenance>
+                  ) : <span className="text-xs text-ink-faint">{l.ref.status}</span>}
+                </span>
+              </td>
               <td className="border-b border-rule px-2 py-1 text-right">{l.consensus ? <Measured value={l.consensus.value} u={l.consensus.uncertainty} /> : '—'}</td>
               {model.entries.map((e) => {
                 const m = estimates.find((x) => x.entryId === e.id && x.target === l.target);

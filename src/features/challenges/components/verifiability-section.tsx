@@ -10,7 +10,7 @@ const SHORT: Record<string, string> = { 'free-fermion': 'free-ferm.', 'pauli-pro
 
 function cellText(t: Target): { top: string; bottom: string } {
   const r = t.reference;
-  if (r.status === 'exact') return { top: SHORT[r.method] ?? r.method, bottom: describeSize(r.size).replace(/ (sites|qubits|terms)/, (m) => m.slice(0, 2)) };
+  if (r.status === 'exact') return { top: SHORT[r.method] ?? r.method, bottom: describeSize(r.size).replace(/^1 (site|qubit|term)s/, '1 $1') };
   if (r.status === 'none') return { top: 'none', bottom: t.consensus ? 'consensus' : '' };
   if (r.status === 'sealed') return { top: 'sealed', bottom: formatDate(r.sealedUntil) };
   return { top: 'pending', bottom: '' };
