@@ -40,13 +40,13 @@ export default function CostChart({ points, yLabel, height = 360 }: { points: Co
       <ResponsiveScatterPlot<CostPoint>
         data={[{ id: 'entries', data: points }]}
         animate={false}
-        margin={{ top: 12, right: 16, bottom: 46, left: 62 }}
+        margin={{ top: 12, right: 30, bottom: 46, left: 62 }}
         xScale={{ type: 'log', base: 10, min: xMin, max: xMax }}
         yScale={{ type: 'log', base: 10, min: yMin, max: yMax }}
         theme={chartTheme}
         gridXValues={decades(xMin, xMax)}
         gridYValues={decades(yMin, yMax)}
-        axisBottom={{ legend: 'declared cost (hours, log scale)', legendOffset: 36, legendPosition: 'middle', tickValues: decades(xMin, xMax), format: (v) => formatHours(Number(v)) }}
+        axisBottom={{ legend: 'declared cost (log scale)', legendOffset: 36, legendPosition: 'middle', tickValues: decades(xMin, xMax), format: (v) => formatHours(Number(v)) }}
         axisLeft={{ legend: yLabel, legendOffset: -52, legendPosition: 'middle', tickValues: decades(yMin, yMax), format: (v) => formatSig(Number(v), 1) }}
         nodeComponent={Node}
         layers={['grid', 'axes', frontLayer, 'nodes', 'mesh']}

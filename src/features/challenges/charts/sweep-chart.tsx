@@ -13,19 +13,22 @@ function Node({ node }: ScatterPlotNodeProps<SweepPoint>) {
   return <path d={p.d} fill={p.fill} stroke={p.stroke} strokeWidth={p.strokeWidth} />;
 }
 
-function errorBars({ nodes, yScale }: ScatterPlotLayerProps<SweepPoint>) {
+function errorBars({ nodes, yScale, innerHeight }: ScatterPlotLayerProps<SweepPoint>) {
   const ys = yScale as unknown as Scale;
+  const clamp = (y: number) => Math.max(0, Math.min(innerHeight, y));
   return (
     <g>
       {nodes.map((n) => {
         if (!(n.data.u > 0)) return null;
-        const y1 = ys(n.data.y - n.data.u), y2 = ys(n.data.y + n.data.u);
+        const top = ys(n.data.y + n.data.u), bottom = ys(n.data.y - n.data.u);
+        const y1 = clamp(top), y2 = clamp(bottom);
         const c = n.data.mark === 'hardware' ? COLORS.hardware : n.data.mark === 'classical' ? COLORS.classical : COLORS.exact;
+        // an interval wider than the plot runs off the edge: an arrowhead says so
         return (
           <g key={n.id} stroke={c} strokeWidth={1.2} opacity={0.85}>
             <line x1={n.x} x2={n.x} y1={y1} y2={y2} />
-            <line x1={n.x - 3} x2={n.x + 3} y1={y1} y2={y1} />
-            <line x1={n.x - 3} x2={n.x + 3} y1={y2} y2={y2} />
+            {top >= 0 ? <line x1={n.x - 3} x2={n.x + 3} y1={y1} y2={y1} /> : <path d={`M${n.x - 3.5} ${y1 + 5}L${n.x} ${y1}L${n.x + 3.5} ${y1 + 5}`} fill="none" />}
+            {bottom <= innerHeight ? <line x1={n.x - 3} x2={n.x + 3} y1={y2} y2={y2} /> : <path d={`M${n.x - 3.5} ${y2 - 5}L${n.x} ${y2}L${n.x + 3.5} ${y2 - 5}`} fill="none" />}
           </g>
         );
       })}
@@ -33,20 +36,29 @@ function errorBars({ nodes, yScale }: ScatterPlotLayerProps<SweepPoint>) {
   );
 }
 
-export default function SweepChart({ series, lines, yLabel, height = 380, xMin, xMax }: { series: SweepSeries[]; lines: SweepTargetLine[]; yLabel: string; height?: number; xMin: number; xMax: number }) {
+export default function SweepChart({ series, lines, yLabel, height = 380, xMin, xMax, bound = 1 }: { series: SweepSeries[]; lines: SweepTargetLine[]; yLabel: string; height?: number; xMin: number; xMax: number; bound?: number }) {
+  // the y range follows the values and the informative intervals; an interval far wider than
+  // the others (a loose bound) would flatten everything else, so it runs off the edge instead
+  const us = series.flatMap((s) => s.data.map((p) => p.u)).filter((u) => u > 0).sort((a, b) => a - b);
+  const medianU = us.length ? us[Math.floor(us.length / 2)] : 0;
   const ys: number[] = [];
-  for (const s of series) for (const p of s.data) ys.push(p.y - p.u, p.y + p.u);
+  for (const s of series) for (const p of s.data) {
+    ys.push(p.y);
+    if (p.u <= Math.max(10 * medianU, 0.02 * bound)) ys.push(p.y - p.u, p.y + p.u);
+  }
   for (const l of lines) {
     if (l.exact !== null) ys.push(l.exact);
     if (l.consensus) ys.push(l.consensus.value - l.consensus.uncertainty, l.consensus.value + l.consensus.uncertainty);
   }
-  const lo = ys.length ? Math.min(...ys) : -1, hi = ys.length ? Math.max(...ys) : 1;
+  const lim = bound * 1.05;
+  const lo = Math.max(-lim, ys.length ? Math.min(...ys) : -1), hi = Math.min(lim, ys.length ? Math.max(...ys) : 1);
   const pad = Math.max((hi - lo) * 0.08, 0.01);
   const pad2 = (xMax - xMin) * 0.04 || 0.1;
   const sorted = [...lines].sort((a, b) => a.theta - b.theta);
 
-  const bands = ({ xScale, yScale }: ScatterPlotLayerProps<SweepPoint>) => {
-    const xs = xScale as unknown as Scale, yy = yScale as unknown as Scale;
+  const bands = ({ xScale, yScale, innerHeight }: ScatterPlotLayerProps<SweepPoint>) => {
+    const xs = xScale as unknown as Scale, y0 = yScale as unknown as Scale;
+    const yy = (v: number) => Math.max(0, Math.min(innerHeight, y0(v)));
     const w = 14;
     return (
       <g>
@@ -61,7 +73,7 @@ export default function SweepChart({ series, lines, yLabel, height = 380, xMin, 
             </g>
           ) : (
             <g key={l.target}>
-              <rect x={x - w} y={y1} width={2 * w} height={Math.max(2, y2 - y1)} fill={COLORS.consensusSoft} stroke={COLORS.consensus} strokeOpacity={0.35} />
+              <rect x={x - w} y={y1} width={2 * w} height={Math.max(2, y2 - y1)} fill={COLORS.consensusSoft} fillOpacity={0.9} stroke={COLORS.consensus} strokeOpacity={0.6} />
               <line x1={x - w} x2={x + w} y1={yy(c.value)} y2={yy(c.value)} stroke={COLORS.consensus} strokeOpacity={0.7} />
             </g>
           );

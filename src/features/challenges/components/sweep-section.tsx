@@ -98,7 +98,7 @@ export default function SweepSection({ c }: { c: ChallengeDetail }) {
         ) : (
           <>
             {model.series.length === 0 && <p className="mb-2 text-sm text-ink-soft">No entry has answered these targets yet; the references are shown alone.</p>}
-            <SweepChart series={model.series} lines={model.lines} yLabel={`⟨${obs}⟩`} xMin={model.xMin} xMax={model.xMax} />
+            <SweepChart series={model.series} lines={model.lines} yLabel={`⟨${obs}⟩`} xMin={model.xMin} xMax={model.xMax} bound={o?.bound ?? 1} />
             <Legend>
               <LegendMark kind="hardware">hardware</LegendMark>
               <LegendMark kind="classical">classical</LegendMark>
@@ -107,7 +107,7 @@ export default function SweepSection({ c }: { c: ChallengeDetail }) {
               <LegendMark kind="verifiable">verifiable point</LegendMark>
               <LegendMark kind="consensus">consensus ± u</LegendMark>
               <LegendMark kind="disputed">disputed (open)</LegendMark>
-              <span>points are spread sideways a little so that the bars do not overlap</span>
+              <span>points are spread sideways a little so that the bars do not overlap; an arrow marks an interval that runs off the plot</span>
             </Legend>
             <h3 className="mt-6 mb-1 text-base font-semibold">Residuals on verifiable targets</h3>
             <p className="mb-2 text-sm text-ink-soft">(estimate − reference) / u for every target with an exact reference; honest error bars stay inside ±2 about 95 % of the time. Points beyond ±{RESIDUAL_LIMIT} sit on the edge.</p>
