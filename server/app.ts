@@ -101,14 +101,19 @@ export async function createApp(deps: AppDeps) {
   );
 
   // better-auth: a body limit in front of it, the sign-in throttle, then its handler
-  const authJson = express.json({ limit: '64kb' });
+  // (verify: a nesting-depth limit; better-call re-serialises the parsed body recursively and
+  // overflowed the stack on JSON nested 10,000 deep, which was a 500: tests/server/abuse.test.ts)
+  const authJson = express.json({ limit: '64kb', verify: refuseDeepJson });
   app.use('/api/auth', authJson);
+  // CSRF: better-auth itself accepted cookie-bearing POSTs from a foreign Origin (sign-out,
+  // organization/create, update-user, ...: tests/server/abuse.test.ts); the same check as /api
+  app.use('/api/auth', originCheck([config.baseUrl, ...config.trustedOrigins]));
   app.post('/api/auth/sign-in/email', signInThrottle({ ...config.signInThrottle, now: () => now().getTime() }));
   app.all('/api/auth/{*any}', toNodeHandler(auth));
 
   // entry documents are read as raw text by their own routes (strict parsing: duplicate keys,
   // integers beyond 2^53, nesting depth); the global JSON parser skips exactly those paths
-  const json = express.json({ limit: config.jsonLimitBytes });
+  const json = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
   app.use('/api', (req: Request, res: Response, next: NextFunction) => (takesEntryDocument(req.method, req.path) ? next() : json(req, res, next)));
   app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
   app.use('/api', originCheck([config.baseUrl, ...config.trustedOrigins]));
@@ -130,6 +135,28 @@ export async function createApp(deps: AppDeps) {
 
   app.use(errorHandler(log));
   return { app, auth, routes, ctx };
+}
+
+/** JSON nesting allowed in request bodies other than entry documents (those have their own strict parser). */
+export const MAX_JSON_DEPTH = 64;
+
+/**
+ * express.json's verify hook: refuses a body nested deeper than MAX_JSON_DEPTH with a 400 before it is
+ * parsed (JSON.parse copes with deep nesting, but recursive code after it may not).
+ */
+export function refuseDeepJson(_req: Request, _res: Response, buf: Buffer): void {
+  let depth = 0;
+  let inString = false;
+  for (let i = 0; i < buf.length; i++) {
+    const c = buf[i];
+    if (inString) {
+      if (c === 0x5c) i++; // backslash: skip the escaped byte
+      else if (c === 0x22) inString = false;
+    } else if (c === 0x22) inString = true;
+    else if (c === 0x5b || c === 0x7b) {
+      if (++depth > MAX_JSON_DEPTH) throw Object.assign(new Error(`The JSON body is nested deeper than ${MAX_JSON_DEPTH} levels.`), { status: 400, type: 'entity.too.deep' });
+    } else if (c === 0x5d || c === 0x7d) depth--;
+  }
 }
 
 export function errorHandler(log: Logger): ErrorRequestHandler {

@@ -8,6 +8,7 @@
  * A Parallax team is a better-auth organization: owner/admin members are team leads.
  */
 import { betterAuth } from 'better-auth';
+import { createAuthMiddleware } from 'better-auth/api';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { admin, organization } from 'better-auth/plugins';
 import { apiKey } from '@better-auth/api-key';
@@ -102,6 +103,18 @@ export function createAuth({ db, config, mailer, log }: AuthDeps) {
       useSecureCookies: config.baseUrl.startsWith('https://'),
       ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
       defaultCookieAttributes: { httpOnly: true, sameSite: 'lax' },
+    },
+    hooks: {
+      // no account enumeration: for an address that already has an account, better-auth answers
+      // the sign-up with a made-up user, but without the admin plugin's default role (role: null
+      // instead of 'user'), which told the two cases apart (tests/server/abuse.test.ts)
+      after: createAuthMiddleware(async (ctx) => {
+        if (ctx.path !== '/sign-up/email') return;
+        const r = ctx.context.returned as { user?: Record<string, unknown> } | null | undefined;
+        if (r && typeof r === 'object' && !(r instanceof Error) && r.user && typeof r.user === 'object' && r.user.role == null) {
+          return ctx.json({ ...r, user: { ...r.user, role: 'user' } });
+        }
+      }),
     },
     plugins: [
       admin({ defaultRole: 'user', adminRoles: ['admin'] }),

@@ -29,10 +29,14 @@ export interface Running {
 
 export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolean } = {}): Promise<Running> {
   const log = createLogger(config.logLevel);
+  // reopen time (lock, open with crash recovery, migrations), printed in the ready line below:
+  // tests/server/durability.test.ts reads it to check RELIABILITY.md's 5 s reopen bound
+  const openStarted = performance.now();
   let lock: DirLock | undefined;
   if (!config.databaseUrl) lock = await lockDataDir(config.dataDir);
   const database = await openDatabase({ databaseUrl: config.databaseUrl, dataDir: config.databaseUrl ? undefined : path.join(config.dataDir, 'pglite') });
   await applyMigrations(database);
+  const openMs = Math.round(performance.now() - openStarted);
 
   let smtp: FakeSmtp | undefined;
   let mailer: Mailer;
@@ -75,7 +79,7 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
   const port = typeof addr === 'object' && addr ? addr.port : config.port;
   const url = config.baseUrl.includes(`:${config.port}`) && config.port === 0 ? `http://localhost:${port}` : config.baseUrl;
   if (!opts.quiet) {
-    console.log(`\nParallax is running at ${url}  (database: ${database.kind} ${database.location}${smtp ? `, fake mail on port ${smtp.port}` : ''})`);
+    console.log(`\nParallax is running at ${url}  (database: ${database.kind} ${database.location}, opened in ${openMs} ms${smtp ? `, fake mail on port ${smtp.port}` : ''})`);
     if (config.seedDemo) {
       console.log(seeded ? 'Demo scenario seeded. Demo accounts:' : 'Demo accounts:');
       for (const a of DEMO_ACCOUNTS) console.log(`  ${a.role.padEnd(10)} ${a.email.padEnd(30)} ${DEMO_PASSWORD}   (${a.name}${a.team ? `, ${a.team}` : ''})`);
