@@ -29,6 +29,7 @@ function score(e: EntryDocumentEstimate, t: Target | undefined): Scored {
   let error: number | null = null, z: number | null = null, covered: boolean | null = null, dU: number | null = null;
   if (t?.reference.status === 'exact') {
     error = e.value - t.reference.value;
+    if (Math.abs(error) < 1e-12) error = 0; // rounding noise of the reference, not a difference
     z = e.uncertainty > 0 ? error / e.uncertainty : error === 0 ? 0 : Infinity;
     covered = Math.abs(error) <= 2 * e.uncertainty;
   } else if (t?.consensus && t.consensus.value !== null && t.consensus.uncertainty !== null) {

@@ -10,7 +10,8 @@ type Scale = (v: number) => number;
 
 function Node({ node }: ScatterPlotNodeProps<SweepPoint>) {
   const p = markPath(node.data.mark, node.x, node.y, 9);
-  return <path d={p.d} fill={p.fill} stroke={p.stroke} strokeWidth={p.strokeWidth} />;
+  // a disputed target is drawn open: every mark on it loses its fill
+  return <path d={p.d} fill={node.data.disputed ? COLORS.paper : p.fill} stroke={p.stroke} strokeWidth={p.strokeWidth} strokeDasharray={node.data.disputed ? '2 1.5' : undefined} />;
 }
 
 function errorBars({ nodes, yScale, innerHeight }: ScatterPlotLayerProps<SweepPoint>) {
