@@ -22,7 +22,7 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
   const { db } = ctx;
 
   routes.add({
-    method: 'get', path: '/challenges/:slug/estimates', access: 'public', summary: 'Every published estimate of a challenge version (?observable= and ?steps= filter), with the entries they belong to',
+    method: 'get', path: '/challenges/:slug/estimates', access: 'public', summary: 'Every published estimate of a challenge version (?observable= and ?steps= filter; ?raw=0 leaves out noise-scaled data and convergence traces), with the entries they belong to',
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
       const es = await publicEntries(db, v.id);
@@ -32,7 +32,8 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
       const conds = [inArray(estimates.entryId, es.length ? es.map((e) => e.id) : ['00000000-0000-0000-0000-000000000000'])];
       if (obs) conds.push(like(estimates.targetKey, `%:${obs.replace(/[%_\\]/g, '\\$&')}`));
       if (steps !== null) conds.push(like(estimates.targetKey, `t${steps}-h%`));
-      const rows = await db.select({ entryId: estimates.entryId, target: estimates.targetKey, value: estimates.value, uncertainty: estimates.uncertainty, kind: estimates.kind, raw: estimates.raw })
+      const withRaw = req.query.raw !== '0';
+      const rows = await db.select({ entryId: estimates.entryId, target: estimates.targetKey, value: estimates.value, uncertainty: estimates.uncertainty, kind: estimates.kind, ...(withRaw ? { raw: estimates.raw } : {}) })
         .from(estimates).where(and(...conds)).orderBy(asc(estimates.targetKey)).limit(200_000);
       const sealed = await sealedTargetKeys(db, v.id, ctx.now());
       const baseline = new Set(es.filter((e) => e.isBaseline).map((e) => e.id));
@@ -79,14 +80,16 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
       }
       const st = vIds.length ? await db.select({ id: standings.id, versionId: standings.versionId, at: standings.computedAt, engine: standings.engineVersion }).from(standings).where(inArray(standings.versionId, vIds)).orderBy(desc(standings.computedAt)).limit(200) : [];
       for (const s of st) events.push({ at: s.at.toISOString(), kind: 'rescoring', version: vOf.get(s.versionId), summary: `Standings recomputed (${s.engine})`, details: { asOf: s.at.toISOString() } });
-      const entryIds = (await db.select({ id: entries.id }).from(entries).where(eq(entries.challengeSlug, c.slug))).map((e) => e.id);
+      const entryRows = await db.select({ id: entries.id, label: entries.label, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId)).where(eq(entries.challengeSlug, c.slug));
+      const entryIds = entryRows.map((e) => e.id);
+      const entryOf = new Map(entryRows.map((e) => [e.id, e]));
       const PUBLIC_ACTIONS = ['challenge.publish', 'entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide', 'target.dispute', 'target.undispute', 'references.seal', 'references.unseal', 'challenge.settings'];
       const audit = await db.select().from(auditLog).where(and(inArray(auditLog.action, PUBLIC_ACTIONS), or(and(eq(auditLog.subjectType, 'challenge'), eq(auditLog.subjectId, c.slug)), entryIds.length ? and(eq(auditLog.subjectType, 'entry'), inArray(auditLog.subjectId, entryIds)) : sql`false`)))
         .orderBy(desc(auditLog.at)).limit(300);
       for (const a of audit) {
         if (a.action === 'challenge.publish') continue; // shown as a version event
         const d = a.details as Record<string, unknown>;
-        events.push({ at: a.at.toISOString(), kind: a.action, summary: `${a.action.replace('.', ' ')}${d.reason ? `: ${d.reason}` : ''}${d.note ? `: ${d.note}` : ''}`, details: { subject: a.subjectId, ...(d.reason ? { reason: d.reason } : {}) } });
+        events.push({ at: a.at.toISOString(), kind: a.action, summary: `${a.action.replace('.', ' ')}${d.reason ? `: ${d.reason}` : ''}${d.note ? `: ${d.note}` : ''}`, details: { subject: a.subjectId, ...(a.subjectType === 'entry' && entryOf.has(a.subjectId) ? { label: entryOf.get(a.subjectId)!.label, teamName: entryOf.get(a.subjectId)!.teamName } : {}), ...(d.reason ? { reason: d.reason } : {}) } });
       }
       events.sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));
       return { challenge: c.slug, events };
