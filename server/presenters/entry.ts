@@ -5,8 +5,39 @@
  */
 import { and, asc, count, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
-import { auditLog, challengeVersions, entries, estimates, organization, targets } from '../db/schema';
+import { auditLog, challengeVersions, entries, estimates, organization, references, targets } from '../db/schema';
 import type { EntryDocument, EntryEstimate } from '../services/validate-entry';
+import { degreesOfEquivalence, scoreAgainstReference } from '@shared/scoring';
+import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+
+/** Reasons the public may read in an entry's history (returns and rejections are for the team). */
+const PUBLIC_REASON_ACTIONS = new Set(['entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide']);
+
+/**
+ * Scores of each estimate: against the exact reference where it is public (error, z, covered by
+ * +/- 2u), and the degree of equivalence with the consensus (d, U with k = 2; u^2(d) = u^2 + tau^2
+ * -/+ u^2(y) for an entry inside/outside the consensus) from the latest public standings.
+ */
+export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[], now: Date) {
+  const refs = await db.select({ key: targets.key, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil })
+    .from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, e.versionId));
+  const refOf = new Map(refs.filter((r) => r.value !== null && !(r.sealedUntil && r.sealedUntil > now)).map((r) => [r.key, { value: r.value as number, uncertainty: r.unc }]));
+  const st = await latestStandings(db, e.versionId);
+  const cons = new Map(((st?.payload as StandingsPayload | undefined)?.public.targets ?? []).map((t) => [t.key, t]));
+  const inStandings = e.state === 'published';
+  return ests.map((x) => {
+    const r = refOf.get(x.target);
+    const s = r ? scoreAgainstReference({ value: x.value, uncertainty: x.uncertainty }, r) : null;
+    const c = cons.get(x.target);
+    let doe: { d: number; U: number; included: boolean } | null = null;
+    if (c && c.value !== null && c.uncertainty !== null) {
+      const included = inStandings && !c.excluded.includes(e.id);
+      const [d] = degreesOfEquivalence([{ value: x.value, uncertainty: x.uncertainty }], { value: c.value, uncertainty: c.uncertainty, included: included ? [0] : [], tau2: c.tau2 ?? 0 });
+      doe = { d: d.d, U: d.U, included };
+    }
+    return { target: x.target, reference: r ? { error: s!.error, z: Number.isFinite(s!.z) ? s!.z : null, covered: s!.covered } : null, consensus: doe };
+  });
+}
 
 export type EntryRow = typeof entries.$inferSelect;
 
@@ -30,6 +61,7 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
   const lineage = e.lineageId
     ? await db.select({ id: entries.id, revision: entries.revision, state: entries.state, publishedAt: entries.publishedAt, supersedesId: entries.supersedesId }).from(entries).where(eq(entries.lineageId, e.lineageId)).orderBy(asc(entries.revision))
     : [];
+  const doc = opts.document ? await entryDocument(db, e) : undefined;
   const history = await db.select({ at: auditLog.at, action: auditLog.action, actor: auditLog.actorLabel, details: auditLog.details }).from(auditLog)
     .where(and(eq(auditLog.subjectType, 'entry'), eq(auditLog.subjectId, e.id))).orderBy(asc(auditLog.id));
   return {
@@ -44,9 +76,10 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
     revisions: lineage.filter((r) => opts.privileged || isPublicEntry({ state: r.state, publishedAt: r.publishedAt })),
     history: history.map((h) => ({
       at: h.at, action: h.action, actor: opts.privileged ? h.actor : undefined,
-      reason: (h.details as { reason?: string }).reason,
+      reason: opts.privileged || PUBLIC_REASON_ACTIONS.has(h.action) || (h.details as { decision?: string }).decision === 'publish' ? (h.details as { reason?: string }).reason : undefined,
       warnings: opts.privileged ? (h.details as { warnings?: unknown }).warnings : undefined,
     })),
-    document: opts.document ? await entryDocument(db, e) : undefined,
+    document: doc,
+    scores: doc ? await estimateScores(db, e, doc.estimates, new Date()) : undefined,
   };
 }

@@ -139,4 +139,20 @@ describe('standings and consensus', () => {
     expect(avg.body.mode).toBe('average-unverifiable');
     expect(avg.body.meanRatio.length).toBe(avg.body.entries.length);
   });
+
+  it('an entry page carries each estimate\'s scores: error and z against the reference, d and U against the consensus', async () => {
+    const r = await agent(t).get(`/api/entries/${ids.A}`);
+    expect(r.status).toBe(200);
+    const refs = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
+    const byKey = new Map(r.body.scores.map((x: any) => [x.target, x]));
+    const s0 = byKey.get(keys[0]) as any;
+    expect(s0.reference.error).toBeCloseTo(NUMBERS.A[0][0] - refs[0].reference.value, 12);
+    expect(s0.reference.z).toBeCloseTo((NUMBERS.A[0][0] - refs[0].reference.value) / NUMBERS.A[0][1], 9);
+    const s3 = byKey.get(keys[3]) as any;
+    expect(s3.reference).toBeNull();
+    const c = refs[3].consensus;
+    expect(s3.consensus.d).toBeCloseTo(NUMBERS.A[3][0] - c.value, 12);
+    // included entry: u^2(d) = u^2 + tau^2 - u^2(y) (SCORING.md, degrees of equivalence)
+    expect(s3.consensus.U).toBeCloseTo(2 * Math.sqrt(NUMBERS.A[3][1] ** 2 + c.tau2 - c.uncertainty ** 2), 12);
+  });
 });
