@@ -3,7 +3,7 @@ import { requireUser } from '@/lib/guards';
 import { queryClient } from '@/lib/query-client';
 import { formatRelative } from '@/lib/format';
 import { getChallengesQueryOptions, useChallenges } from '@/features/challenges/api/get-challenges';
-import { Badge, PageHeader, Panel, Spinner, Table, Td, Th } from '@/components/ui';
+import { Badge, PageHeader, Panel, Spinner } from '@/components/ui';
 import { ModerationNav } from '@/features/moderation/components/moderation-nav';
 import { AuthorChallenge } from '@/features/moderation/components/author-challenge';
 
@@ -24,22 +24,20 @@ export function Component() {
       <div className="space-y-6">
         <Panel title="Challenges" description="Settings, sealed references, disputes and curation, per challenge.">
           {q.isPending ? <Spinner /> : (
-            <Table>
-              <thead><tr><Th>Challenge</Th><Th>State</Th><Th num>Version</Th><Th num>Targets</Th><Th num>Exact</Th><Th num>Sealed</Th><Th>Last activity</Th></tr></thead>
-              <tbody>
-                {list.map((c) => (
-                  <tr key={c.slug}>
-                    <Td><Link to={`/moderation/challenges/${c.slug}`} className="font-medium">{c.title}</Link><span className="block font-mono text-xs text-ink-soft">{c.slug}</span></Td>
-                    <Td><Badge tone={c.state === 'open' ? 'ok' : 'neutral'}>{c.state}</Badge></Td>
-                    <Td num>{c.version ?? '—'}</Td>
-                    <Td num>{c.targets}</Td>
-                    <Td num>{c.exactTargets}</Td>
-                    <Td num>{c.sealedTargets}</Td>
-                    <Td className="whitespace-nowrap text-ink-soft">{formatRelative(c.lastActivity)}</Td>
-                  </tr>
-                ))}
-              </tbody>
-            </Table>
+            <ul className="divide-y divide-rule" data-testid="moderation-challenges">
+              {list.map((c) => (
+                <li key={c.slug} className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1 py-2.5">
+                  <span className="min-w-0">
+                    <Link to={`/moderation/challenges/${c.slug}`} className="font-medium">{c.title}</Link>{' '}
+                    <Badge tone={c.state === 'open' ? 'ok' : 'neutral'}>{c.state}</Badge>
+                    <span className="block font-mono text-xs text-ink-soft">{c.slug} v{c.version ?? '—'}</span>
+                  </span>
+                  <span className="num text-sm text-ink-soft">
+                    {c.targets} targets · {c.exactTargets} exact{c.sealedTargets > 0 && ` · ${c.sealedTargets} sealed`} · {formatRelative(c.lastActivity)}
+                  </span>
+                </li>
+              ))}
+            </ul>
           )}
         </Panel>
         <AuthorChallenge published={published} />

@@ -22,5 +22,6 @@ export interface QueueItem {
 export const getQueue = (signal?: AbortSignal) => api.get<{ count: number; entries: QueueItem[] }>('/moderation/queue', { signal });
 
 export const queueQueryKey = ['moderation', 'queue'] as const;
-export const getQueueQueryOptions = () => queryOptions({ queryKey: queueQueryKey, queryFn: ({ signal }) => getQueue(signal), refetchInterval: 30_000 });
+export const getQueueQueryOptions = () => // a moderator needs the queue as it is now: always fresh on visit, and refreshed every 30 s
+  queryOptions({ queryKey: queueQueryKey, queryFn: ({ signal }) => getQueue(signal), staleTime: 0, refetchInterval: 30_000 });
 export const useQueue = () => useQuery(getQueueQueryOptions());

@@ -3,7 +3,7 @@
  * the instance grid, the targets and the planner's report) → store the draft → publish (a
  * correction of a published challenge needs a reason) → follow the reference job's progress.
  */
-import { useMemo, useState } from 'react';
+import { Fragment, useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { formatHours, formatSig } from '@/lib/format';
@@ -114,21 +114,21 @@ function PreviewView({ p, spec }: { p: SpecPreview; spec: SpecShape | null }) {
       <div>
         <h3 className="text-sm font-semibold">Lattice <span className="font-normal text-ink-soft">({p.lattice.kind}, {p.lattice.qubits} qubits, {p.lattice.edges.length} couplings)</span></h3>
         <div className="mt-2 overflow-x-auto rounded border border-rule bg-paper p-2 text-ink">
-          <LatticeSvg coords={p.lattice.coords} edges={p.lattice.edges} className="mx-auto max-h-64 w-full" />
+          <LatticeSvg coords={p.lattice.coords} edges={p.lattice.edges} className="mx-auto max-h-72 w-full max-w-3xl" />
         </div>
       </div>
       <InstanceGrid plans={p.plans} spec={spec} />
       <div>
         <h3 className="text-sm font-semibold">The planner&rsquo;s report</h3>
         <p className="text-sm text-ink-soft">Which targets get an exact reference, by which method and at what estimated cost; which get none, and why.</p>
-        <Table className="mt-2" data-testid="plan-summary">
+        <div className="mt-2 max-w-lg"><Table data-testid="plan-summary">
           <thead><tr><Th>Method</Th><Th num>Targets</Th><Th num>Estimated time</Th></tr></thead>
           <tbody>
             {byMethod.map(([m, s]) => (
               <tr key={m}><Td>{m === 'none' ? <Badge tone="disputed">no exact reference</Badge> : <Badge tone="exact">{m}</Badge>}</Td><Td num>{s.n}</Td><Td num>{m === 'none' ? '—' : seconds(s.seconds)}</Td></tr>
             ))}
           </tbody>
-        </Table>
+        </Table></div>
         {reasons.length > 0 && (
           <ul className="mt-2 list-disc pl-5 text-sm">{reasons.map(([r, n]) => <li key={r}><span className="num">{n}</span> without: {r}</li>)}</ul>
         )}
@@ -181,10 +181,10 @@ function InstanceGrid({ plans, spec }: { plans: PlanRow[]; spec: SpecShape | nul
     <div>
       <h3 className="text-sm font-semibold">Instances <span className="font-normal text-ink-soft">({per.size}; each cell: targets with a planned exact reference / targets)</span></h3>
       {grid ? (
-        <Table className="mt-2" data-testid="instance-grid">
-          <thead><tr><Th>Steps \ θ<sub>h</sub></Th>{hs!.map((h) => <Th key={h} num>{formatSig(h, 4)}</Th>)}</tr></thead>
-          <tbody>{steps!.map((s) => <tr key={s}><Td className="num font-medium">{s}</Td>{hs!.map((h) => <span key={h} className="contents">{cell(find(s, h))}</span>)}</tr>)}</tbody>
-        </Table>
+        <div className="mt-2 max-w-lg"><Table data-testid="instance-grid">
+          <thead><tr><Th>Steps \ θ<sub>h</sub></Th>{hs!.map((h) => <Th key={h} num>{String(Number(h.toFixed(4)))}</Th>)}</tr></thead>
+          <tbody>{steps!.map((s) => <tr key={s}><Td className="num font-medium">{s}</Td>{hs!.map((h) => <Fragment key={h}>{cell(find(s, h))}</Fragment>)}</tr>)}</tbody>
+        </Table></div>
       ) : (
         <p className="mt-1 flex flex-wrap gap-1 text-xs">{keys.map((k) => <Badge key={k}>{k}: {per.get(k)!.exact}/{per.get(k)!.n}</Badge>)}</p>
       )}

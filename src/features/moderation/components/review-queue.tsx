@@ -3,12 +3,13 @@
  * selected one (?entry=) opens beside the list on a wide screen and below it on a phone, with the
  * checks in detail, the method as submitted and the decision form.
  */
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Link, useSearchParams } from 'react-router';
 import { formatDateTime, formatMeasurement, formatMetric, formatPercent, formatSig } from '@/lib/format';
 import { useEntry } from '@/features/entries/api/get-entry';
-import { Badge, EmptyState, ErrorState, FormMessage, Panel, Spinner, Table, Td, Th, TrackBadge, cx } from '@/components/ui';
+import { Badge, EmptyState, ErrorState, FormMessage, Panel, Spinner, TrackBadge, cx } from '@/components/ui';
 import { useQueue, type QueueItem } from '../api/get-queue';
+import { StatGrid } from '@/features/submit/components/stat-grid';
 import { CheckBadges } from './check-badges';
 import { DecisionForm } from './decision-form';
 
@@ -17,6 +18,11 @@ export function ReviewQueue() {
   const [search, setSearch] = useSearchParams();
   const selected = search.get('entry');
   const [notice, setNotice] = useState<{ tone: 'ok' | 'danger'; text: string } | null>(null);
+  const detail = useRef<HTMLDivElement>(null);
+  // on a narrow screen the detail is below the list: bring it into view when an entry is chosen
+  useEffect(() => {
+    if (selected && window.matchMedia('(max-width: 1023px)').matches) detail.current?.scrollIntoView({ block: 'start' });
+  }, [selected]);
   const select = (id: string | null) => setSearch((s) => { if (id) s.set('entry', id); else s.delete('entry'); return s; }, { replace: false });
 
   if (q.isPending) return <Spinner />;
@@ -51,7 +57,7 @@ export function ReviewQueue() {
               </li>
             ))}
           </ul>
-          <div className="min-w-0">
+          <div className="min-w-0 scroll-mt-20" ref={detail}>
             {item ? (
               <EntryReview
                 key={item.id}
@@ -84,17 +90,14 @@ function EntryReview({ item, onDecided, onConflict }: { item: QueueItem; onDecid
       >
         <div className="space-y-4">
           <CheckBadges item={item} />
-          <Table>
-            <thead><tr><Th>Coverage</Th><Th num>Scored</Th><Th num>RMSE</Th><Th num>Max |error|</Th><Th num>Mean z²</Th><Th num>Within 2u</Th></tr></thead>
-            <tbody><tr>
-              <Td className="num">{c.coverage.answered} of {c.coverage.targets}</Td>
-              <Td num>{c.scores.scored} of {c.scores.exactReferences}</Td>
-              <Td num>{formatMetric(c.scores.rmse)}</Td>
-              <Td num>{formatMetric(c.scores.maxAbsError)}</Td>
-              <Td num>{formatMetric(c.scores.meanZ2)}</Td>
-              <Td num>{formatPercent(c.scores.fractionCovered)}</Td>
-            </tr></tbody>
-          </Table>
+          <StatGrid testId="review-scores" items={[
+            ['Coverage', `${c.coverage.answered}/${c.coverage.targets}`],
+            ['Scored', `${c.scores.scored}/${c.scores.exactReferences}`],
+            ['RMSE', formatMetric(c.scores.rmse)],
+            ['Max |error|', formatMetric(c.scores.maxAbsError)],
+            ['Mean z²', formatMetric(c.scores.meanZ2)],
+            ['Within 2u', formatPercent(c.scores.fractionCovered)],
+          ]} />
           {c.schema.problems.length > 0 && (
             <CheckList title="Invalid estimates">{c.schema.problems.map((p) => <li key={p.target + p.message}><code className="text-xs">{p.target}</code> {p.message}</li>)}</CheckList>
           )}

@@ -1,6 +1,7 @@
 import { Table, Td, Th } from '@/components/ui';
 import { formatMeasurement, formatMetric, formatPercent, formatSig } from '@/lib/format';
 import type { ValidateResult } from '../api/validate-entry';
+import { StatGrid } from './stat-grid';
 
 /** The dry run's score preview: the sweep against the public exact references, and the first targets. */
 export function ScorePreview({ result }: { result: ValidateResult }) {
@@ -12,21 +13,14 @@ export function ScorePreview({ result }: { result: ValidateResult }) {
       <p className="text-sm text-ink-soft">
         Against the {s.exactReferences} public exact references of {result.challenge.slug} v{result.challenge.version}. Sealed references are not used; the final scores may differ.
       </p>
-      <Table>
-        <thead>
-          <tr><Th>Scored</Th><Th num>RMSE</Th><Th num>Max |error|</Th><Th num>Mean z²</Th><Th num>Within 2u</Th><Th num>Grid coverage</Th></tr>
-        </thead>
-        <tbody>
-          <tr>
-            <Td className="num">{v.scored} of {v.targets}</Td>
-            <Td num data-testid="preview-rmse">{formatMetric(v.rmse)}</Td>
-            <Td num>{formatMetric(v.maxAbsError)}</Td>
-            <Td num title="near 1 means honest error bars">{formatMetric(v.meanZ2)}</Td>
-            <Td num>{formatPercent(v.fractionCovered)}</Td>
-            <Td num>{formatPercent(result.coverage.fraction, 1)}</Td>
-          </tr>
-        </tbody>
-      </Table>
+      <StatGrid testId="preview" items={[
+        ['Scored', `${v.scored}/${v.targets}`],
+        ['RMSE', formatMetric(v.rmse)],
+        ['Max |error|', formatMetric(v.maxAbsError)],
+        ['Mean z²', formatMetric(v.meanZ2)],
+        ['Within 2u', formatPercent(v.fractionCovered)],
+        ['Coverage', formatPercent(result.coverage.fraction, 1)],
+      ]} />
       {shown.length > 0 && (
         <Table>
           <thead>

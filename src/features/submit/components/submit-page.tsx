@@ -14,7 +14,7 @@ import { Badge, Button, FormMessage, PageHeader, Panel, SelectField, cx } from '
 import { useValidateEntry, type ValidateResult } from '../api/validate-entry';
 import { useCreateEntry } from '../api/create-entry';
 import { useUpdateEntry } from '../api/update-entry';
-import { submitEntry } from '../api/entry-actions';
+import { useEntryAction } from '../api/entry-actions';
 import type { DocumentSource } from '../api/send-document';
 import { documentFromForm, EDITABLE_ROWS, emptyForm, formFromDocument, locate, type EntryForm, type EstimateRow, type Problem } from '../lib/entry-form';
 import { DropZone } from './drop-zone';
@@ -46,6 +46,7 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
   const check = useValidateEntry();
   const create = useCreateEntry();
   const update = useUpdateEntry();
+  const action = useEntryAction();
   const frozen = entryState !== null && !EDITABLE_STATES.includes(entryState);
   const tooLarge = form.estimates.length > EDITABLE_ROWS;
   const targetKeys = useMemo(() => targets.map((t) => t.key), [targets]);
@@ -193,7 +194,7 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
     try {
       const id = dirty || !entryId ? await save() : entryId;
       if (!id) return;
-      await submitEntry(id);
+      await action.mutateAsync({ action: 'submit', entryId: id, teamId });
       setDirty(false);
       navigate(`/my-entries?submitted=${id}`);
     } catch (e) {
