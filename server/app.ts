@@ -113,6 +113,10 @@ export async function createApp(deps: AppDeps) {
 
   // entry documents are read as raw text by their own routes (strict parsing: duplicate keys,
   // integers beyond 2^53, nesting depth); the global JSON parser skips exactly those paths
+  // PostgreSQL text cannot hold NUL: a %00 in a path parameter or query reached the database and
+  // came back as a 500 (found by tests/server/fuzz.test.ts); refuse it up front
+  app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
+    (/%00|\u0000/.test(req.originalUrl) ? next(new AppError('bad_request', 'The URL contains a NUL character (%00), which no Parallax name or id contains.')) : next()));
   const json = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
   app.use('/api', (req: Request, res: Response, next: NextFunction) => (takesEntryDocument(req.method, req.path) ? next() : json(req, res, next)));
   app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
@@ -167,6 +171,10 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     else if (err?.type === 'entity.parse.failed') e = new AppError('bad_request', `The request body is not valid JSON (${String(err.message).slice(0, 160)}). Send a JSON document with Content-Type: application/json.`);
     else if (err?.type === 'encoding.unsupported' || err?.type === 'charset.unsupported') e = new AppError('unsupported_media_type', 'Unsupported content encoding or charset; send UTF-8 JSON without compression.');
     else if (err?.type === 'request.aborted') e = new AppError('bad_request', 'The request was aborted by the client.');
+    // multer/busboy errors carry no HTTP status: a malformed multipart body on a route that reads
+    // uploads itself (POST /api/challenges) was a 500 (found by tests/server/fuzz.test.ts)
+    else if (err?.name === 'MulterError') e = err.code === 'LIMIT_FILE_SIZE' ? new AppError('payload_too_large', 'The uploaded file is larger than the limit.') : new AppError('bad_request', `The multipart upload was refused (${String(err.message).slice(0, 120)}).`);
+    else if (/^(Unexpected end of form|Malformed part header|Multipart: Boundary not found|Unexpected end of multipart data|Malformed urlencoded form)/.test(String(err?.message))) e = new AppError('bad_request', `The multipart body could not be read (${String(err.message).slice(0, 120)}).`);
     else if (typeof err?.status === 'number' && err.status >= 400 && err.status < 500) e = new AppError('bad_request', String(err.message ?? 'Bad request').slice(0, 200));
     else {
       log.error('unhandled', { id: req.requestId, path: req.path, error: String(err?.message ?? err), stack: String(err?.stack ?? '').split('\n').slice(0, 6).join(' | ') });
