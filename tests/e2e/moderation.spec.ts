@@ -180,13 +180,30 @@ describe('moderation in the browser', () => {
     expect(stored.document.method.settings.truncation).toBe(1e-9);
     expect(stored.document.resources.wallTimeSeconds).toBe(95);
 
+    // 7. two moderators at once: the admin decides a demo entry while the moderator has it open
+    await mod.goto('/moderation');
+    const demo = ((await (await mod.request.get('/api/moderation/queue')).json()) as { entries: { id: string }[] }).entries[0];
+    await mod.getByTestId(`queue-item-${demo.id}`).click();
+    await mod.getByTestId('decision-form').waitFor();
+    const admin = await browser.newContext({ baseURL: server.url });
+    contexts.push(admin);
+    const signedIn = await admin.request.post('/api/auth/sign-in/email', { data: { email: 'admin@parallax.test', password: DEMO_PASSWORD }, headers: origin });
+    expect(signedIn.ok()).toBe(true);
+    const first = await admin.request.post(`/api/entries/${demo.id}/decision`, { data: { decision: 'reject', reason: 'Identical values to a published entry.' }, headers: origin });
+    expect(first.ok(), await first.text()).toBe(true);
+    await mod.getByLabel('Reason').fill('Looks fine to me.');
+    await mod.getByRole('button', { name: 'Publish', exact: true }).click();
+    await mod.getByText(/already decided \(rejected by Ada Quist/).waitFor();
+    expect(await mod.getByTestId(`queue-item-${demo.id}`).count()).toBe(0);
+    await shots(mod, 'moderation-09-conflict');
+
     // the audit log lists both decisions
     await mod.goto(`/moderation/audit?subjectId=${entryId}`);
-    await mod.getByTestId('audit-table').getByText(`“${reason}”`).waitFor();
-    await shots(mod, 'moderation-09-audit');
+    await mod.getByTestId('audit-table').getByText(`return: “${reason}”`).waitFor();
+    await shots(mod, 'moderation-10-audit');
     await mod.goto(`/moderation/challenges/${SLUG}`);
     await mod.getByRole('heading', { name: 'Settings' }).waitFor();
     await mod.getByText(`Cobalt MPS ${stamp}`).waitFor();
-    await shots(mod, 'moderation-10-challenge-tools');
+    await shots(mod, 'moderation-11-challenge-tools');
   }, 420_000); // the reference job shares the worker with the demo's first minute of computing
 });

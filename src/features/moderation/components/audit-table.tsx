@@ -5,6 +5,8 @@ import { Button, ErrorState, Spinner, Table, Td, Th, inputClass } from '@/compon
 import { useAudit, type AuditFilters } from '../api/get-audit';
 
 const SUBJECTS = ['', 'entry', 'challenge', 'team', 'user', 'target'];
+/** uuids shortened to their first block; slugs kept whole */
+const short = (id: string) => (/^[0-9a-f]{8}-[0-9a-f-]{27}$/i.test(id) ? `${id.slice(0, 8)}…` : id);
 
 /** The audit log, newest first, filtered by subject, subject id and action; older pages by "before". */
 export function AuditTable() {
@@ -30,7 +32,7 @@ export function AuditTable() {
       </form>
       {q.isPending ? <Spinner /> : q.isError ? <ErrorState error={q.error} retry={() => q.refetch()} /> : (
         <>
-          <Table data-testid="audit-table">
+          <Table data-testid="audit-table" className="min-w-[46rem]">
             <thead><tr><Th>When</Th><Th>Who</Th><Th>Action</Th><Th>Subject</Th><Th>Details</Th></tr></thead>
             <tbody>
               {q.data.lines.map((l) => {
@@ -41,9 +43,9 @@ export function AuditTable() {
                     <Td className="num whitespace-nowrap">{formatDateTime(l.at)}</Td>
                     <Td>{l.actor ?? '—'}</Td>
                     <Td><button type="button" className="font-mono text-xs underline-offset-2 hover:underline" onClick={() => { setDraft({ ...draft, action: l.action }); setF({ ...f, action: l.action }); setPages([]); }}>{l.action}</button></Td>
-                    <Td className="text-xs">{l.subjectType} {href ? <Link to={href} className="font-mono break-all">{l.subjectId.slice(0, 24)}</Link> : <span className="font-mono break-all">{l.subjectId.slice(0, 24)}</span>}</Td>
+                    <Td className="text-xs">{l.subjectType} {href ? <Link to={href} title={l.subjectId} className="font-mono">{short(l.subjectId)}</Link> : <span title={l.subjectId} className="font-mono">{short(l.subjectId)}</span>}</Td>
                     <Td className="max-w-md text-xs">
-                      {d.reason && <span className="block">“{d.reason}”</span>}
+                      {(d.decision || d.reason) && <span className="block">{d.decision && <strong className="font-medium">{d.decision}: </strong>}{d.reason && `“${d.reason}”`}</span>}
                       <details><summary className="cursor-pointer text-ink-soft">JSON</summary><pre className="mt-1 max-w-md overflow-x-auto text-[11px]">{JSON.stringify(l.details, null, 1)}</pre></details>
                     </Td>
                   </tr>

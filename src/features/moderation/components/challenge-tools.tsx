@@ -56,7 +56,7 @@ export function SettingsForm({ c }: { c: ChallengeDetail }) {
           </SelectField>
           <fieldset>
             <legend className="text-sm font-medium">Tracks</legend>
-            <div className="mt-2 flex gap-4">
+            <div className="mt-2 flex flex-wrap gap-x-4 gap-y-2">
               {(['hardware', 'classical'] as const).map((t) => (
                 <label key={t} className="flex items-center gap-2 text-sm">
                   <input type="checkbox" checked={tracks.includes(t)} onChange={(e) => setTracks((ts) => (e.target.checked ? [...ts.filter((x) => x !== t), t].sort() : ts.filter((x) => x !== t)))} />
