@@ -28,6 +28,8 @@ export interface TestApp {
   config: Config;
   logs: string[];
   clock: { now: Date; advance(ms: number): void };
+  /** PostgreSQL only (TEST_DATABASE_URL): the URL of this app's own database */
+  databaseUrl?: string;
   close(): Promise<void>;
 }
 
@@ -36,16 +38,17 @@ let schemaCounter = 0;
 async function openTestDatabase(): Promise<Database> {
   const url = inject('databaseUrl');
   if (url) {
-    // one schema per test app on the real PostgreSQL server
+    // one database per test app on the real PostgreSQL server (a schema each is not enough: the
+    // migrations keep their bookkeeping in the schema "drizzle", which would be shared)
     const name = `t_${process.pid}_${Date.now()}_${schemaCounter++}`;
     const admin = await openDatabase({ databaseUrl: url });
-    await admin.db.execute(sql.raw(`create schema ${name}`));
+    await admin.db.execute(sql.raw(`create database ${name}`));
     await admin.close();
     const u = new URL(url);
-    u.searchParams.set('options', `-c search_path=${name}`);
+    u.pathname = `/${name}`;
     const database = await openDatabase({ databaseUrl: u.toString() });
     await applyMigrations(database);
-    return database;
+    return Object.assign(database, { url: u.toString() });
   }
   const blob = new Blob([readFileSync(inject('pgliteTemplate'))]);
   return openDatabase({ loadDataDir: blob });
@@ -72,7 +75,7 @@ export async function makeTestApp(overrides: Partial<Config> = {}): Promise<Test
   const clock = { now: new Date(), advance(ms: number) { this.now = new Date(this.now.getTime() + ms); } };
   const { app, ctx, routes } = await createApp({ database, mailer, config, log, now: () => clock.now, serveClient: false });
   return {
-    app, ctx, routes, database, config, logs, clock,
+    app, ctx, routes, database, config, logs, clock, databaseUrl: (database as Database & { url?: string }).url,
     async close() {
       mailer.close();
       await smtp.close();
