@@ -63,7 +63,7 @@ export function ReviewQueue() {
                 key={item.id}
                 item={item}
                 onDecided={(d) => { setNotice({ tone: 'ok', text: `${item.label}: ${d === 'publish' ? 'published' : d === 'return' ? 'returned to the team' : 'rejected'}.` }); select(null); }}
-                onConflict={(message) => { setNotice({ tone: 'danger', text: `${message.replace(/;?\s*reload the queue\.?$/i, '.')} The queue below is up to date.` }); select(null); }}
+                onConflict={(message) => { setNotice({ tone: 'danger', text: `${message.replace(/;?\s*reload the queue\.?$/i, '.').replace(/\d{4}-\d\d-\d\dT[\d:.]+Z/g, (iso) => formatDateTime(iso))} The queue below is up to date.` }); select(null); }}
               />
             ) : selected ? (
               <EmptyState title="This entry is no longer in review">It was decided or withdrawn meanwhile. <Link to={`/entries/${selected}`}>Open the entry</Link></EmptyState>

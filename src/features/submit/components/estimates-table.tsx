@@ -10,6 +10,11 @@ import { emptyRow, rowsFromTsv, UNCERTAINTY_KINDS, type EstimateRow, type Proble
 import { locate } from '../lib/entry-form';
 
 const features = tableFeatures({});
+/** on a phone each row is two lines: # target ×, then value, uncertainty, kind */
+const PHONE_CELL: Record<string, string> = {
+  n: 'max-sm:col-span-1', target: 'max-sm:col-span-5', remove: 'max-sm:order-1 max-sm:col-span-1 max-sm:justify-self-end',
+  value: 'max-sm:order-2 max-sm:col-span-2', uncertainty: 'max-sm:order-2 max-sm:col-span-2', kind: 'max-sm:order-2 max-sm:col-span-3',
+};
 const helper = createColumnHelper<typeof features, EstimateRow>();
 
 type Column = 'target' | 'value' | 'uncertainty' | 'kind';
@@ -36,7 +41,7 @@ const Cell = memo(function Cell({ index, row, column, error, targets, onChange }
   if (column === 'target') {
     const known = !row.target || targets.includes(row.target);
     control = (
-      <select {...common} value={row.target} onChange={(e) => onChange(index, column, e.target.value)} className={inputClass(Boolean(error), 'w-full min-w-48 pr-7 font-mono text-xs', true)}>
+      <select {...common} value={row.target} onChange={(e) => onChange(index, column, e.target.value)} className={inputClass(Boolean(error), 'w-full min-w-0 pr-7 font-mono text-xs sm:min-w-48', true)}>
         <option value="">choose a target…</option>
         {!known && <option value={row.target}>{row.target} (not a target)</option>}
         {targets.map((t) => <option key={t} value={t}>{t}</option>)}
@@ -44,7 +49,7 @@ const Cell = memo(function Cell({ index, row, column, error, targets, onChange }
     );
   } else if (column === 'kind') {
     control = (
-      <select {...common} value={row.kind} onChange={(e) => onChange(index, column, e.target.value)} className={inputClass(Boolean(error), 'w-full min-w-28 pr-7', true)}>
+      <select {...common} value={row.kind} onChange={(e) => onChange(index, column, e.target.value)} className={inputClass(Boolean(error), 'w-full min-w-0 pr-7 sm:min-w-28', true)}>
         {!UNCERTAINTY_KINDS.includes(row.kind) && <option value={row.kind}>{row.kind || '—'}</option>}
         {UNCERTAINTY_KINDS.map((k) => <option key={k} value={k}>{k}</option>)}
       </select>
@@ -55,9 +60,10 @@ const Cell = memo(function Cell({ index, row, column, error, targets, onChange }
         {...common}
         inputMode="decimal"
         autoComplete="off"
+        placeholder={column === 'value' ? 'value' : 'u (1σ)'}
         value={column === 'value' ? row.value : row.uncertainty}
         onChange={(e) => onChange(index, column, e.target.value)}
-        className={inputClass(Boolean(error), 'num w-full min-w-24 text-right', true)}
+        className={inputClass(Boolean(error), 'num w-full min-w-0 text-right sm:min-w-24', true)}
       />
     );
   }
@@ -132,8 +138,8 @@ export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
   return (
     <div className="space-y-2">
       <div className="relative -mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
-        <table className="w-full min-w-[40rem] border-collapse text-sm" data-testid="estimates-table">
-          <thead>
+        <table className="w-full border-collapse text-sm sm:min-w-[40rem]" data-testid="estimates-table">
+          <thead className="max-sm:sr-only">
             {table.getHeaderGroups().map((g) => (
               <tr key={g.id}>
                 {g.headers.map((h) => (
@@ -146,9 +152,9 @@ export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
           </thead>
           <tbody onPaste={onPaste}>
             {table.getRowModel().rows.map((r) => (
-              <tr key={r.id} className={cx(problems.get(r.index, 'row') && 'bg-danger-soft/40')}>
+              <tr key={r.id} className={cx('max-sm:grid max-sm:grid-cols-7 max-sm:gap-1.5 max-sm:border-b max-sm:border-rule max-sm:py-2', problems.get(r.index, 'row') && 'bg-danger-soft/40')}>
                 {r.getAllCells().map((c) => (
-                  <td key={c.id} className={cx('border-b border-rule px-1.5 py-1.5 align-top first:pl-0', c.column.id === 'n' && 'w-8 pt-3', c.column.id === 'remove' && 'w-8')}>
+                  <td key={c.id} className={cx('px-1.5 align-top first:pl-0 sm:border-b sm:border-rule sm:py-1.5 max-sm:px-0', PHONE_CELL[c.column.id], c.column.id === 'n' && 'w-8 pt-2 sm:pt-3', c.column.id === 'remove' && 'w-8')}>
                     <table.FlexRender cell={c} />
                   </td>
                 ))}
