@@ -54,7 +54,7 @@ export function SettingsForm({ c }: { c: ChallengeDetail }) {
             {!s.primaryMetric && <option value="">(default)</option>}
             {PRIMARY_METRICS.map((x) => <option key={x} value={x}>{x}</option>)}
           </SelectField>
-          <fieldset>
+          <fieldset className="min-w-0">
             <legend className="text-sm font-medium">Tracks</legend>
             <div className="mt-2 flex flex-wrap gap-x-4 gap-y-2">
               {(['hardware', 'classical'] as const).map((t) => (

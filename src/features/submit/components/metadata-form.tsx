@@ -39,7 +39,7 @@ export function MetadataForm({ form, set, errorFor }: { form: EntryForm; set: (p
         </At>
       </div>
 
-      <fieldset id="f-settings" className="space-y-2">
+      <fieldset id="f-settings" className="min-w-0 space-y-2">
         <legend className="text-sm font-medium">Method settings</legend>
         <p className="text-sm text-ink-soft">Bond dimension, truncation threshold, noise-scale factors, shots… Numbers and true/false are stored as such; a list as [1, 3, 5].</p>
         {form.settings.map((s, i) => {
@@ -48,7 +48,7 @@ export function MetadataForm({ form, set, errorFor }: { form: EntryForm; set: (p
           return (
             <div key={s.id} id={`f-settings-${s.key.trim().replace(/[^a-zA-Z0-9-]/g, '-')}`}>
               <div className="flex gap-2">
-                <input aria-label={`Setting ${i + 1} name`} placeholder="name" value={s.key} onChange={(e) => update({ key: e.target.value })} className={inputClass(Boolean(err), 'w-40 font-mono sm:w-56', true)} />
+                <input aria-label={`Setting ${i + 1} name`} placeholder="name" value={s.key} onChange={(e) => update({ key: e.target.value })} className={inputClass(Boolean(err), 'w-32 font-mono sm:w-56', true)} />
                 <input aria-label={`Setting ${i + 1} value`} placeholder="value" value={s.value} onChange={(e) => update({ value: e.target.value })} className={inputClass(Boolean(err), 'min-w-0 flex-1 font-mono', true)} />
                 <Button size="sm" variant="ghost" aria-label={`Remove setting ${i + 1}`} onClick={() => set({ settings: form.settings.filter((_, j) => j !== i) })}>Remove</Button>
               </div>
@@ -60,7 +60,7 @@ export function MetadataForm({ form, set, errorFor }: { form: EntryForm; set: (p
         <Button size="sm" variant="secondary" disabled={form.settings.length >= LIMITS.settings} onClick={() => set({ settings: [...form.settings, { id: rowId(), key: '', value: '' }] })}>Add a setting</Button>
       </fieldset>
 
-      <fieldset className="space-y-2">
+      <fieldset className="min-w-0 space-y-2">
         <legend className="text-sm font-medium">Resources</legend>
         <div className="grid grid-cols-2 gap-3 sm:grid-cols-3">
           {RESOURCE_FIELDS.map((r) => (
@@ -79,7 +79,7 @@ export function MetadataForm({ form, set, errorFor }: { form: EntryForm; set: (p
         </div>
       </fieldset>
 
-      <fieldset className="space-y-2">
+      <fieldset className="min-w-0 space-y-2">
         <legend className="text-sm font-medium">Links and licence</legend>
         <div className="grid gap-3 sm:grid-cols-2">
           {LINK_FIELDS.map((k) => (
