@@ -30,7 +30,7 @@ function multipart(content: Buffer, boundary = 'pxboundary') {
   ]);
 }
 const upload = (body: Buffer, contentType = 'multipart/form-data; boundary=pxboundary') =>
-  fetch(`${s.url}/api/challenges/chain-12/entries`, { method: 'POST', headers: { 'x-api-key': world.keyA, 'content-type': contentType }, body });
+  fetch(`${s.url}/api/challenges/chain-12/entries`, { method: 'POST', headers: { 'x-api-key': world.keyA, 'content-type': contentType }, body: new Uint8Array(body) });
 /** a valid entry document padded with spaces to exactly n bytes */
 const docOfSize = (n: number, label: string) => { const d = JSON.stringify(entryDoc(world, label)); return Buffer.concat([Buffer.from(d), Buffer.alloc(n - Buffer.byteLength(d), 0x20)]); };
 
