@@ -33,22 +33,24 @@ describe('review queue and decisions', () => {
   let good = '';
   let odd = '';
   it('lists entries in review with their automatic checks', async () => {
-    good = await submitted('exact sweep');
+    // values a little off the exact ones (agreeing on an exact value is not evidence of copying)
+    const offset = (d: ReturnType<typeof fullSweep>) => ({ ...d, estimates: d.estimates.map((e: { value: number }) => ({ ...e, value: e.value * 0.99 + 0.001 })) });
+    good = await submitted('exact sweep', offset);
     // a partial, partly out-of-bounds and partly copied sweep
-    odd = await submitted('odd sweep', (d) => ({ ...d, estimates: d.estimates.slice(0, 20).map((e: { value: number; uncertainty: number }, i: number) => (i === 0 ? { ...e, value: Math.sign(e.value || 1) * 1.02, uncertainty: 0.01 } : i === 1 ? { ...e, value: e.value + 0.5 } : e)) }));
+    odd = await submitted('odd sweep', (d) => ({ ...d, estimates: offset(d).estimates.slice(0, 20).map((e: { value: number; uncertainty: number }, i: number) => (i === 0 ? { ...e, value: Math.sign(e.value || 1) * 1.02, uncertainty: 0.01 } : i === 1 ? { ...e, value: e.value + 0.5 } : e)) }));
     const r = await w.mod.get('/api/moderation/queue');
     expect(r.status, r.text).toBe(200);
     const g = r.body.entries.find((e: { id: string }) => e.id === good);
     const o = r.body.entries.find((e: { id: string }) => e.id === odd);
     expect(g.checks.schema.ok).toBe(true);
     expect(g.checks.coverage).toEqual({ targets: 60, answered: 60, fraction: 1, partial: false });
-    expect(g.checks.scores.rmse).toBeLessThan(1e-9);
+    expect(g.checks.scores.rmse).toBeLessThan(0.02);
     expect(g.checks.scores.fractionCovered).toBe(1);
     expect(g.checks.bounds.count).toBe(0);
     expect(o.flags).toEqual(expect.arrayContaining(['partial-sweep', 'outside-bounds', 'identical-to-another-entry']));
     expect(o.checks.coverage).toMatchObject({ answered: 20, partial: true });
     expect(o.checks.bounds.targets[0]).toMatchObject({ bound: expect.closeTo(1, 12), beyondThreeSigma: false });
-    // 18 values equal to the other entry's (and to the exact house baseline's)
+    // 18 values equal to the other entry's
     expect(o.checks.identical.find((x: { entryId: string }) => x.entryId === good).targets).toBe(18);
     expect(o.checks.scores.rmse).toBeGreaterThan(0.1);
     // outliers: against the consensus of the published entries (the house baseline here)
