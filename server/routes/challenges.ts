@@ -14,7 +14,7 @@ import type { AppContext } from '../app';
 import type { Db } from '../db/client';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
 import { badRequest, notFound } from '../errors';
-import { createChallengeVersion, validateSpecOrThrow } from '../services/create-challenge-version';
+import { createChallengeVersion, instanceShapes, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { parseBody } from '../validate';
 import { standingsCache } from '../services/standings-cache';
@@ -179,6 +179,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
       const graph = buildLattice(ch.spec.lattice);
       return {
         id: ch.spec.id, version: ch.spec.version, checksum: ch.checksum, qubits: ch.nQubits, instances: ch.instances.length, targets: ch.targets.length,
+        instanceList: instanceShapes(ch).map((x) => ({ id: x.key, params: x.params, qubits: x.qubits, gateCount: x.gateCount, depth: x.depth })),
         lattice: { kind: ch.spec.lattice.kind, qubits: graph.n, edges: graph.edges, coords: graph.coords },
         plans: plans.map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone })),
       };
