@@ -15,7 +15,7 @@ const url = inject('databaseUrl');
 const KIND = 'test-record' as JobKind;
 const JOBS = 200;
 
-describe.skipIf(!url)('two workers on one PostgreSQL queue (skipped: set TEST_DATABASE_URL, e.g. bash scripts/pg-test.sh)', () => {
+describe.skipIf(!url)(url ? 'two workers on one PostgreSQL queue' : 'two workers on one PostgreSQL queue (skipped: needs TEST_DATABASE_URL; run bash scripts/pg-test.sh)', () => {
   it(`${JOBS} jobs, two workers on two pools: every job done exactly once`, async () => {
     const t = await makeTestApp();
     const other = await openDatabase({ databaseUrl: t.databaseUrl! });
