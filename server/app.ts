@@ -116,7 +116,7 @@ export async function createApp(deps: AppDeps) {
   // PostgreSQL text cannot hold NUL: a %00 in a path parameter or query reached the database and
   // came back as a 500 (found by tests/server/fuzz.test.ts); refuse it up front
   app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
-    (/%00|\u0000/.test(req.originalUrl) ? next(new AppError('bad_request', 'The URL contains a NUL character (%00), which no Parallax name or id contains.')) : next()));
+    (req.originalUrl.includes('%00') || req.originalUrl.includes('\u0000') ? next(new AppError('bad_request', 'The URL contains a NUL character (%00), which no Parallax name or id contains.')) : next()));
   const json = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
   app.use('/api', (req: Request, res: Response, next: NextFunction) => (takesEntryDocument(req.method, req.path) ? next() : json(req, res, next)));
   app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
