@@ -14,7 +14,8 @@ import net from 'node:net';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createHash } from 'node:crypto';
-import { sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
+import { apikey } from '../../server/db/schema';
 import { openDatabase, type Database } from '../../server/db/client';
 import { applyMigrations } from '../../server/db/migrate';
 import { createApp } from '../../server/app';
@@ -140,6 +141,9 @@ export async function prepareWorld(dataDir: string): Promise<World> {
     const teamA = (await lead.post('/api/auth/organization/create', { name: 'Team A', slug: 'team-a' })).body.id as string;
     const k = await lead.post(`/api/teams/${teamA}/api-keys`, { name: 'sweep script' });
     if (k.status !== 201) throw new Error(`api key ${k.status} ${k.text}`);
+    // the kill -9 loop writes far more than a key's hourly quota (1,000) in CI's 50 cycles: this test
+    // key gets a larger one (the quota itself is tested in abuse.test.ts)
+    await t.database.db.update(apikey).set({ rateLimitMax: 1_000_000 }).where(eq(apikey.id, k.body.id));
     const targets = (await mod.get('/api/challenges/chain-12/targets')).body.targets;
     return { keyA: k.body.key, teamA, checksum: pub.body.checksum, targets };
   } finally {
