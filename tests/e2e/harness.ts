@@ -27,7 +27,18 @@ export async function freePort(): Promise<number> {
 
 export interface RunningServer { url: string; dataDir: string; output: () => string; stop(): Promise<void> }
 
+/** A real server on a fresh data directory; retried on a new port if the chosen one was taken meanwhile. */
 export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await startServerOnce(env);
+    } catch (e) {
+      if (attempt >= 5 || !String((e as Error).message).includes('EADDRINUSE')) throw e;
+    }
+  }
+}
+
+async function startServerOnce(env: Record<string, string>): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = mkdtempSync(path.join(os.tmpdir(), 'parallax-e2e-'));
   const url = `http://127.0.0.1:${port}`;

@@ -58,8 +58,21 @@ export interface ChildServer {
   rss(): number;
 }
 
-/** Starts `server/index.ts` on dataDir and waits until it listens. */
+/**
+ * Starts `server/index.ts` on dataDir and waits until it listens. A free port can be taken by another
+ * test process between choosing it and listening: on EADDRINUSE the start is retried on a new port.
+ */
 export async function spawnServer(dataDir: string, env: Record<string, string> = {}): Promise<ChildServer> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await spawnServerOnce(dataDir, env);
+    } catch (e) {
+      if (attempt >= 5 || !String((e as Error).message).includes('EADDRINUSE')) throw e;
+    }
+  }
+}
+
+async function spawnServerOnce(dataDir: string, env: Record<string, string>): Promise<ChildServer> {
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   const t0 = performance.now();
