@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -25,15 +25,6 @@ async function newPage(viewport = DESKTOP): Promise<Page> {
   return page;
 }
 
-/** a full-page screenshot at desktop and at phone width, back to the page's own width after */
-async function shots(page: Page, name: string): Promise<void> {
-  const own = page.viewportSize() ?? DESKTOP;
-  await page.setViewportSize(DESKTOP);
-  await shot(page, `${name}-desktop`);
-  await page.setViewportSize(PHONE);
-  await shot(page, `${name}-phone`);
-  await page.setViewportSize(own);
-}
 
 async function signUp(page: Page, who: typeof alice, path = '/sign-up'): Promise<void> {
   await page.goto(path);

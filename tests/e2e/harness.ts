@@ -88,3 +88,13 @@ export async function shot(page: Page, name: string): Promise<void> {
   mkdirSync(SHOTS, { recursive: true });
   await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
 }
+
+/** A full-page screenshot at desktop and at phone width, then back to the page's own width. */
+export async function shots(page: Page, name: string): Promise<void> {
+  const own = page.viewportSize() ?? DESKTOP;
+  await page.setViewportSize(DESKTOP);
+  await shot(page, `${name}-desktop`);
+  await page.setViewportSize(PHONE);
+  await shot(page, `${name}-phone`);
+  await page.setViewportSize(own);
+}

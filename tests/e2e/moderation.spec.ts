@@ -6,7 +6,7 @@
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -34,14 +34,6 @@ async function newPage(viewport = DESKTOP): Promise<Page> {
   return page;
 }
 
-async function shots(page: Page, name: string): Promise<void> {
-  const own = page.viewportSize() ?? DESKTOP;
-  await page.setViewportSize(DESKTOP);
-  await shot(page, `${name}-desktop`);
-  await page.setViewportSize(PHONE);
-  await shot(page, `${name}-phone`);
-  await page.setViewportSize(own);
-}
 
 async function signIn(page: Page, email: string): Promise<void> {
   await page.goto('/sign-in');

@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, startServer, type RunningServer, shots } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -21,14 +21,6 @@ async function newPage(viewport = DESKTOP): Promise<Page> {
   return page;
 }
 
-async function shots(page: Page, name: string): Promise<void> {
-  const own = page.viewportSize() ?? DESKTOP;
-  await page.setViewportSize(DESKTOP);
-  await shot(page, `${name}-desktop`);
-  await page.setViewportSize(PHONE);
-  await shot(page, `${name}-phone`);
-  await page.setViewportSize(own);
-}
 
 async function getJson<T>(path: string): Promise<T> {
   const r = await fetch(server.url + path);
