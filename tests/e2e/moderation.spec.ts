@@ -133,7 +133,7 @@ describe('moderation in the browser', () => {
     await shots(mod, 'moderation-05-review');
     await mod.getByRole('button', { name: 'Return to the team' }).click();
     await mod.getByText(/returned to the team/).waitFor();
-    expect(await mod.getByTestId(`queue-item-${entryId}`).count()).toBe(0);
+    await expect.poll(() => mod.getByTestId(`queue-item-${entryId}`).count()).toBe(0);
 
     // 4. the lead sees the reason on My entries, opens the entry, and resubmits
     await lead.goto('/my-entries');
@@ -186,7 +186,7 @@ describe('moderation in the browser', () => {
     await mod.getByLabel('Reason').fill('Looks fine to me.');
     await mod.getByRole('button', { name: 'Publish', exact: true }).click();
     await mod.getByText(/already decided \(rejected by Ada Quist/).waitFor();
-    expect(await mod.getByTestId(`queue-item-${demo.id}`).count()).toBe(0);
+    await expect.poll(() => mod.getByTestId(`queue-item-${demo.id}`).count()).toBe(0);
     await shots(mod, 'moderation-09-conflict');
 
     // the audit log lists both decisions
