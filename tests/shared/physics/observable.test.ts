@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import {
   coefficientBound,
   countXY,
@@ -66,6 +67,37 @@ describe('parsePauli', () => {
       'at character 4: qubit 3 appears twice (first at character 1); multiply the factors out, one per qubit',
     );
     expect(err('Z3Z3').position).toBe(2);
+  });
+
+  it('property: every rejected string gets a message that names the character position (1-based) of the problem', () => {
+    // common practice: error messages point at the offending character; the grammar is in observable.ts
+    const alphabet = fc.constantFrom(...'XYZIxyz0123456789 ,-.\t'.split(''));
+    fc.assert(
+      fc.property(fc.array(alphabet, { maxLength: 14, size: 'max' }).map((cs) => cs.join('')), fc.integer({ min: 1, max: 60 }), (s, n) => {
+        let factors;
+        try {
+          factors = parsePauli(s, n);
+        } catch (e) {
+          expect(e).toBeInstanceOf(PauliParseError);
+          const pe = e as PauliParseError;
+          if (s.trim() === '') {
+            expect(pe.message).toMatch(/^empty Pauli string/);
+            return;
+          }
+          expect(pe.position).toBeGreaterThanOrEqual(0);
+          expect(pe.position).toBeLessThanOrEqual(s.length);
+          expect(pe.message.startsWith(`at character ${pe.position + 1}: `)).toBe(true);
+          const unexpected = /^at character \d+: unexpected "(.)"/s.exec(pe.message);
+          if (unexpected) expect(s[pe.position]).toBe(unexpected[1]);
+          return;
+        }
+        // accepted: only the grammar's characters, and the canonical text parses to the same factors
+        expect(/^[XYZI0-9 ]*$/.test(s)).toBe(true);
+        expect(parsePauli(formatPauli(factors), n)).toEqual(factors);
+        for (const f of factors) expect(f.qubit).toBeLessThan(n);
+      }),
+      { seed: 2718, numRuns: 2000 },
+    );
   });
 
   it('formatPauli round-trips', () => {
