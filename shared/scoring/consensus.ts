@@ -120,8 +120,7 @@ export function consensus(estimates: readonly Measurement[], estimator: Consensu
       if (re.included.length === 0) {
         return { ...consensus(estimates, 'weighted-mean', options), estimator, tau2: 0 };
       }
-      const chi2 = chi2About(estimates, re.included, re.mu, re.tau2);
-      const test = consistencyTest(chi2, re.included.length - 1, alpha);
+      const test = consistencyTest(re.residualChi2, re.included.length - 1, alpha);
       return {
         estimator,
         value: re.mu,

@@ -9,6 +9,13 @@
  * - included: u^2(d_i) = u_i^2 + tau^2 - u^2(mu);  excluded: u_i^2 + tau^2 + u^2(mu).
  * For the median, u(d_i) is the Monte Carlo standard deviation of x_i - median (Cox procedure B),
  * which carries the correlation. u(y) is the unscaled consensus uncertainty.
+ * Numerics: when u(y) is the weighted-mean uncertainty of the included results (u^2(y) sum w = 1
+ * with w_j = 1/(u_j^2 + tau^2), as for the weighted mean, LCS and random effects), the included
+ * u^2(d_i) = (u_i^2 + tau^2) - u^2(y) is formed as (u_i^2 + tau^2) (sum_{j != i} w_j)/(sum w),
+ * which has no cancellation when result i dominates the mean (u_i = 1e-12 beside u = 0.01);
+ * squares are taken relative to the largest of u_i, u(y), tau so that tiny uncertainties do not
+ * underflow; d_i of an included result is then sum_{j != i} w_j (x_i - x_j)/(sum w), which equals
+ * x_i - y but resolves a dominant result's offset below the rounding of y.
  * Pairwise: d_ij = x_i - x_j, u^2 = u_i^2 + u_j^2, U = k u.
  */
 import type { ConsensusResult } from './consensus';
@@ -27,16 +34,62 @@ type ConsensusLike = Pick<ConsensusResult, 'value' | 'uncertainty' | 'included'>
 export function degreesOfEquivalence(estimates: readonly Measurement[], c: ConsensusLike, k = 2): DegreeOfEquivalence[] {
   const inc = new Set(c.included);
   const tau2 = c.tau2 ?? 0;
-  const uy2 = c.uncertainty * c.uncertainty;
+  const tau = Math.sqrt(tau2);
+  const uy = c.uncertainty;
+  // weights relative to the smallest sqrt(u_j^2 + tau^2) among the included results
+  const incList = c.included.filter((i) => i >= 0 && i < estimates.length && estimates[i].uncertainty > 0);
+  const sd = (i: number) => {
+    const u = estimates[i].uncertainty;
+    const m = Math.max(u, tau);
+    return m === 0 ? 0 : m * Math.sqrt((u / m) * (u / m) + (tau / m) * (tau / m));
+  };
+  let s0 = Infinity;
+  for (const i of incList) s0 = Math.min(s0, sd(i));
+  // relative weight of each included result, and the sum of the others' weights (prefix + suffix,
+  // not sum - w_i)
+  const wRel = new Map<number, number>();
+  const othersOf = new Map<number, number>();
+  const ws = incList.map((i) => (s0 / sd(i)) ** 2);
+  let sw = 0;
+  for (let a = 0; a < ws.length; a++) {
+    othersOf.set(incList[a], sw);
+    wRel.set(incList[a], ws[a]);
+    sw += ws[a];
+  }
+  let suffix = 0;
+  for (let a = ws.length - 1; a >= 0; a--) {
+    othersOf.set(incList[a], (othersOf.get(incList[a]) as number) + suffix);
+    suffix += ws[a];
+  }
+  // is the consensus the weighted mean of the included results (u(y) = s0/sqrt(sum w))?
+  const isWeightedMean = incList.length === c.included.length && incList.length > 0 && Math.abs((uy / s0) * (uy / s0) * sw - 1) <= 1e-9;
   return estimates.map((m, i) => {
     const included = inc.has(i);
-    const d = m.value - c.value;
+    let d = m.value - c.value;
+    if (included && isWeightedMean && wRel.has(i) && incList.length <= 5000) {
+      // d_i = sum_{j != i} w_j (x_i - x_j) / sum w: resolves a dominant result's d below the
+      // rounding of y itself (y = x_i + 3e-21 rounds to x_i)
+      let sd_ = 0;
+      for (const j of incList) if (j !== i) sd_ += (wRel.get(j) as number) * (m.value - estimates[j].value);
+      d = sd_ / sw;
+    }
     let u: number;
     const mc = c.doeUncertainties?.[i];
     if (mc !== undefined && !Number.isNaN(mc)) u = mc;
-    else {
-      const ui2 = m.uncertainty * m.uncertainty + tau2;
-      u = Math.sqrt(Math.max(0, included ? ui2 - uy2 : ui2 + uy2));
+    else if (included && isWeightedMean && wRel.has(i)) {
+      // (u_i^2 + tau^2)(1 - w_i/sum w), with 1 - w_i/sum w = (sum of the other weights)/sum w
+      const wi = wRel.get(i) as number;
+      const others = othersOf.get(i) as number;
+      u = sd(i) * Math.sqrt(others / (others + wi));
+    } else {
+      const si = sd(i);
+      const sc = Math.max(si, uy);
+      if (!(sc > 0)) u = 0;
+      else {
+        const a = si / sc;
+        const b = uy / sc;
+        u = sc * Math.sqrt(Math.max(0, included ? a * a - b * b : a * a + b * b));
+      }
     }
     return { index: i, d, u, U: k * u, included };
   });

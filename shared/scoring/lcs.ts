@@ -5,10 +5,17 @@
  * (about its own weighted mean); accept the first that passes.
  *
  * Tractability: for N <= exhaustiveLimit (default 20) every subset of the dropped count is
- * examined (at most 2^N subsets in all, O(1) each from running sums of centred values).
+ * examined (at most 2^N subsets in all): the kept subsets are enumerated depth-first with weighted
+ * Welford updates (W += w, m += w (x - m)/W, chi2 += w (x - m)^2 W_old/W), which add only
+ * non-negative terms, so a subset's chi2 carries no cancellation from the other results however
+ * far they lie (two exact methods that disagree by 1e-3 at u = 1e-12 give chi2 ~ 1e18 for the
+ * full set and still chi2 ~ 1 for the consistent part); chi2 only grows as results are added, so
+ * branches already worse than the best are cut.
  * Above that a greedy fallback is used: drop, one at a time, the result whose removal gives the
- * smallest chi2, until the remainder passes. The greedy path is not guaranteed to find the
- * minimum-chi2 subset of each size; `method` says which path was taken.
+ * smallest chi2 (the largest decrease w_k e_k^2 W/(W - w_k) about the current mean), until the
+ * remainder passes; the remainder's chi2 is recomputed in two passes after every drop. The greedy
+ * path is not guaranteed to find the minimum-chi2 subset of each size; `method` says which path was
+ * taken. Weights are relative to the smallest uncertainty, (u_min/u_i)^2, as in weighted-mean.ts.
  * Ties between subsets of equal chi2 go to the lexicographically first set of dropped indices.
  */
 import { DEFAULT_ALPHA, consistencyTest, partitionByUncertainty, weightedMean, type WeightedMeanResult } from './weighted-mean';
@@ -43,81 +50,115 @@ export function largestConsistentSubset(xs: readonly Measurement[], options: Lcs
   if (full.test.consistent || n <= 1) {
     return { mean: full, subset: full.included, dropped: [], fullTest: full.test, method: 'none-needed' };
   }
+  // unit scale: weights (u_min/u_i)^2 <= 1, values (x_i - c)/u_min, so chi2 = sum w (z - m)^2
+  let u0 = Infinity;
+  for (const i of usable) u0 = Math.min(u0, xs[i].uncertainty);
   const c = full.value;
   const w = new Float64Array(n);
-  const wx = new Float64Array(n);
-  const wxx = new Float64Array(n);
-  let Sw = 0;
-  let Sx = 0;
-  let Sxx = 0;
+  const z = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const m = xs[usable[k]];
-    const e = m.value - c;
-    w[k] = 1 / (m.uncertainty * m.uncertainty);
-    wx[k] = w[k] * e;
-    wxx[k] = w[k] * e * e;
-    Sw += w[k];
-    Sx += wx[k];
-    Sxx += wxx[k];
+    const r = u0 / m.uncertainty;
+    w[k] = r * r;
+    z[k] = (m.value - c) / u0;
   }
-  const chi2Of = (dw: number, dx: number, dxx: number) => {
-    const sw = Sw - dw;
-    const sx = Sx - dx;
-    return Math.max(0, Sxx - dxx - (sx * sx) / sw);
-  };
   const passes = (chi2: number, size: number) => size <= 1 || chiSquaredSurvival(chi2, size - 1) >= alpha;
 
   let dropped: number[] = [];
   let method: LcsResult['method'] = 'exhaustive';
   if (n <= limit) {
+    // Welford state after `depth` kept results
+    const W = new Float64Array(n + 1);
+    const M = new Float64Array(n + 1);
+    const Q = new Float64Array(n + 1);
+    const combo = new Int32Array(n);
+    const droppedOf = (keep: ArrayLike<number>, size: number): number[] => {
+      const out: number[] = [];
+      let j = 0;
+      for (let k = 0; k < n; k++) {
+        if (j < size && keep[j] === k) j++;
+        else out.push(k);
+      }
+      return out;
+    };
+    const lexLess = (a: readonly number[], b: readonly number[]) => {
+      for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i] < b[i];
+      return false;
+    };
     for (let r = 1; r < n; r++) {
+      const size = n - r;
       let best = Infinity;
-      let bestSet: number[] = [];
-      const combo: number[] = [];
-      const rec = (start: number, dw: number, dx: number, dxx: number) => {
-        if (combo.length === r) {
-          const v = chi2Of(dw, dx, dxx);
+      let bestDrop: number[] | null = null;
+      const rec = (start: number, depth: number): void => {
+        if (depth === size) {
+          const v = Q[size];
           if (v < best) {
             best = v;
-            bestSet = combo.slice();
+            bestDrop = droppedOf(combo, size);
+          } else if (v === best && bestDrop) {
+            const d = droppedOf(combo, size);
+            if (lexLess(d, bestDrop)) bestDrop = d;
           }
           return;
         }
-        const need = r - combo.length;
-        for (let k = start; k <= n - need; k++) {
-          combo.push(k);
-          rec(k + 1, dw + w[k], dx + wx[k], dxx + wxx[k]);
-          combo.pop();
+        const W0 = W[depth];
+        const M0 = M[depth];
+        const Q0 = Q[depth];
+        for (let k = start; k <= n - (size - depth); k++) {
+          const W1 = W0 + w[k];
+          const d = z[k] - M0;
+          const q = W1 > 0 ? Q0 + w[k] * d * d * (W0 / W1) : Q0;
+          if (q > best) continue; // chi2 never decreases as results are added
+          W[depth + 1] = W1;
+          M[depth + 1] = W1 > 0 ? M0 + d * (w[k] / W1) : M0;
+          Q[depth + 1] = q;
+          combo[depth] = k;
+          rec(k + 1, depth + 1);
         }
       };
-      rec(0, 0, 0, 0);
-      if (passes(best, n - r)) {
-        dropped = bestSet;
+      rec(0, 0);
+      if (bestDrop && passes(best, size)) {
+        dropped = bestDrop;
         break;
       }
     }
   } else {
     method = 'greedy';
     const out = new Uint8Array(n);
-    let dw = 0;
-    let dx = 0;
-    let dxx = 0;
     let size = n;
-    while (size > 1 && !passes(chi2Of(dw, dx, dxx), size)) {
-      let best = Infinity;
+    const prefix = new Float64Array(n + 1);
+    for (;;) {
+      // two-pass weighted mean and chi2 of the current set
+      let sw = 0;
+      let swz = 0;
+      for (let k = 0; k < n; k++) if (!out[k]) { sw += w[k]; swz += w[k] * z[k]; }
+      let m = swz / sw;
+      let corr = 0;
+      for (let k = 0; k < n; k++) if (!out[k]) corr += w[k] * (z[k] - m);
+      m += corr / sw;
+      let chi2 = 0;
+      for (let k = 0; k < n; k++) if (!out[k]) chi2 += w[k] * (z[k] - m) * (z[k] - m);
+      if (size <= 1 || passes(chi2, size)) break;
+      // removal of k lowers chi2 by w_k e_k^2 W/(W - w_k); W - w_k as a sum of the others
+      for (let k = 0; k < n; k++) prefix[k + 1] = prefix[k] + (out[k] ? 0 : w[k]);
+      let suffix = 0;
+      const others = new Float64Array(n);
+      for (let k = n - 1; k >= 0; k--) {
+        others[k] = prefix[k] + suffix;
+        if (!out[k]) suffix += w[k];
+      }
       let bestK = -1;
+      let bestD = -Infinity;
       for (let k = 0; k < n; k++) {
         if (out[k]) continue;
-        const v = chi2Of(dw + w[k], dx + wx[k], dxx + wxx[k]);
-        if (v < best) {
-          best = v;
+        const e = z[k] - m;
+        const D = others[k] > 0 ? (w[k] * e * e * sw) / others[k] : 0;
+        if (D > bestD) {
+          bestD = D;
           bestK = k;
         }
       }
       out[bestK] = 1;
-      dw += w[bestK];
-      dx += wx[bestK];
-      dxx += wxx[bestK];
       size--;
     }
     for (let k = 0; k < n; k++) if (out[k]) dropped.push(k);

@@ -5,6 +5,11 @@
  * Results with u = 0 or invalid values are left out (see weighted-mean.ts).
  * I^2 follows metafor: I^2 = 100 tau^2/(tau^2 + s^2), s^2 = (k - 1)/(sum w - sum w^2/sum w);
  * H^2 = (tau^2 + s^2)/s^2. For DL this is (Q - (k - 1))/Q.
+ * C = sum w - sum w^2/sum w is formed as 2 sum_{i<j} w_i w_j / sum w (no cancellation when one
+ * weight dominates, e.g. u = 1e-12 beside u = 0.01).
+ * Scale: randomEffects works on (x_i - x_ref)/s and u_i/s with s the smallest uncertainty and maps
+ * the results back (mu, SE scale with s, tau^2 with s^2), so it is scale-equivariant and finite
+ * for any u > 0 the entry format allows (tau^2 itself underflows to 0 below about s = 1e-154).
  */
 import { partitionByUncertainty } from './weighted-mean';
 import type { Measurement } from './types';
@@ -28,6 +33,9 @@ export interface RandomEffectsResult {
   fixedSe: number;
   /** Indices used. */
   included: number[];
+  /** sum (x_i - mu)^2/(u_i^2 + tau^2) over the included results (the generalised Q at tau^2),
+   * computed at unit scale. */
+  residualChi2: number;
   iterations: number;
   converged: boolean;
 }
@@ -83,6 +91,9 @@ export function pauleMandelTau2(y: Float64Array, v: Float64Array): { tau2: numbe
 export function remlTau2(y: Float64Array, v: Float64Array, start: number, maxIter = 10_000): { tau2: number; iterations: number; converged: boolean } {
   const k = y.length;
   if (k < 2) return { tau2: 0, iterations: 0, converged: true };
+  // convergence is judged against the variances' own scale, not an absolute 1e-14
+  let vmin = Infinity;
+  for (let i = 0; i < k; i++) vmin = Math.min(vmin, v[i]);
   let tau2 = Math.max(0, start);
   for (let it = 1; it <= maxIter; it++) {
     const { mu, sw } = weightedMeanSe(y, v, tau2);
@@ -94,7 +105,7 @@ export function remlTau2(y: Float64Array, v: Float64Array, start: number, maxIte
       num += w * w * ((y[i] - mu) ** 2 - v[i]);
     }
     const next = Math.max(0, num / sw2 + 1 / sw);
-    if (Math.abs(next - tau2) <= 1e-14 * (1 + tau2)) return { tau2: next, iterations: it, converged: true };
+    if (Math.abs(next - tau2) <= 1e-14 * (vmin + tau2)) return { tau2: next, iterations: it, converged: true };
     tau2 = next;
   }
   return { tau2, iterations: maxIter, converged: false };
@@ -104,29 +115,35 @@ export function remlTau2(y: Float64Array, v: Float64Array, start: number, maxIte
 export function randomEffects(xs: readonly Measurement[], method: TauMethod = 'DL'): RandomEffectsResult {
   const included = partitionByUncertainty(xs).weighted;
   const k = included.length;
+  if (k === 0) {
+    return { method, tau2: NaN, mu: NaN, se: NaN, Q: NaN, df: 0, I2: NaN, H2: NaN, fixedMu: NaN, fixedSe: NaN, included, residualChi2: NaN, iterations: 0, converged: true };
+  }
+  // unit scale: s = the smallest uncertainty, values relative to that result's value
+  let ref = included[0];
+  for (const j of included) if (xs[j].uncertainty < xs[ref].uncertainty) ref = j;
+  const s = xs[ref].uncertainty;
+  const x0 = xs[ref].value;
   const y = new Float64Array(k);
   const v = new Float64Array(k);
   included.forEach((j, i) => {
-    y[i] = xs[j].value;
-    v[i] = xs[j].uncertainty * xs[j].uncertainty;
+    y[i] = (xs[j].value - x0) / s;
+    const r = xs[j].uncertainty / s;
+    v[i] = r * r;
   });
-  if (k === 0) {
-    return { method, tau2: NaN, mu: NaN, se: NaN, Q: NaN, df: 0, I2: NaN, H2: NaN, fixedMu: NaN, fixedSe: NaN, included, iterations: 0, converged: true };
-  }
   let sw = 0;
-  let sw2 = 0;
+  let pairs = 0; // sum_{i<j} w_i w_j
   let swy = 0;
   for (let i = 0; i < k; i++) {
     const w = 1 / v[i];
+    pairs += w * sw;
     sw += w;
-    sw2 += w * w;
     swy += w * y[i];
   }
   const fixedMu = swy / sw;
   let Q = 0;
   for (let i = 0; i < k; i++) Q += ((y[i] - fixedMu) ** 2) / v[i];
   const df = k - 1;
-  const C = sw - sw2 / sw;
+  const C = (2 * pairs) / sw;
   const tauDL = k > 1 && C > 0 ? Math.max(0, (Q - df) / C) : 0;
   let tau2 = tauDL;
   let iterations = 0;
@@ -138,16 +155,17 @@ export function randomEffects(xs: readonly Measurement[], method: TauMethod = 'D
   const I2 = k > 1 ? (100 * tau2) / (tau2 + s2) : NaN;
   return {
     method,
-    tau2,
-    mu: re.mu,
-    se: 1 / Math.sqrt(re.sw),
+    tau2: tau2 * s * s,
+    mu: x0 + s * re.mu,
+    se: s / Math.sqrt(re.sw),
     Q,
     df,
     I2: Number.isNaN(I2) ? NaN : tau2 === 0 ? 0 : I2,
     H2: k > 1 ? (tau2 + s2) / s2 : NaN,
-    fixedMu,
-    fixedSe: 1 / Math.sqrt(sw),
+    fixedMu: x0 + s * fixedMu,
+    fixedSe: s / Math.sqrt(sw),
     included,
+    residualChi2: generalisedQ(y, v, tau2),
     iterations,
     converged,
   };

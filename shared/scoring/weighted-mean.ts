@@ -8,6 +8,11 @@
  * If no result has u > 0, the value is the arithmetic mean of the finite values, its uncertainty
  * the standard error of that mean (0 for a single value), chi2 and p are NaN, and the set counts
  * as consistent only when all values are identical.
+ *
+ * Scale: the weights are taken relative to the smallest uncertainty, w_i = (u_min/u_i)^2 <= 1, and
+ * chi2 terms as ((x_i - y)/u_i)^2, so that no u_i^2 or 1/u_i^2 is formed: uncertainties down to the
+ * smallest doubles (the entry format allows any u >= 0) give finite results, and the results are
+ * exactly equivariant under a common scaling of values and uncertainties.
  */
 import { chiSquaredSurvival } from './special';
 import type { ConsistencyTest, Measurement } from './types';
@@ -58,12 +63,21 @@ function complementOf(n: number, inIdx: Set<number> | null): number[] {
   return out;
 }
 
-/** Chi2 of a set of results about a given value y, with an optional extra variance tau2. */
+/** Chi2 of a set of results about a given value y, with an optional extra variance tau2:
+ * sum (x_i - y)^2/(u_i^2 + tau2), each term formed as a squared ratio (no u^2 that could underflow). */
 export function chi2About(xs: readonly Measurement[], idx: readonly number[], y: number, tau2 = 0): number {
   let c = 0;
+  const tau = Math.sqrt(tau2);
   for (const i of idx) {
     const e = xs[i].value - y;
-    c += (e * e) / (xs[i].uncertainty * xs[i].uncertainty + tau2);
+    const u = xs[i].uncertainty;
+    let d = u;
+    if (tau > 0) {
+      const m = Math.max(u, tau);
+      d = m * Math.sqrt((u / m) * (u / m) + (tau / m) * (tau / m));
+    }
+    const r = e / d;
+    c += r * r;
   }
   return c;
 }
@@ -104,15 +118,21 @@ export function weightedMean(xs: readonly Measurement[], options: { alpha?: numb
       excluded,
     };
   }
+  // weights relative to the smallest uncertainty, values relative to that result's value
+  let ref = idx[0];
+  for (const i of idx) if (xs[i].uncertainty < xs[ref].uncertainty) ref = i;
+  const u0 = xs[ref].uncertainty;
+  const x0 = xs[ref].value;
   let sw = 0;
   let swx = 0;
   for (const i of idx) {
-    const w = 1 / (xs[i].uncertainty * xs[i].uncertainty);
+    const r = u0 / xs[i].uncertainty;
+    const w = r * r;
     sw += w;
-    swx += w * xs[i].value;
+    swx += w * (xs[i].value - x0);
   }
-  const y = swx / sw;
-  const uy = 1 / Math.sqrt(sw);
+  const y = x0 + swx / sw;
+  const uy = u0 / Math.sqrt(sw);
   const chi2 = chi2About(xs, idx, y);
   const test = consistencyTest(chi2, idx.length - 1, alpha);
   const rb = test.birgeRatio;
