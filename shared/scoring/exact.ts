@@ -36,30 +36,35 @@ export function classifyZ(z: number): ZClass {
   return 'unsatisfactory';
 }
 
-/** zeta = (x - r)/sqrt(u^2 + u_r^2); same zero-denominator convention as zScore. */
+/** zeta = (x - r)/sqrt(u^2 + u_r^2); same zero-denominator convention as zScore (NaN when either
+ * uncertainty is negative or not finite). */
 export function zetaScore(x: number, u: number, r: number, ur: number): number {
-  if (!(ur >= 0)) return NaN;
+  if (!(ur >= 0) || !(u >= 0)) return NaN;
   return zScore(x, Math.hypot(u, ur), r);
 }
 
 /** En = (x - r)/sqrt(U^2 + U_r^2), U = k u (k = 2); |En| <= 1 acceptable. */
 export function enScore(x: number, u: number, r: number, ur: number, k = 2): number {
-  if (!(ur >= 0)) return NaN;
+  if (!(ur >= 0) || !(u >= 0) || !(k > 0)) return NaN;
   return zScore(x, k * Math.hypot(u, ur), r);
 }
 
 /** CRPS of the Gaussian N(mean, sd^2) at observation y (closed form, Gneiting et al. 2005);
- * sd = 0 gives |mean - y|. */
+ * sd = 0 gives |mean - y|. Written as e (2 Phi(z) - 1) + sd (2 phi(z) - 1/sqrt(pi)) with
+ * e = y - mean = sd z, so that a tiny sd (z overflowing to +/-Infinity) still gives |e|. */
 export function crpsNormal(mean: number, sd: number, y: number): number {
-  if (sd === 0) return Math.abs(mean - y);
-  if (!(sd > 0)) return NaN;
-  const z = (y - mean) / sd;
-  return sd * (z * (2 * normalCdf(z) - 1) + 2 * normalPdf(z) - 1 / Math.sqrt(Math.PI));
+  if (!Number.isFinite(mean) || !Number.isFinite(y) || !(sd >= 0) || !Number.isFinite(sd)) return NaN;
+  const e = y - mean;
+  if (sd === 0) return Math.abs(e);
+  const z = e / sd;
+  return e * (2 * normalCdf(z) - 1) + sd * (2 * normalPdf(z) - 1 / Math.sqrt(Math.PI));
 }
 
 /** Interval (Winkler) score of a central (1 - alpha) interval [lower, upper] at y:
- * (h - l) + (2/alpha)(l - y)[y < l] + (2/alpha)(y - h)[y > h]. */
+ * (h - l) + (2/alpha)(l - y)[y < l] + (2/alpha)(y - h)[y > h]. NaN unless lower <= upper and
+ * 0 < alpha < 1. */
 export function intervalScore(lower: number, upper: number, y: number, alpha: number): number {
+  if (!(lower <= upper) || !(alpha > 0 && alpha < 1) || Number.isNaN(y)) return NaN;
   let s = upper - lower;
   if (y < lower) s += (2 / alpha) * (lower - y);
   if (y > upper) s += (2 / alpha) * (y - upper);
