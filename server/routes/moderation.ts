@@ -14,7 +14,7 @@ import { entries, entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
 import { teamRole } from '../middleware/actor';
 import { isPublicEntry } from '../presenters/entry';
-import { reviewQueue } from '../services/check-entries';
+import { QueueChecksCache, reviewQueue } from '../services/check-entries';
 import { decideEntry, DECISIONS, notifyDecision, type Decision } from '../services/decide-entry';
 import { curateEntry } from '../services/curate-entry';
 import { disputeTarget } from '../services/dispute-target';
@@ -56,6 +56,8 @@ const actorId = (req: Request) => (req.actor.kind === 'user' ? req.actor.user.id
 
 export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
+  // the queue's checks, recomputed per challenge version only when what they depend on changed
+  const checksCache = new QueueChecksCache();
 
   const loadEntry = async (req: Request) => {
     const id = String(req.params.entryId);
@@ -70,7 +72,7 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     method: 'get', path: '/moderation/queue', access: 'moderator',
     summary: 'Entries in review, oldest first, each with its automatic checks: schema and bounds, grid coverage, scores against public exact references (RMSE, mean z², fraction covered), outliers against the consensus (|d| > U), identical values to another entry, partial sweep',
     handler: async () => {
-      const items = await reviewQueue(db, ctx.now());
+      const items = await reviewQueue(db, ctx.now(), checksCache);
       return { count: items.length, entries: items };
     },
   });

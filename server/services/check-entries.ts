@@ -1,16 +1,25 @@
 /**
- * The automatic checks the review queue shows next to every entry in review, computed on the fly
- * from what is stored: schema and sanity (re-validated against the version's targets and the
- * observables' physical bounds), coverage of the grid, scores against the public exact references,
- * outliers against the consensus of the published entries (|d| > U with the latest standings'
- * per-target consensus), claims outside physical bounds, estimates identical to another entry's
- * (same value to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps.
+ * The automatic checks the review queue shows next to every entry in review, computed from what is
+ * stored: schema and sanity (re-validated against the version's targets and the observables'
+ * physical bounds), coverage of the grid, scores against the public exact references, outliers
+ * against the consensus of the published entries (|d| > U with the latest standings' per-target
+ * consensus), claims outside physical bounds, estimates identical to another entry's (same value
+ * to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps.
+ *
+ * Computing them reads every estimate of every non-draft entry of the version, so the results are
+ * kept per challenge version (QueueChecksCache) under a fingerprint of everything they depend on,
+ * read in one cheap query on every request (versionFingerprints): the reference rows and whether
+ * each is public at this moment, the latest standings row (the consensus), and every non-draft
+ * entry of the version (the "identical to another entry" check compares with all of them, and the
+ * entries in review are among them). Anything that changes a check changes the fingerprint,
+ * so a cached result is never stale: a new reference, an unsealing (also by the clock), a
+ * recomputed standings, an entry submitted, published, returned or withdrawn.
  */
-import { and, asc, eq, inArray, ne } from 'drizzle-orm';
+import { and, asc, eq, ne, sql } from 'drizzle-orm';
 import { degreesOfEquivalence, scoreSweep, type SweepItem } from '@shared/scoring';
 import type { Db } from '../db/client';
-import { challengeVersions, entries, estimates, observables, organization, references, targets } from '../db/schema';
-import { latestStandings, type StandingsPayload } from './recompute-standings';
+import { challengeVersions, entries, observables, organization, references, standings, targets } from '../db/schema';
+import type { StandingsPayload } from './recompute-standings';
 
 const fin = (x: number | null | undefined): number | null => (typeof x === 'number' && Number.isFinite(x) ? x : null);
 const LIST = 50;
@@ -38,29 +47,98 @@ function emptyChecks() {
   };
 }
 
-export async function reviewQueue(db: Db, now: Date): Promise<QueueItem[]> {
-  const queued = await db.select({ e: entries, teamName: organization.name, version: challengeVersions.version }).from(entries)
-    .innerJoin(organization, eq(organization.id, entries.teamId)).innerJoin(challengeVersions, eq(challengeVersions.id, entries.versionId))
-    .where(eq(entries.state, 'in-review')).orderBy(asc(entries.submittedAt), asc(entries.createdAt));
-  const out: QueueItem[] = [];
-  const byVersion = new Map<string, typeof queued>();
-  for (const q of queued) byVersion.set(q.e.versionId, [...(byVersion.get(q.e.versionId) ?? []), q]);
-  const items = new Map<string, QueueItem>();
-  for (const [versionId, group] of byVersion) {
-    for (const it of await checkVersion(db, versionId, group, now)) items.set(it.id, it);
-  }
-  for (const q of queued) out.push(items.get(q.e.id)!);
+const queuedColumns = {
+  id: entries.id, versionId: entries.versionId, challengeSlug: entries.challengeSlug, teamId: entries.teamId, label: entries.label, track: entries.track,
+  methodFamily: entries.methodFamily, revision: entries.revision, lineageId: entries.lineageId, supersedesId: entries.supersedesId, submittedAt: entries.submittedAt,
+};
+type QueuedRow = { e: { [K in keyof typeof queuedColumns]: (typeof entries.$inferSelect)[K] }; teamName: string; version: number };
+type EntryChecks = Pick<QueueItem, 'flags' | 'checks'>;
+
+/** Per app: the checks of the entries in review of each challenge version, with the fingerprint they were computed under. */
+export class QueueChecksCache {
+  readonly versions = new Map<string, { fingerprint: string; checks: Map<string, EntryChecks> }>();
+  /** how many versions were computed and how many served from the cache since the app started */
+  computed = 0;
+  reused = 0;
+}
+
+interface VersionState { fingerprint: string; standingsId: string | null }
+
+/**
+ * One row per version: a digest of the reference rows (id, row version, public at `now` or not), the
+ * latest standings id and a digest of the non-draft entries (id, row version, state, team name).
+ * A row version (xmin) is new after every insert or update of the row. An entry's estimates are
+ * written only in the transaction that inserts or updates its entries row (create, update, revise,
+ * the house baseline), so its row version also stands for its estimates; reading the estimates
+ * themselves here would cost as much as the checks.
+ */
+export async function versionFingerprints(db: Db, versionIds: string[], now: Date): Promise<Map<string, VersionState>> {
+  const out = new Map<string, VersionState>();
+  if (!versionIds.length) return out;
+  const at = now.toISOString();
+  const r = (await db.execute(sql`
+    select v.id as "versionId",
+      (select md5(coalesce(string_agg(format('%s|%s|%s', r.id, r.xmin, r.sealed_until is not null and r.sealed_until > ${at}::timestamptz), ',' order by r.id), ''))
+         from targets t join "references" r on r.target_id = t.id where t.version_id = v.id) as refs,
+      (select s.id from standings s where s.version_id = v.id order by s.computed_at desc, s.id desc limit 1) as "standingsId",
+      (select md5(coalesce(string_agg(format('%s|%s|%s|%s', e.id, e.xmin, e.state, o.name), ',' order by e.id), ''))
+         from entries e join organization o on o.id = e.team_id where e.version_id = v.id and e.state <> 'draft') as others
+    from challenge_versions v where v.id in (${sql.join(versionIds.map((id) => sql`${id}::uuid`), sql`, `)})`)) as unknown as { rows: { versionId: string; refs: string; standingsId: string | null; others: string }[] };
+  for (const row of r.rows) out.set(row.versionId, { fingerprint: `${row.refs}|${row.standingsId ?? '-'}|${row.others}`, standingsId: row.standingsId });
   return out;
 }
 
-async function checkVersion(db: Db, versionId: string, group: { e: typeof entries.$inferSelect; teamName: string; version: number }[], now: Date): Promise<QueueItem[]> {
+/**
+ * The entries in review, oldest first, each with its checks. With a cache, a version's checks are
+ * computed again only when its fingerprint changed (read before the computation, so a write in
+ * between makes the next request compute again rather than serve a stale result).
+ */
+export async function reviewQueue(db: Db, now: Date, cache?: QueueChecksCache): Promise<QueueItem[]> {
+  const queued: QueuedRow[] = await db.select({ e: queuedColumns, teamName: organization.name, version: challengeVersions.version }).from(entries)
+    .innerJoin(organization, eq(organization.id, entries.teamId)).innerJoin(challengeVersions, eq(challengeVersions.id, entries.versionId))
+    .where(eq(entries.state, 'in-review')).orderBy(asc(entries.submittedAt), asc(entries.createdAt));
+  const byVersion = new Map<string, QueuedRow[]>();
+  for (const q of queued) byVersion.set(q.e.versionId, [...(byVersion.get(q.e.versionId) ?? []), q]);
+  const states = await versionFingerprints(db, [...byVersion.keys()], now);
+  const checksOf = new Map<string, EntryChecks>();
+  for (const [versionId, group] of byVersion) {
+    const state = states.get(versionId) ?? { fingerprint: `uncached:${Math.random()}`, standingsId: null };
+    const hit = cache?.versions.get(versionId);
+    let checks = hit && hit.fingerprint === state.fingerprint && group.every((q) => hit.checks.has(q.e.id)) ? hit.checks : null;
+    if (checks) cache!.reused++;
+    else {
+      checks = await checkVersion(db, versionId, group, now, state.standingsId);
+      if (cache) { cache.versions.set(versionId, { fingerprint: state.fingerprint, checks }); cache.computed++; }
+    }
+    for (const q of group) checksOf.set(q.e.id, checks.get(q.e.id)!);
+  }
+  // versions with nothing in review leave the cache
+  if (cache) for (const id of [...cache.versions.keys()]) if (!byVersion.has(id)) cache.versions.delete(id);
+  return queued.map(({ e, teamName, version }) => ({
+    id: e.id, challenge: { slug: e.challengeSlug, version }, team: { id: e.teamId, name: teamName },
+    label: e.label, track: e.track, methodFamily: e.methodFamily, revision: e.revision, lineageId: e.lineageId, supersedesId: e.supersedesId,
+    submittedAt: e.submittedAt, ...checksOf.get(e.id)!,
+  }));
+}
+
+/** Every estimate of every non-draft entry of a version, one row per entry (arrays: far fewer row objects). */
+async function versionEstimates(db: Db, versionId: string) {
+  const r = (await db.execute(sql`
+    select es.entry_id as "entryId", array_agg(es.target_key order by es.target_key, es.id) as k, array_agg(es.value order by es.target_key, es.id) as v,
+      array_agg(es.uncertainty order by es.target_key, es.id) as u, array_agg(es.kind order by es.target_key, es.id) as t
+    from estimates es join entries e on e.id = es.entry_id where e.version_id = ${versionId}::uuid and e.state <> 'draft' group by es.entry_id`)) as unknown as { rows: { entryId: string; k: string[]; v: (number | string)[]; u: (number | string)[]; t: string[] }[] };
+  return new Map(r.rows.map((row) => [row.entryId, row.k.map((key, i) => ({ key, value: Number(row.v[i]), u: Number(row.u[i]), kind: row.t[i] }))]));
+}
+
+async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: Date, standingsId: string | null): Promise<Map<string, EntryChecks>> {
   const tRows = await db.select({ key: targets.key, bound: observables.bound, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil })
     .from(targets).innerJoin(observables, eq(observables.id, targets.observableId)).leftJoin(references, eq(references.targetId, targets.id))
     .where(eq(targets.versionId, versionId));
   const tMap = new Map(tRows.map((t) => [t.key, t]));
   const publicRef = (t: (typeof tRows)[number]) => (t.value === null || t.value === undefined || (t.sealedUntil && t.sealedUntil > now) ? undefined : { value: t.value, uncertainty: t.unc ?? 0 });
   const exactCount = tRows.filter((t) => publicRef(t)).length;
-  const st = await latestStandings(db, versionId);
+  // the standings row the fingerprint names (the latest one when the fingerprint was read)
+  const [st] = standingsId ? await db.select().from(standings).where(eq(standings.id, standingsId)).limit(1) : [];
   const consensusOf = new Map<string, { value: number; uncertainty: number; tau2: number }>();
   if (st) {
     for (const c of (st.payload as StandingsPayload).public.targets) {
@@ -70,23 +148,20 @@ async function checkVersion(db: Db, versionId: string, group: { e: typeof entrie
   // every other non-draft entry of the version, for the identical-values check
   const others = await db.select({ id: entries.id, label: entries.label, state: entries.state, lineageId: entries.lineageId, isBaseline: entries.isBaseline, team: organization.name })
     .from(entries).innerJoin(organization, eq(organization.id, entries.teamId)).where(and(eq(entries.versionId, versionId), ne(entries.state, 'draft')));
-  const otherIds = others.map((o) => o.id);
+  const estimatesOf = await versionEstimates(db, versionId);
   const index = new Map<string, string[]>(); // target|value -> entry ids
-  if (otherIds.length) {
-    for (let i = 0; i < otherIds.length; i += 500) {
-      const rows = await db.select({ entryId: estimates.entryId, key: estimates.targetKey, value: estimates.value }).from(estimates).where(inArray(estimates.entryId, otherIds.slice(i, i + 500)));
-      for (const r of rows) {
-        const k = `${r.key}|${r.value.toPrecision(IDENTICAL_DIGITS)}`;
-        const l = index.get(k);
-        if (l) l.push(r.entryId); else index.set(k, [r.entryId]);
-      }
+  for (const [entryId, rows] of estimatesOf) {
+    for (const r of rows) {
+      const k = `${r.key}|${r.value.toPrecision(IDENTICAL_DIGITS)}`;
+      const l = index.get(k);
+      if (l) l.push(entryId); else index.set(k, [entryId]);
     }
   }
   const otherById = new Map(others.map((o) => [o.id, o]));
-  const result: QueueItem[] = [];
-  for (const { e, teamName, version } of group) {
+  const result = new Map<string, EntryChecks>();
+  for (const { e, version } of group) {
     const checks = emptyChecks();
-    const est = await db.select({ key: estimates.targetKey, value: estimates.value, u: estimates.uncertainty, kind: estimates.kind }).from(estimates).where(eq(estimates.entryId, e.id)).orderBy(asc(estimates.targetKey));
+    const est = estimatesOf.get(e.id) ?? [];
     const answered = new Map<string, { value: number; uncertainty: number }>();
     for (const x of est) {
       const t = tMap.get(x.key);
@@ -123,8 +198,8 @@ async function checkVersion(db: Db, versionId: string, group: { e: typeof entrie
       const r = publicRef(tMap.get(key)!);
       if (r && m.value.toPrecision(IDENTICAL_DIGITS) === r.value.toPrecision(IDENTICAL_DIGITS)) continue;
       for (const id of index.get(`${key}|${m.value.toPrecision(IDENTICAL_DIGITS)}`) ?? []) {
-        if (id === e.id) continue;
-        const o = otherById.get(id)!;
+        const o = otherById.get(id);
+        if (id === e.id || !o) continue;
         if (e.lineageId && o.lineageId === e.lineageId) continue;
         const l = same.get(id);
         if (l) l.push(key); else same.set(id, [key]);
@@ -144,11 +219,7 @@ async function checkVersion(db: Db, versionId: string, group: { e: typeof entrie
     if (checks.outliers.count) flags.push('outliers');
     if (checks.identical.length) flags.push('identical-to-another-entry');
     if (!s.scored) flags.push('no-exact-reference-to-score');
-    result.push({
-      id: e.id, challenge: { slug: e.challengeSlug, version }, team: { id: e.teamId, name: teamName },
-      label: e.label, track: e.track, methodFamily: e.methodFamily, revision: e.revision, lineageId: e.lineageId, supersedesId: e.supersedesId,
-      submittedAt: e.submittedAt, flags, checks,
-    });
+    result.set(e.id, { flags, checks });
   }
   return result;
 }
