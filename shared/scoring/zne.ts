@@ -60,57 +60,91 @@ export function richardson(points: readonly NoisePoint[]): ZneModelResult {
   if (new Set(c).size !== c.length) return fail(model, 'repeated noise-scale factors');
   const g = richardsonCoefficients(c);
   let v = 0;
-  let u2 = 0;
-  points.forEach((p, j) => {
-    v += g[j] * p.value;
-    u2 += g[j] * g[j] * p.uncertainty * p.uncertainty;
-  });
-  return { model, ok: true, value: v, uncertainty: Math.sqrt(u2), nu: 0, chi2: 0, coefficients: g };
-}
-
-/** Solve the small symmetric system M a = b by Gauss-Jordan with partial pivoting; null if singular. */
-function invert(M: number[][]): number[][] | null {
-  const n = M.length;
-  const A = M.map((r, i) => [...r, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
-  for (let col = 0; col < n; col++) {
-    let piv = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(A[r][col]) > Math.abs(A[piv][col])) piv = r;
-    if (!(Math.abs(A[piv][col]) > 1e-300)) return null;
-    [A[col], A[piv]] = [A[piv], A[col]];
-    const d = A[col][col];
-    for (let j = 0; j < 2 * n; j++) A[col][j] /= d;
-    for (let r = 0; r < n; r++) {
-      if (r === col) continue;
-      const f = A[r][col];
-      if (f !== 0) for (let j = 0; j < 2 * n; j++) A[r][j] -= f * A[col][j];
-    }
-  }
-  return A.map((r) => r.slice(n));
+  points.forEach((p, j) => (v += g[j] * p.value));
+  return { model, ok: true, value: v, uncertainty: combined(g, points.map((p) => p.uncertainty)), nu: 0, chi2: 0, coefficients: g };
 }
 
 interface LinearFit {
   beta: number[];
   /** Rows of the estimator matrix: beta_k = sum_j L[k][j] y_j. */
   L: number[][];
-  chi2: number;
+  /** Residuals y_j - (X beta)_j. */
+  residuals: number[];
 }
 
-/** Weighted least squares y ~ X beta with weights w (y, w per row). */
-function wls(X: number[][], y: readonly number[], w: readonly number[]): LinearFit | null {
+/**
+ * Weighted least squares y ~ X beta with weights s_j^2 (s per row; only their ratios matter), by
+ * Householder QR of diag(s) X: the normal equations would square the condition number of the
+ * Vandermonde-like design (noise-scale factors close together). Null if X is rank-deficient.
+ */
+function wls(X: number[][], y: readonly number[], s: readonly number[]): LinearFit | null {
   const n = X.length;
   const p = X[0].length;
-  const M = Array.from({ length: p }, () => new Array<number>(p).fill(0));
-  for (let i = 0; i < n; i++) for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) M[a][b] += w[i] * X[i][a] * X[i][b];
-  const Mi = invert(M);
-  if (!Mi) return null;
-  const L = Array.from({ length: p }, (_, a) => X.map((row, i) => w[i] * row.reduce((s, x, b) => s + Mi[a][b] * x, 0)));
-  const beta = L.map((r) => r.reduce((s, l, i) => s + l * y[i], 0));
-  let chi2 = 0;
-  for (let i = 0; i < n; i++) {
-    const f = X[i].reduce((s, x, b) => s + x * beta[b], 0);
-    chi2 += w[i] * (y[i] - f) ** 2;
+  if (n < p) return null;
+  const A = X.map((row, i) => row.map((x) => s[i] * x));
+  // B = Q^T diag(s), built by applying the same reflections to diag(s)
+  const B = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? s[i] : 0)));
+  const v = new Array<number>(n).fill(0);
+  for (let k = 0; k < p; k++) {
+    let scale = 0;
+    for (let i = k; i < n; i++) scale = Math.max(scale, Math.abs(A[i][k]));
+    if (!(scale > 0)) return null;
+    let norm2 = 0;
+    for (let i = k; i < n; i++) norm2 += (A[i][k] / scale) ** 2;
+    const alpha = (A[k][k] > 0 ? -1 : 1) * scale * Math.sqrt(norm2);
+    let vn2 = 0;
+    for (let i = k; i < n; i++) {
+      v[i] = A[i][k] - (i === k ? alpha : 0);
+      vn2 += v[i] * v[i];
+    }
+    if (!(vn2 > 0)) continue;
+    const reflect = (M: number[][], cols: number, from: number) => {
+      for (let j = from; j < cols; j++) {
+        let dot = 0;
+        for (let i = k; i < n; i++) dot += v[i] * M[i][j];
+        const f = (2 * dot) / vn2;
+        if (f !== 0) for (let i = k; i < n; i++) M[i][j] -= f * v[i];
+      }
+    };
+    reflect(A, p, k);
+    reflect(B, n, 0);
   }
-  return { beta, L, chi2 };
+  for (let k = 0; k < p; k++) if (!(Math.abs(A[k][k]) > 1e-300)) return null;
+  // R L = B[0..p): back substitution, column by column of B
+  const L = Array.from({ length: p }, () => new Array<number>(n).fill(0));
+  for (let j = 0; j < n; j++) {
+    for (let k = p - 1; k >= 0; k--) {
+      let t = B[k][j];
+      for (let m = k + 1; m < p; m++) t -= A[k][m] * L[m][j];
+      L[k][j] = t / A[k][k];
+    }
+  }
+  const beta = L.map((r) => r.reduce((acc, l, i) => acc + l * y[i], 0));
+  const residuals = X.map((row, i) => y[i] - row.reduce((acc, x, b) => acc + x * beta[b], 0));
+  return { beta, L, residuals };
+}
+
+/** sqrt(sum (a_j u_j)^2) without squaring tiny or huge numbers. */
+function combined(a: readonly number[], u: readonly number[]): number {
+  let m = 0;
+  for (let j = 0; j < a.length; j++) m = Math.max(m, Math.abs(a[j] * u[j]));
+  if (!(m > 0)) return m === 0 ? 0 : NaN;
+  let s = 0;
+  for (let j = 0; j < a.length; j++) s += ((a[j] * u[j]) / m) ** 2;
+  return m * Math.sqrt(s);
+}
+
+/** Residual chi2 sum (r_j / u_j)^2. */
+function chi2Of(r: readonly number[], u: readonly number[]): number {
+  let c = 0;
+  for (let j = 0; j < r.length; j++) c += (r[j] / u[j]) ** 2;
+  return c;
+}
+
+/** Square-root weights proportional to 1/u_j (relative to the smallest u, so none overflows). */
+function sqrtWeights(u: readonly number[]): number[] {
+  const u0 = Math.min(...u);
+  return u.map((x) => u0 / x);
 }
 
 export interface FitOptions {
@@ -127,13 +161,12 @@ export function polynomialFit(points: readonly NoisePoint[], degree: number, opt
   const cmax = Math.max(...points.map((p) => Math.abs(p.scale)));
   // Scaled abscissa t = c/cmax for conditioning; the intercept is unchanged.
   const X = points.map((p) => Array.from({ length: degree + 1 }, (_, k) => (p.scale / cmax) ** k));
-  const weighted = (options.weighting ?? 'weighted') === 'weighted' && points.every((p) => p.uncertainty > 0);
-  const w = points.map((p) => (weighted ? 1 / (p.uncertainty * p.uncertainty) : 1));
-  const fit = wls(X, points.map((p) => p.value), w);
+  const us = points.map((p) => p.uncertainty);
+  const weighted = (options.weighting ?? 'weighted') === 'weighted' && us.every((u) => u > 0);
+  const fit = wls(X, points.map((p) => p.value), weighted ? sqrtWeights(us) : us.map(() => 1));
   if (!fit) return fail(model, 'singular fit');
   const a = fit.L[0];
-  const u2 = a.reduce((s, aj, j) => s + aj * aj * points[j].uncertainty * points[j].uncertainty, 0);
-  return { model, ok: true, value: fit.beta[0], uncertainty: Math.sqrt(u2), chi2: weighted ? fit.chi2 : NaN, nu: n - degree - 1, coefficients: a };
+  return { model, ok: true, value: fit.beta[0], uncertainty: combined(a, us), chi2: weighted ? chi2Of(fit.residuals, us) : NaN, nu: n - degree - 1, coefficients: a };
 }
 
 export function linearFit(points: readonly NoisePoint[], options: FitOptions = {}): ZneModelResult {
@@ -155,12 +188,12 @@ export function exponentialFit(points: readonly NoisePoint[], options: Exponenti
   const ul = points.map((p) => p.uncertainty / Math.abs(p.value));
   const weighted = (options.weighting ?? 'propagated') === 'propagated' && ul.every((u) => u > 0);
   const X = points.map((p) => [1, p.scale]);
-  const fit = wls(X, y, ul.map((u) => (weighted ? 1 / (u * u) : 1)));
+  const fit = wls(X, y, weighted ? sqrtWeights(ul) : ul.map(() => 1));
   if (!fit) return fail(model, 'singular fit');
   const a = fit.L[0];
-  const uLnA = Math.sqrt(a.reduce((s, aj, j) => s + aj * aj * ul[j] * ul[j], 0));
+  const uLnA = combined(a, ul);
   const A = sign * Math.exp(fit.beta[0]);
-  return { model, ok: true, value: A, uncertainty: Math.abs(A) * uLnA, chi2: weighted ? fit.chi2 : NaN, nu: points.length - 2 };
+  return { model, ok: true, value: A, uncertainty: Math.abs(A) * uLnA, chi2: weighted ? chi2Of(fit.residuals, ul) : NaN, nu: points.length - 2 };
 }
 
 /** E = a + b exp(-k c) with free asymptote a. */
@@ -169,8 +202,9 @@ export function exponentialFreeAsymptoteFit(points: readonly NoisePoint[]): ZneM
   const n = points.length;
   const cs = points.map((p) => p.scale);
   if (new Set(cs).size < 3) return fail(model, 'needs at least 3 distinct noise-scale factors');
-  const weighted = points.every((p) => p.uncertainty > 0);
-  const w = points.map((p) => (weighted ? 1 / (p.uncertainty * p.uncertainty) : 1));
+  const us = points.map((p) => p.uncertainty);
+  const weighted = us.every((u) => u > 0);
+  const sw = weighted ? sqrtWeights(us) : us.map(() => 1);
   const ys = points.map((p) => p.value);
   const cmin = Math.min(...cs.map(Math.abs).filter((c) => c > 0), Infinity);
   const cmax = Math.max(...cs.map(Math.abs));
@@ -178,8 +212,9 @@ export function exponentialFreeAsymptoteFit(points: readonly NoisePoint[]): ZneM
   const kHi = 50 / (Number.isFinite(cmin) ? cmin : cmax);
   const profile = (logk: number) => {
     const k = Math.exp(logk);
-    const f = wls(points.map((p) => [1, Math.exp(-k * p.scale)]), ys, w);
-    return f ? f.chi2 : Infinity;
+    const f = wls(points.map((p) => [1, Math.exp(-k * p.scale)]), ys, sw);
+    // proportional to chi2 (relative weights): finite whatever the scale of u
+    return f ? f.residuals.reduce((acc, r, i) => acc + (sw[i] * r) ** 2, 0) : Infinity;
   };
   const G = 400;
   let bi = 0;
@@ -218,18 +253,16 @@ export function exponentialFreeAsymptoteFit(points: readonly NoisePoint[]): ZneM
     }
   }
   const k = Math.exp(0.5 * (a + b));
-  const f = wls(points.map((p) => [1, Math.exp(-k * p.scale)]), ys, w);
+  const f = wls(points.map((p) => [1, Math.exp(-k * p.scale)]), ys, sw);
   if (!f) return fail(model, 'singular fit');
   const [A, B] = f.beta;
-  // Gauss-Newton covariance of (a, b, k), then u(E0 = a + b) with inputs' stated u.
+  // Gauss-Newton linearisation at the optimum: delta theta = (J^T W J)^-1 J^T W delta y, i.e. the
+  // least-squares estimator of the Jacobian J of (a, b, k); E0 = a + b has gradient (1, 1, 0).
   const J = points.map((p) => [1, Math.exp(-k * p.scale), -B * p.scale * Math.exp(-k * p.scale)]);
-  const M = [0, 1, 2].map((r) => [0, 1, 2].map((s) => J.reduce((acc, row, i) => acc + w[i] * row[r] * row[s], 0)));
-  const Mi = invert(M);
-  if (!Mi) return fail(model, 'singular Jacobian at the optimum');
-  // Linearised estimator: delta theta = Mi J^T W delta y; E0 gradient (1, 1, 0).
-  const coeff = points.map((_, i) => [0, 1, 2].reduce((s, r) => s + (Mi[0][r] + Mi[1][r]) * J[i][r] * w[i], 0));
-  const u2 = coeff.reduce((s, cj, j) => s + cj * cj * points[j].uncertainty * points[j].uncertainty, 0);
-  return { model, ok: true, value: A + B, uncertainty: Math.sqrt(u2), chi2: weighted ? f.chi2 : NaN, nu: n - 3, coefficients: coeff };
+  const lin = wls(J, ys, sw);
+  if (!lin) return fail(model, 'singular Jacobian at the optimum');
+  const coeff = points.map((_, i) => lin.L[0][i] + lin.L[1][i]);
+  return { model, ok: true, value: A + B, uncertainty: combined(coeff, us), chi2: weighted ? chi2Of(f.residuals, us) : NaN, nu: n - 3, coefficients: coeff };
 }
 
 export interface ZneSummaryOptions {
