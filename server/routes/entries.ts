@@ -18,7 +18,7 @@ import { entries, estimates, member, organization } from '../db/schema';
 import { AppError, badRequest, forbidden, notFound } from '../errors';
 import { teamRole } from '../middleware/actor';
 import { isPublicEntry, presentEntry, type EntryRow } from '../presenters/entry';
-import { checkEntry, parseEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
+import { validateEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
 import { createEntry } from '../services/create-entry';
 import { updateEntry } from '../services/update-entry';
 import { submitEntry } from '../services/submit-entry';
@@ -107,10 +107,11 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     summary: 'Create a draft entry from a document (schemas/entry.schema.json) as the JSON body or multipart field "file"; ?team=<teamId> when you are in several teams',
     middleware: [documentBody],
     handler: async (req, res) => {
-      const doc = parseEntryDocument(documentText(req));
-      const check = await checkEntry(db, doc, { slug: String(req.params.slug) });
+      const now = ctx.now();
+      const check = await validateEntryDocument(db, documentText(req), { slug: String(req.params.slug), now, purpose: 'create' });
+      const doc = check.document;
       const teamId = (await postingTeam(req))!;
-      const out = await createEntry(db, { check, teamId, actor: req.actor, now: ctx.now() });
+      const out = await createEntry(db, { check, teamId, actor: req.actor, now });
       res.status(201);
       return { ...out, challenge: { slug: check.version.slug, version: check.version.version }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, next: `POST /api/entries/${out.id}/submit sends it to review` };
     },
@@ -121,10 +122,12 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing',
     middleware: [documentBody],
     handler: async (req) => {
-      const doc = parseEntryDocument(documentText(req));
-      const check = await checkEntry(db, doc);
-      const scores = await previewScores(db, check, ctx.now());
-      return { valid: true, stored: false, challenge: { slug: check.version.slug, version: check.version.version, checksum: check.version.checksum }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, scores };
+      const now = ctx.now();
+      const check = await validateEntryDocument(db, documentText(req), { now, purpose: 'dry-run' });
+      const doc = check.document;
+      const scores = await previewScores(db, check, now);
+      // acceptsEntries: whether POST /api/challenges/<id>/entries would take it now (the warnings say why not)
+      return { valid: true, stored: false, acceptsEntries: check.refusals.length === 0, challenge: { slug: check.version.slug, version: check.version.version, checksum: check.version.checksum }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, scores };
     },
   });
 
@@ -145,9 +148,10 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     middleware: [documentBody],
     handler: async (req) => {
       const e = await loadEntry(req);
-      const doc = parseEntryDocument(documentText(req));
-      const check = await checkEntry(db, doc, { slug: e.challengeSlug });
-      const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now: ctx.now() });
+      const now = ctx.now();
+      const check = await validateEntryDocument(db, documentText(req), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state } });
+      const doc = check.document;
+      const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now });
       return { ...out, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings };
     },
   });

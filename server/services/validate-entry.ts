@@ -12,7 +12,7 @@ import addFormatsModule from 'ajv-formats';
 import { scoreAgainstReference, scoreSweep, type SweepItem } from '@shared/scoring';
 import type { Db, DbOrTx } from '../db/client';
 import { challengeVersions, challenges, observables, references, targets } from '../db/schema';
-import { invalid, type FieldProblem } from '../errors';
+import { AppError, invalid, notFound, type FieldProblem } from '../errors';
 import { parseStrictJson, DEFAULT_MAX_DEPTH } from '../util/strict-json';
 
 export const ENTRY_SCHEMA = JSON.parse(readFileSync(new URL('../../schemas/entry.schema.json', import.meta.url), 'utf8')) as Record<string, unknown>;
@@ -193,27 +193,52 @@ export async function loadVersionTargets(db: DbOrTx, v: { id: string; challengeS
   return out;
 }
 
-async function resolveVersion(db: Db, doc: EntryDocument, urlSlug: string | undefined): Promise<{ problems: FieldProblem[]; version?: VersionTargets }> {
-  const slug = doc.challenge.id;
+const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+const isFiniteNumber = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
+const CHALLENGE_ID = /^[a-z0-9][a-z0-9-]*$/;
+const CHECKSUM = /^(sha256:)?[0-9a-f]{64}$/;
+
+/**
+ * The challenge reference of a document that may have failed the schema, as far as it is
+ * well-formed enough to look up: an id in the schema's shape, then (optionally) a well-formed
+ * checksum and an integer version. Whatever is malformed the schema problems already name.
+ */
+interface ChallengeRef { id: string; checksum?: string; version?: number }
+function challengeRef(doc: unknown): ChallengeRef | undefined {
+  if (!isObject(doc) || !isObject(doc.challenge)) return undefined;
+  const { id, checksum, version } = doc.challenge;
+  if (typeof id !== 'string' || id.length > 80 || !CHALLENGE_ID.test(id)) return undefined;
+  return {
+    id,
+    checksum: typeof checksum === 'string' && CHECKSUM.test(checksum) ? checksum : undefined,
+    version: typeof version === 'number' && Number.isInteger(version) ? version : undefined,
+  };
+}
+
+interface Resolved { problems: FieldProblem[]; challenge?: ChallengeGate; version?: VersionTargets }
+
+async function resolveVersion(db: DbOrTx, ref: ChallengeRef, urlSlug: string | undefined): Promise<Resolved> {
+  const slug = ref.id;
   if (urlSlug !== undefined && urlSlug !== slug) {
     return { problems: [{ path: '/challenge/id', message: `this entry answers "${slug}" but was posted to /api/challenges/${urlSlug}/entries: post it to /api/challenges/${slug}/entries, or fix the id` }] };
   }
   const [c] = await db.select().from(challenges).where(eq(challenges.slug, slug)).limit(1);
   if (!c || c.state === 'draft') return { problems: [{ path: '/challenge/id', message: `there is no published challenge "${slug}" (GET /api/challenges lists them)` }] };
+  const challenge: ChallengeGate = { slug: c.slug, state: c.state, settings: c.settings };
+  if (ref.checksum === undefined) return { problems: [], challenge }; // the schema names the checksum; no version to check the targets against
   const versions = await db.select().from(challengeVersions).where(eq(challengeVersions.challengeSlug, slug));
   const current = versions.find((x) => x.id === c.currentVersionId);
   const currentHint = current ? `the current version ${current.version} has checksum "sha256:${current.checksum}" (GET /api/challenges/${slug})` : '';
-  const given = doc.challenge.checksum.replace(/^sha256:/, '');
+  const given = ref.checksum.replace(/^sha256:/, '');
   const v = versions.find((x) => x.checksum === given && x.state !== 'draft');
-  if (!v) return { problems: [{ path: '/challenge/checksum', message: `"${doc.challenge.checksum}" is not the checksum of a published version of ${slug}; ${currentHint}` }] };
+  if (!v) return { challenge, problems: [{ path: '/challenge/checksum', message: `"${ref.checksum}" is not the checksum of a published version of ${slug}; ${currentHint}` }] };
   if (v.state === 'superseded') {
-    return { problems: [{ path: '/challenge/checksum', message: `version ${v.version} of ${slug} was superseded${current ? ` by version ${current.version}` : ''}${v.supersededReason ? ` (${v.supersededReason})` : ''} and takes no new entries; answer the current version: ${currentHint}` }] };
+    return { challenge, problems: [{ path: '/challenge/checksum', message: `version ${v.version} of ${slug} was superseded${current ? ` by version ${current.version}` : ''}${v.supersededReason ? ` (${v.supersededReason})` : ''} and takes no new entries; answer the current version: ${currentHint}` }] };
   }
-  if (v.version !== doc.challenge.version) {
-    return { problems: [{ path: '/challenge/version', message: `the checksum is that of version ${v.version} of ${slug}, not version ${doc.challenge.version}: fix one of the two` }] };
+  if (ref.version !== undefined && v.version !== ref.version) {
+    return { challenge, problems: [{ path: '/challenge/version', message: `the checksum is that of version ${v.version} of ${slug}, not version ${ref.version}: fix one of the two` }] };
   }
-  if (c.state === 'closed') return { problems: [{ path: '/challenge/id', message: `${slug} is closed and takes no new entries` }] };
-  return { problems: [], version: await loadVersionTargets(db, v) };
+  return { problems: [], challenge, version: await loadVersionTargets(db, v) };
 }
 
 function suggestTarget(given: string, vt: VersionTargets): string {
@@ -232,12 +257,148 @@ function suggestTarget(given: string, vt: VersionTargets): string {
 
 const fmt = (x: number) => String(Number(x.toPrecision(6)));
 
+// ------------------------------------------------------------------ challenge settings
+/*
+ * What a moderator's settings (challenges.state, challenges.settings.tracks and
+ * challenges.settings.submissionWindow, see update-challenge-settings.ts) mean for entries:
+ *
+ * - state "closed" (the "Submissions: closed" switch): no new entries, no submissions to review and
+ *   no new revisions of published entries, until a moderator opens the challenge again.
+ * - tracks: the tracks that take entries; a track not listed is closed. No "tracks" setting means
+ *   both are open (the default of a new challenge).
+ * - submissionWindow {opensAt, closesAt}: entries are taken from opensAt (inclusive) until closesAt
+ *   (exclusive); a missing end is unbounded. Outside it: no new entries, no submissions, no new
+ *   revisions, as for a closed challenge.
+ *
+ * Drafts that exist when a track, the window or the challenge closes stay editable (PUT): editing
+ * harms nobody and the draft is ready if a moderator reopens or extends; the gate is the
+ * submission, which is refused (409) while the settings forbid it, and the PUT answer warns so.
+ * A draft may keep a track that closed after it was created, but no edit moves an entry into a
+ * closed track. A returned entry is the exception: it was submitted while the challenge took it
+ * and a moderator sent it back for a fix, so its resubmission continues that review and is not
+ * held back by the settings (the moderator who returned it reviews the result).
+ *
+ * A refusal by the settings is a 409 (the document is fine; the challenge's state conflicts with
+ * it, and the request can succeed once that changes); the dry run reports the same problems as
+ * warnings with acceptsEntries: false, so a team learns them before posting and still gets the
+ * score preview. The clock is always the request's (ctx.now()), never the process's.
+ */
+export const TRACKS = ['hardware', 'classical'] as const;
+export type GateAction = 'create' | 'submit' | 'revise';
+/** A challenge as its settings see it. */
+export interface ChallengeGate { slug: string; state: string; settings: unknown }
+
+export function openTracks(settings: unknown): string[] {
+  const t = isObject(settings) ? settings.tracks : undefined;
+  if (!Array.isArray(t)) return [...TRACKS];
+  return TRACKS.filter((x) => t.includes(x));
+}
+
+export function submissionWindow(settings: unknown): { opensAt: Date | null; closesAt: Date | null } {
+  const w = isObject(settings) ? settings.submissionWindow : undefined;
+  const date = (v: unknown) => {
+    if (typeof v !== 'string') return null;
+    const ms = Date.parse(v);
+    return Number.isFinite(ms) ? new Date(ms) : null;
+  };
+  return isObject(w) ? { opensAt: date(w.opensAt), closesAt: date(w.closesAt) } : { opensAt: null, closesAt: null };
+}
+
+const TAKES_NO: Record<GateAction, string> = { create: 'takes no new entries', submit: 'takes no submissions', revise: 'takes no new revisions' };
+
+/** The problem with a closed track, or null when the track is open (or not a track at all: the schema says so). */
+export function closedTrackProblem(c: ChallengeGate, track: unknown, action: GateAction | 'move', from?: string): FieldProblem | null {
+  if (typeof track !== 'string' || !(TRACKS as readonly string[]).includes(track)) return null;
+  const open = openTracks(c.settings);
+  if (open.includes(track)) return null;
+  const fix = {
+    create: ' (the track says how the values were obtained: change it only if it is wrong)',
+    move: `: this entry is in the ${from ?? 'other'} track, and an edit cannot move it into a closed one`,
+    submit: ': the draft cannot be submitted while its track is closed',
+    revise: `: no new revision of a ${track} entry while its track is closed; the published entry stays as it is`,
+  }[action];
+  return { path: '/track', message: `the ${track} track of ${c.slug} is closed; open tracks: ${open.join(', ') || 'none'}${fix}` };
+}
+
+/**
+ * Every reason the settings refuse this action now: the challenge's state, the submission window
+ * (when a clock is given; the writing services always give theirs) and the track.
+ */
+export function gateProblems(c: ChallengeGate, track: unknown, now: Date | undefined, action: GateAction): FieldProblem[] {
+  const out: FieldProblem[] = [];
+  const s = c.slug;
+  const no = TAKES_NO[action];
+  if (c.state === 'closed') {
+    out.push({ path: '/challenge/id', message: `${s} is closed and ${no}${{
+      create: '; a moderator can open it again',
+      submit: '; the draft stays editable, and can be submitted if a moderator opens the challenge again',
+      revise: '; the published entry stays as it is (a moderator can open the challenge again)',
+    }[action]}` });
+  } else if (c.state !== 'open') {
+    out.push({ path: '/challenge/id', message: `${s} is not open (state "${c.state}") and ${no}` });
+  }
+  if (now) {
+    const w = submissionWindow(c.settings);
+    if (w.opensAt && now.getTime() < w.opensAt.getTime()) {
+      out.push({ path: '/challenge/id', message: `${s} ${no} before its submission window opens at ${w.opensAt.toISOString()}${{
+        create: '; check the document meanwhile with POST /api/entries/validate',
+        submit: '; submit the draft from then on',
+        revise: '',
+      }[action]}` });
+    } else if (w.closesAt && now.getTime() >= w.closesAt.getTime()) {
+      out.push({ path: '/challenge/id', message: `${s} ${no} since its submission window closed at ${w.closesAt.toISOString()}${{
+        create: '; a moderator can extend the window',
+        submit: '; the draft stays editable, and can be submitted if a moderator extends the window',
+        revise: '; the published entry stays as it is (a moderator can extend the window)',
+      }[action]}` });
+    }
+  }
+  const t = closedTrackProblem(c, track, action);
+  if (t) out.push(t);
+  return out;
+}
+
+/** A refusal by the challenge settings: 409, with the problems naming their fields. */
+export function refuse(problems: FieldProblem[]): void {
+  if (!problems.length) return;
+  throw new AppError('conflict', `${problems[0].path}: ${problems[0].message}`, problems.slice(0, MAX_PROBLEMS));
+}
+
+/**
+ * The challenge's state and settings inside a writing transaction, under a share lock: a moderator
+ * changing the settings meanwhile (update-challenge-settings takes the row for update) waits for
+ * this write, or this write sees the new settings.
+ */
+export async function loadGate(tx: DbOrTx, slug: string): Promise<ChallengeGate> {
+  const [c] = await tx.select({ slug: challenges.slug, state: challenges.state, settings: challenges.settings }).from(challenges).where(eq(challenges.slug, slug)).for('share');
+  if (!c) throw notFound(`The challenge "${slug}"`);
+  return c;
+}
+
 // ------------------------------------------------------------------ the whole check
 export interface EntryCheck {
   document: EntryDocument;
   version: VersionTargets;
   warnings: FieldProblem[];
   coverage: { targets: number; covered: number; fraction: number };
+  /**
+   * What the challenge settings refuse now: for a dry run, posting this entry; for an edit, the
+   * draft's submission. Both are also in the warnings. Empty when the settings allow it.
+   */
+  refusals: FieldProblem[];
+}
+
+/** dry-run: settings refusals are warnings; create: they refuse (409); update: only a move into a closed track refuses, the rest warn. */
+export type CheckPurpose = 'dry-run' | 'create' | 'update';
+export interface CheckOptions {
+  /** the challenge of the URL (create) or of the stored entry (update) */
+  slug?: string;
+  /** the request's clock (ctx.now()); without one the submission window is not checked here (the writing services check it with theirs) */
+  now?: Date;
+  /** default "create" */
+  purpose?: CheckPurpose;
+  /** update: the stored entry, whose track and state decide what the settings allow */
+  entry?: { track: string; state: string };
 }
 
 export function problemsOrThrow(problems: FieldProblem[], total = problems.length): void {
@@ -247,62 +408,126 @@ export function problemsOrThrow(problems: FieldProblem[], total = problems.lengt
   throw invalid(listed);
 }
 
+/** Strict JSON from text (an already parsed value passes through), or a 400 naming the places. */
+function parseStrict(input: string | unknown): unknown {
+  if (typeof input !== 'string') return input;
+  const r = parseStrictJson(input, { maxDepth: MAX_DEPTH, maxProblems: MAX_PROBLEMS });
+  if (!r.ok) problemsOrThrow(r.problems);
+  return (r as { value: unknown }).value;
+}
+
 /** The request body as text (or an already parsed value) to a checked document, or a 400 naming the fields. */
 export function parseEntryDocument(input: string | unknown): EntryDocument {
-  let doc: unknown = input;
-  if (typeof input === 'string') {
-    const r = parseStrictJson(input, { maxDepth: MAX_DEPTH, maxProblems: MAX_PROBLEMS });
-    if (!r.ok) problemsOrThrow(r.problems);
-    doc = (r as { value: unknown }).value;
-  }
+  const doc = parseStrict(input);
   const sp = schemaProblems(doc);
   problemsOrThrow(sp);
   return doc as EntryDocument;
 }
 
-export async function checkEntry(db: Db, doc: EntryDocument, opts: { slug?: string } = {}): Promise<EntryCheck> {
-  const rv = await resolveVersion(db, doc, opts.slug);
-  problemsOrThrow(rv.problems);
-  const vt = rv.version!;
+/**
+ * The whole validation in one pass: strict JSON first (a document that is not JSON has nothing
+ * more to check), then the schema and the checks against the challenge together, so that one
+ * answer lists every independent problem: a schema error in one estimate does not hide an unknown
+ * target id in another, or a wrong checksum.
+ */
+export async function validateEntryDocument(db: Db, input: string | unknown, opts: CheckOptions = {}): Promise<EntryCheck> {
+  const doc = parseStrict(input);
+  return inspect(db, doc, schemaProblems(doc), opts);
+}
+
+/** The checks against the challenge for a document that already passed the schema (parseEntryDocument). */
+export async function checkEntry(db: Db, doc: EntryDocument, opts: CheckOptions = {}): Promise<EntryCheck> {
+  return inspect(db, doc, [], opts);
+}
+
+/**
+ * The checks that need the challenge, over a document that may have failed the schema: each runs
+ * on the parts well-formed enough for it (a well-formed challenge reference; estimates that are
+ * objects with a string target; values and uncertainties that are finite numbers) and never
+ * assumes more. A problem at a path the schema already names is not repeated.
+ */
+async function inspect(db: Db, doc: unknown, schema: FieldProblem[], opts: CheckOptions): Promise<EntryCheck> {
+  const purpose = opts.purpose ?? 'create';
   const problems: FieldProblem[] = [];
   const warnings: FieldProblem[] = [];
   let total = 0;
   const add = (p: FieldProblem) => { total++; if (problems.length < MAX_PROBLEMS) problems.push(p); };
+
+  const ref = challengeRef(doc);
+  const rv: Resolved = ref ? await resolveVersion(db, ref, opts.slug) : { problems: [] };
+  rv.problems.forEach(add);
+  const vt = rv.version;
+
   const seen = new Map<string, number>();
-  const ests = doc.estimates;
-  for (let k = 0; k < ests.length; k++) {
-    const e = ests[k];
-    const t = vt.targets.get(e.target);
-    if (!t) {
-      add({ path: `/estimates/${k}/target`, message: problems.length < MAX_PROBLEMS
-        ? `"${e.target}" is not a target of ${vt.slug} v${vt.version}; target ids look like "${suggestTarget(e.target, vt)}" (GET /api/challenges/${vt.slug}/targets lists them)`
-        : 'not a target' });
-      continue;
-    }
-    const first = seen.get(e.target);
-    if (first !== undefined) {
-      add({ path: `/estimates/${k}/target`, message: `"${e.target}" appears twice (first at /estimates/${first}): give one estimate per target` });
-      continue;
-    }
-    seen.set(e.target, k);
-    const a = Math.abs(e.value);
-    if (a > t.bound + 3 * e.uncertainty) {
-      add({ path: `/estimates/${k}/value`, message: `|value| = ${fmt(a)} exceeds the physical bound ${fmt(t.bound)} of observable ${t.observable} by more than 3 uncertainties; check the sign convention or the normalisation` });
-    } else if (a > t.bound && warnings.length < MAX_PROBLEMS) {
-      warnings.push({ path: `/estimates/${k}/value`, message: `|value| = ${fmt(a)} exceeds the physical bound ${fmt(t.bound)} of observable ${t.observable}, within 3 uncertainties (u = ${fmt(e.uncertainty)}): accepted, but worth a second look` });
+  const raw = isObject(doc) ? doc.estimates : undefined;
+  // an over-long list is one problem (the schema's), not one per estimate
+  const ests: unknown[] = Array.isArray(raw) && raw.length <= MAX_ESTIMATES ? raw : [];
+  if (vt) {
+    for (let k = 0; k < ests.length; k++) {
+      const e = ests[k];
+      if (!isObject(e) || typeof e.target !== 'string' || e.target.length > 200) continue;
+      const key = e.target;
+      const t = vt.targets.get(key);
+      if (!t) {
+        add({ path: `/estimates/${k}/target`, message: problems.length < MAX_PROBLEMS
+          ? `"${key}" is not a target of ${vt.slug} v${vt.version}; target ids look like "${suggestTarget(key, vt)}" (GET /api/challenges/${vt.slug}/targets lists them)`
+          : 'not a target' });
+        continue;
+      }
+      const first = seen.get(key);
+      if (first !== undefined) {
+        add({ path: `/estimates/${k}/target`, message: `"${key}" appears twice (first at /estimates/${first}): give one estimate per target` });
+        continue;
+      }
+      seen.set(key, k);
+      if (!isFiniteNumber(e.value) || !isFiniteNumber(e.uncertainty) || e.uncertainty < 0) continue;
+      const a = Math.abs(e.value);
+      if (a > t.bound + 3 * e.uncertainty) {
+        add({ path: `/estimates/${k}/value`, message: `|value| = ${fmt(a)} exceeds the physical bound ${fmt(t.bound)} of observable ${t.observable} by more than 3 uncertainties; check the sign convention or the normalisation` });
+      } else if (a > t.bound && warnings.length < MAX_PROBLEMS) {
+        warnings.push({ path: `/estimates/${k}/value`, message: `|value| = ${fmt(a)} exceeds the physical bound ${fmt(t.bound)} of observable ${t.observable}, within 3 uncertainties (u = ${fmt(e.uncertainty)}): accepted, but worth a second look` });
+      }
     }
   }
-  problemsOrThrow(problems, total);
+
+  // the challenge settings (see the section above): what refuses now, what only warns
+  const track = isObject(doc) ? doc.track : undefined;
+  let refusing: FieldProblem[] = [];
+  let refusals: FieldProblem[] = [];
+  const c = rv.challenge;
+  if (c) {
+    if (purpose === 'create') refusing = refusals = gateProblems(c, track, opts.now, 'create');
+    else if (purpose === 'dry-run') refusals = gateProblems(c, track, opts.now, 'create');
+    else {
+      const e = opts.entry;
+      const move = e && track !== e.track ? closedTrackProblem(c, track, 'move', e.track) : null;
+      if (move) refusing = [move];
+      // a returned entry's resubmission is not held back (see above); a draft's is
+      if (!e || e.state === 'draft') refusals = gateProblems(c, track, opts.now, 'submit').filter((p) => !(move && p.path === '/track'));
+    }
+  }
+
+  const named = new Set(schema.map((p) => p.path));
+  const beyond = problems.filter((p) => !named.has(p.path));
+  if (schema.length || beyond.length) {
+    const first = refusing.filter((p) => !named.has(p.path));
+    problemsOrThrow([...first, ...schema, ...beyond], first.length + schema.length + total - (problems.length - beyond.length));
+  }
+  refuse(refusing);
+  if (!vt || !c) throw invalid([{ path: '/challenge', message: 'name the challenge version this entry answers' }]); // unreachable: a document that passes the schema resolves or has a problem
+  const document = doc as EntryDocument;
+
   const covered = seen.size;
   const n = vt.targets.size;
   const coverage = { targets: n, covered, fraction: n ? covered / n : 0 };
   if (covered < n) {
     warnings.unshift({ path: '/estimates', message: `covers ${covered} of the ${n} targets of ${vt.slug} v${vt.version} (${(100 * coverage.fraction).toFixed(1)}%): a partial sweep is accepted, and moderators and the standings show the coverage` });
   }
-  const hw = doc.method.family === 'error-mitigated-hardware';
-  if (doc.track === 'classical' && hw) warnings.push({ path: '/track', message: 'track "classical" with method family "error-mitigated-hardware": use track "hardware" for results from a quantum processor' });
-  if (doc.track === 'hardware' && !hw && doc.method.family !== 'other') warnings.push({ path: '/method/family', message: `track "hardware" with method family "${doc.method.family}": hardware entries normally use "error-mitigated-hardware"` });
-  return { document: doc, version: vt, warnings, coverage };
+  const hw = document.method.family === 'error-mitigated-hardware';
+  if (document.track === 'classical' && hw) warnings.push({ path: '/track', message: 'track "classical" with method family "error-mitigated-hardware": use track "hardware" for results from a quantum processor' });
+  if (document.track === 'hardware' && !hw && document.method.family !== 'other') warnings.push({ path: '/method/family', message: `track "hardware" with method family "${document.method.family}": hardware entries normally use "error-mitigated-hardware"` });
+  warnings.unshift(...refusals);
+  return { document, version: vt, warnings, coverage, refusals };
 }
 
 // ------------------------------------------------------------------ dry-run score preview
