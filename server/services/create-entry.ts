@@ -1,14 +1,16 @@
 /**
  * Storing a checked entry as a draft of a team: the metadata row and its estimates in one
  * transaction (estimates inserted in batches of column arrays through unnest). Nothing is stored unless the whole document is valid:
- * callers pass the result of checkEntry.
+ * callers pass the result of checkEntry. The challenge settings (state, submission window, open
+ * tracks; see validate-entry.ts) are checked again inside the transaction with the caller's clock,
+ * so a moderator closing a track or the window after the check still wins (409, nothing stored).
  */
 import { randomUUID } from 'node:crypto';
 import { sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
 import { entries } from '../db/schema';
 import { recordAudit, type AuditActor } from './record-audit';
-import type { EntryCheck, EntryDocument, EntryEstimate } from './validate-entry';
+import { gateProblems, loadGate, refuse, type EntryCheck, type EntryDocument, type EntryEstimate } from './validate-entry';
 
 /** rows per insert statement: fewer, larger statements are faster on PGlite (measured: 20,000 beats 2,000 by about 25 %) */
 export const ESTIMATE_BATCH = 20_000;
@@ -50,6 +52,7 @@ export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string
   const { check } = p;
   const doc = check.document;
   return db.transaction(async (tx) => {
+    refuse(gateProblems(await loadGate(tx, check.version.slug), doc.track, p.now, 'create'));
     const id = randomUUID();
     await tx.insert(entries).values({
       id, lineageId: id, challengeSlug: check.version.slug, versionId: check.version.versionId, teamId: p.teamId,

@@ -1,7 +1,9 @@
 /**
  * A new revision of a published entry: a draft copy (metadata and estimates) in the same lineage,
  * revision + 1, that supersedes the published one once it is published in turn (publishEntry).
- * One open revision per lineage at a time.
+ * One open revision per lineage at a time. A revision is a new entry in effect, so the challenge
+ * settings refuse it as they refuse a new entry: challenge closed, outside the submission window, or
+ * the entry's track closed (409; see validate-entry.ts). The published entry stays as it is.
  */
 import { randomUUID } from 'node:crypto';
 import { and, eq, inArray, max, sql } from 'drizzle-orm';
@@ -9,12 +11,14 @@ import type { Db } from '../db/client';
 import { entries } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
+import { gateProblems, loadGate, refuse } from './validate-entry';
 
 export async function reviseEntry(db: Db, p: { entryId: string; actor: AuditActor; now: Date }) {
   return db.transaction(async (tx) => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
     if (e.state !== 'published') throw conflict(`This entry is ${e.state}; only a published entry is revised (a draft or returned entry is edited with PUT /api/entries/${e.id}).`);
+    refuse(gateProblems(await loadGate(tx, e.challengeSlug), e.track, p.now, 'revise'));
     const lineage = e.lineageId ?? e.id;
     const [open] = await tx.select({ id: entries.id, revision: entries.revision, state: entries.state }).from(entries)
       .where(and(eq(entries.lineageId, lineage), inArray(entries.state, ['draft', 'in-review', 'returned']))).limit(1);

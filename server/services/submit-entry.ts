@@ -1,15 +1,22 @@
-/** Sending a draft (or a returned entry) to review: from then on it is frozen. */
+/**
+ * Sending a draft (or a returned entry) to review: from then on it is frozen. A draft is sent only
+ * while the challenge takes submissions: open, inside its submission window, in an open track (409
+ * otherwise; see validate-entry.ts). A returned entry was submitted while the challenge took it and
+ * a moderator asked for a fix, so its resubmission is not held back by the settings.
+ */
 import { eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { entries } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
+import { gateProblems, loadGate, refuse } from './validate-entry';
 
 export async function submitEntry(db: Db, p: { entryId: string; actor: AuditActor; now: Date }) {
   return db.transaction(async (tx) => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
     if (e.state !== 'draft' && e.state !== 'returned') throw conflict(`This entry is ${e.state}; only a draft or a returned entry can be submitted.`);
+    if (e.state === 'draft') refuse(gateProblems(await loadGate(tx, e.challengeSlug), e.track, p.now, 'submit'));
     await tx.update(entries).set({ state: 'in-review', submittedAt: p.now, updatedAt: p.now }).where(eq(entries.id, e.id));
     await recordAudit(tx, { actor: p.actor, action: 'entry.submit', subjectType: 'entry', subjectId: e.id, details: { from: e.state } });
     return { id: e.id, state: 'in-review' as const, submittedAt: p.now };

@@ -1,6 +1,9 @@
 /**
  * Replacing the document of a draft (or returned) entry: metadata and every estimate, in one
  * transaction. A submitted entry is frozen; a published one changes only through a revision.
+ * A draft stays editable when its track, the submission window or the challenge closes (its
+ * submission is what the settings refuse, see validate-entry.ts), but an edit never moves an entry
+ * into a closed track (409).
  */
 import { eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
@@ -8,7 +11,7 @@ import { entries, estimates } from '../db/schema';
 import { conflict, invalid, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
 import { entryMetadata, insertEstimates } from './create-entry';
-import type { EntryCheck } from './validate-entry';
+import { closedTrackProblem, loadGate, refuse, type EntryCheck } from './validate-entry';
 
 export const EDITABLE_STATES = ['draft', 'returned'];
 
@@ -24,6 +27,10 @@ export async function updateEntry(db: Db, p: { entryId: string; check: EntryChec
     }
     if (e.challengeSlug !== p.check.version.slug) {
       throw invalid([{ path: '/challenge/id', message: `this entry answers ${e.challengeSlug}; an entry for ${p.check.version.slug} is a new entry (POST /api/challenges/${p.check.version.slug}/entries)` }]);
+    }
+    if (doc.track !== e.track) {
+      const move = closedTrackProblem(await loadGate(tx, e.challengeSlug), doc.track, 'move', e.track);
+      if (move) refuse([move]);
     }
     await tx.delete(estimates).where(eq(estimates.entryId, e.id));
     await insertEstimates(tx, e.id, doc.estimates);
