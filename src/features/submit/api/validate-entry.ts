@@ -6,6 +6,8 @@ export interface SweepStats { targets: number; answered: number; scored: number;
 export interface PreviewTarget { target: string; value: number; uncertainty: number; reference: number; error: number; z: number | null; covered: boolean }
 export interface ValidateResult {
   valid: true; stored: false;
+  /** whether the challenge takes it now (its state, submission window, open tracks); the warnings say why not */
+  acceptsEntries: boolean;
   challenge: { slug: string; version: number; checksum: string };
   estimates: number;
   coverage: { targets: number; covered: number; fraction: number };

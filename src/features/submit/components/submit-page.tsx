@@ -62,9 +62,9 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
   const source = (): DocumentSource => (file && !dirty ? { kind: 'file', file: file.file } : file && tooLarge ? { kind: 'file', file: file.file } : { kind: 'json', document: documentFromForm(form) });
 
   /**
-   * The server checks in two passes (the format first, then the targets), so a document with a
-   * format error does not yet hear about unknown targets. The page knows the targets, so it adds
-   * those at once rather than one round of fixes later.
+   * The server checks the targets beside the format whenever the challenge reference is
+   * well-formed; when it is not, it cannot tell which version's targets apply. The page knows the
+   * targets, so it adds those at once rather than one round of fixes later.
    */
   const withTargetProblems = (ps: Problem[], rows: EstimateRow[]): Problem[] => {
     if (ps.some((p) => /^\/(estimates\/\d+\/target|challenge)/.test(p.path))) return ps;
@@ -91,7 +91,8 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
       setProblems([]);
       setWarnings(r.warnings);
       setResult(r);
-      setMessage({ tone: 'ok', text: `The entry is valid: ${r.estimates} estimate${r.estimates === 1 ? '' : 's'}, covering ${r.coverage.covered} of ${r.coverage.targets} targets.` });
+      const valid = `The entry is valid: ${r.estimates} estimate${r.estimates === 1 ? '' : 's'}, covering ${r.coverage.covered} of ${r.coverage.targets} targets.`;
+      setMessage(r.acceptsEntries === false ? { tone: 'info', text: `${valid} The challenge does not take it now: see the warnings.` } : { tone: 'ok', text: valid });
     } catch (e) {
       setResult(null);
       setWarnings([]);
