@@ -120,12 +120,13 @@ export function algorithmA(values: readonly number[], options: AlgorithmAOptions
     let sum = 0;
     for (const v of xs) sum += v < lo ? lo : v > hi ? hi : v;
     const nx = sum / n;
+    // squared deviations relative to s (> 0 here), so tiny data do not underflow to s* = 0
     let ss = 0;
     for (const v of xs) {
-      const w = (v < lo ? lo : v > hi ? hi : v) - nx;
+      const w = ((v < lo ? lo : v > hi ? hi : v) - nx) / s;
       ss += w * w;
     }
-    const ns = 1.134 * Math.sqrt(ss / (n - 1));
+    const ns = 1.134 * s * Math.sqrt(ss / (n - 1));
     const done =
       rule === 'converged'
         ? Math.abs(nx - x) <= tol * ns && Math.abs(ns - s) <= tol * ns
