@@ -16,3 +16,13 @@ export function expectPublished(actual: number, published: string): void {
   const err = Math.abs(actual - expected);
   expect(err, `actual ${actual} vs published ${published} (tol ${tol})`).toBeLessThanOrEqual(tol);
 }
+
+/** Match a published value to every digit it is quoted with: within half a unit of its last decimal
+ * place (plus 4 ulps for the binary rounding of the quoted decimal itself). */
+export function expectAllDigits(actual: number, published: string): void {
+  const expected = Number(published);
+  const dot = published.indexOf('.');
+  const decimals = dot < 0 ? 0 : published.length - dot - 1;
+  const tol = 0.5 * 10 ** -decimals + 4 * Number.EPSILON * Math.abs(expected);
+  expect(Math.abs(actual - expected), `actual ${actual} vs published ${published} (tol ${tol})`).toBeLessThanOrEqual(tol);
+}

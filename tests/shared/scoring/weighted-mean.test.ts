@@ -27,7 +27,8 @@ describe('weighted mean (Cox 2002 procedure A)', () => {
     expect(r.test.consistent).toBe(true);
   });
   it('Birge scaling when R_B > 1', () => {
-    // direct evaluation: x = +-1, u = 0.1: y = 0, chi2 = 200, nu = 1, R_B = sqrt(200)
+    // direct evaluation: x = +-1, u = 0.1: y = 0, chi2 = 200, nu = 1, R_B = sqrt(200);
+    // the scaled uncertainty R_B u(y) is the particle-physics scale-factor rule (memory, as in SCORING.md)
     const r = weightedMean([{ value: -1, uncertainty: 0.1 }, { value: 1, uncertainty: 0.1 }]);
     expectRel(r.test.chi2, 200, 1e-12);
     expectRel(r.test.birgeRatio, Math.sqrt(200), 1e-12);
