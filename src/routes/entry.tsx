@@ -2,7 +2,7 @@ import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
 import { Link, useParams, type LoaderFunctionArgs } from 'react-router';
 import { zneSummary } from '@shared/scoring/zne';
 import { queryClient } from '@/lib/query-client';
-import { getEntryQueryOptions, useEntry, type EntryDocumentEstimate } from '@/features/entries/api/get-entry';
+import { getEntryQueryOptions, useEntry, type EntryDocumentEstimate, type EstimateScore } from '@/features/entries/api/get-entry';
 import { useTargets, type Target } from '@/features/challenges/api/get-targets';
 import { useStandings } from '@/features/standings/api/get-standings';
 import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig } from '@/lib/format';
@@ -16,29 +16,33 @@ export async function loader({ params }: LoaderFunctionArgs) {
   return null;
 }
 
-interface Scored {
+/**
+ * One estimate of the document with the server's score of it (GET /api/entries/:id, the only
+ * source of scores: sealed references never reach the client) and its target as the public sees
+ * it (the reference value with its provenance, the consensus with its estimator, disputes).
+ */
+interface Row {
   e: EntryDocumentEstimate;
   t: Target | undefined;
-  error: number | null;
-  z: number | null;
-  covered: boolean | null;
-  dU: number | null;
+  s: EstimateScore | undefined;
 }
 
-function score(e: EntryDocumentEstimate, t: Target | undefined): Scored {
-  let error: number | null = null, z: number | null = null, covered: boolean | null = null, dU: number | null = null;
-  if (t?.reference.status === 'exact') {
-    error = e.value - t.reference.value;
-    if (Math.abs(error) < 1e-12) error = 0; // rounding noise of the reference, not a difference
-    z = e.uncertainty > 0 ? error / e.uncertainty : error === 0 ? 0 : Infinity;
-    covered = Math.abs(error) <= 2 * e.uncertainty;
-  } else if (t?.consensus && t.consensus.value !== null && t.consensus.uncertainty !== null) {
-    // degree of equivalence against the consensus, U = 2 sqrt(u² + u_c²) (treated as independent)
-    const d = e.value - t.consensus.value;
-    const U = 2 * Math.sqrt(e.uncertainty ** 2 + t.consensus.uncertainty ** 2);
-    dU = U > 0 ? Math.abs(d) / U : d === 0 ? 0 : Infinity;
-  }
-  return { e, t, error, z, covered, dU };
+/** the exact reference this estimate was scored against, when the server scored it against one */
+const exactOf = (r: Row) => (r.s?.reference && r.t?.reference.status === 'exact' ? r.t.reference : null);
+
+/** an error within the rounding noise of a double (the reference's last digits) reads as 0; the title keeps the server's value */
+const NOISE = 1e-12;
+function errorText(error: number): string {
+  return formatSig(Math.abs(error) < NOISE ? 0 : error, 2);
+}
+
+function zText(ref: NonNullable<EstimateScore['reference']>): string {
+  if (ref.z !== null) return (Math.abs(ref.error) < NOISE ? 0 : ref.z).toFixed(2);
+  return Math.abs(ref.error) < NOISE ? '—' : '∞'; // no finite z: a stated uncertainty of 0
+}
+
+function dOverU(c: NonNullable<EstimateScore['consensus']>): number {
+  return c.U > 0 ? Math.abs(c.d) / c.U : c.d === 0 ? 0 : Infinity;
 }
 
 const PAGE = 30;
@@ -53,10 +57,11 @@ export function Component() {
   const [all, setAll] = useState(false);
   const [selected, setSelected] = useState('');
 
-  const scored = useMemo(() => {
+  const rows = useMemo((): Row[] => {
     const ests = q.data?.document?.estimates ?? [];
     const byKey = new Map((tq.data?.targets ?? []).map((t) => [t.key, t]));
-    return ests.map((e) => score(e, byKey.get(e.target)));
+    const scoreOf = new Map((q.data?.scores ?? []).map((x) => [x.target, x]));
+    return ests.map((e) => ({ e, t: byKey.get(e.target), s: scoreOf.get(e.target) }));
   }, [q.data, tq.data]);
 
   if (q.isPending) return <PageLoading label="Loading the entry…" />;
@@ -64,11 +69,12 @@ export function Component() {
   const en = q.data;
   const doc = en.document;
   const row = st.data?.entries.find((x) => x.id === en.id);
-  const shown = scored.filter((s) => !filter || s.e.target.includes(filter));
+  const shown = rows.filter((s) => !filter || s.e.target.includes(filter));
   const page = all ? shown : shown.slice(0, PAGE);
-  const sel = scored.find((s) => s.e.target === selected);
-  const hasZne = scored.some((s) => s.e.noiseScaled?.length);
-  const hasTrace = scored.some((s) => s.e.convergence?.length);
+  const sel = rows.find((s) => s.e.target === selected);
+  const hasZne = rows.some((s) => s.e.noiseScaled?.length);
+  const hasTrace = rows.some((s) => s.e.convergence?.length);
+  const estimator = tq.data?.estimator;
   const res = doc?.resources;
 
   return (
@@ -117,7 +123,7 @@ export function Component() {
           <Panel
             title="Estimates"
             id="entry-estimates"
-            description={<span className="num">{scored.length} estimates · {formatPercent(en.coverage.fraction)} of the grid{hasZne ? ' · choose one for the zero-noise re-analysis' : hasTrace ? ' · choose one for its convergence trace' : ''}</span>}
+            description={<span className="num">{rows.length} estimates · {formatPercent(en.coverage.fraction)} of the grid{hasZne ? ' · choose one for the zero-noise re-analysis' : hasTrace ? ' · choose one for its convergence trace' : ''}</span>}
           >
             <div className="mb-3 flex flex-wrap items-center gap-2 text-sm">
               <label className="grow sm:grow-0">
@@ -126,7 +132,7 @@ export function Component() {
               </label>
               <span className="num ml-auto text-ink-soft">{shown.length} shown</span>
             </div>
-            {tq.isError && <p className="mb-2 text-sm text-danger">The references could not be loaded; scores are missing.</p>}
+            {tq.isError && <p className="mb-2 text-sm text-danger">The references could not be loaded: their values and provenance are missing here (the scores are the server's).</p>}
             <div className="-mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
               <table className="w-full border-collapse text-sm sm:min-w-[46rem]" data-testid="entry-estimates">
                 <caption className="sr-only">Every estimate of this entry with its score against the exact reference or the consensus</caption>
@@ -144,6 +150,8 @@ export function Component() {
                 <tbody>
                   {page.map((s) => {
                     const r = s.t?.reference;
+                    const ref = s.s?.reference ?? null;
+                    const cons = ref ? null : s.s?.consensus ?? null;
                     const on = selected === s.e.target;
                     const extra = s.e.noiseScaled?.length || s.e.convergence?.length;
                     return (
@@ -159,22 +167,36 @@ export function Component() {
                         <td className="border-b border-rule px-2 py-1.5 text-right"><Measured value={s.e.value} u={s.e.uncertainty} /><span className="hidden text-[11px] text-ink-faint sm:block">{s.e.uncertaintyKind}</span></td>
                         <td className="border-b border-rule px-2 py-1.5 text-right">
                           {r?.status === 'exact' ? (
-                            <span className="inline-flex items-baseline">
-                              <Measured value={r.value} u={r.uncertainty} exactLabel={false} />
-                              <Provenance label={`Provenance of the reference of ${s.e.target}`}>
-                                <ProvenanceList items={[['Method', r.method], ['Size', Object.entries(r.size ?? {}).map(([k, v]) => `${v} ${k}`).join(', ') || '—'], ['Engine', r.engineVersion ?? '—'], ['Computed', formatDateTime(r.createdAt)], ['Wall time', r.wallMs !== null ? `${formatSig(r.wallMs, 3)} ms` : '—']]} />
-                              </Provenance>
+                            <span className="inline-block">
+                              <span className="inline-flex items-baseline">
+                                <Measured value={r.value} u={r.uncertainty} exactLabel={false} />
+                                <Provenance label={`Provenance of the reference of ${s.e.target}`}>
+                                  <ProvenanceList items={[['Method', r.method], ['Size', Object.entries(r.size ?? {}).map(([k, v]) => `${v} ${k}`).join(', ') || '—'], ['Engine', r.engineVersion ?? '—'], ['Computed', formatDateTime(r.createdAt)], ['Wall time', r.wallMs !== null ? `${formatSig(r.wallMs, 3)} ms` : '—']]} />
+                                </Provenance>
+                              </span>
+                              <span className="hidden text-[11px] text-ink-faint sm:block">exact ({r.method})</span>
                             </span>
                           ) : s.t?.consensus ? (
-                            <span className="text-consensus-ink" title={`consensus (${s.t.consensus.estimator}) of ${s.t.consensus.entries} entries`}><Measured value={s.t.consensus.value} u={s.t.consensus.uncertainty} /><span className="block text-[11px]">consensus</span></span>
+                            <span className="inline-block text-consensus-ink">
+                              <span className="inline-flex items-baseline">
+                                <Measured value={s.t.consensus.value} u={s.t.consensus.uncertainty} />
+                                <Provenance label={`Provenance of the consensus of ${s.e.target}`}>
+                                  <ProvenanceList items={[['Estimator', s.t.consensus.estimator], ['Entries', String(s.t.consensus.entries)], ['χ²/ν', s.t.consensus.chi2 !== null && s.t.consensus.nu ? `${formatSig(s.t.consensus.chi2, 3)}/${s.t.consensus.nu}` : '—'], ['Birge ratio', formatSig(s.t.consensus.birgeRatio, 3)], ['τ²', formatSig(s.t.consensus.tau2, 3)], ['Standings', formatDateTime(tq.data?.standingsComputedAt ?? null)]]} />
+                                </Provenance>
+                              </span>
+                              <span className="block text-[11px]">consensus<span className="hidden sm:inline">, {s.t.consensus.estimator}</span></span>
+                            </span>
                           ) : (
                             <span className="text-ink-faint">{r?.status ?? '—'}</span>
                           )}
                         </td>
-                        <td className="num hidden border-b border-rule px-2 py-1.5 text-right sm:table-cell">{s.error === null ? '—' : formatSig(s.error, 2)}</td>
-                        <td className={cx('num border-b border-rule px-2 py-1.5 text-right', s.z !== null && Math.abs(s.z) > 3 && 'text-danger')}>{s.z === null ? '—' : Number.isFinite(s.z) ? s.z.toFixed(2) : '∞'}</td>
-                        <td className="hidden border-b border-rule px-2 py-1.5 text-center sm:table-cell">{s.covered === null ? '—' : s.covered ? <span className="text-ok-ink">yes</span> : <span className="text-danger">no</span>}</td>
-                        <td className={cx('num border-b border-rule py-1.5 pl-2 text-right', s.dU !== null && s.dU > 1 && 'text-disputed-ink')}>{s.dU === null ? '—' : formatSig(s.dU, 2)}</td>
+                        <td className="num hidden border-b border-rule px-2 py-1.5 text-right sm:table-cell" title={ref ? String(ref.error) : undefined}>{ref ? errorText(ref.error) : '—'}</td>
+                        <td className={cx('num border-b border-rule px-2 py-1.5 text-right', ref && (ref.z === null ? Math.abs(ref.error) >= NOISE : Math.abs(ref.z) > 3) && 'text-danger')}>{ref ? zText(ref) : '—'}</td>
+                        <td className="hidden border-b border-rule px-2 py-1.5 text-center sm:table-cell">{!ref ? '—' : ref.covered ? <span className="text-ok-ink">yes</span> : <span className="text-danger">no</span>}</td>
+                        <td
+                          className={cx('num border-b border-rule py-1.5 pl-2 text-right', cons && dOverU(cons) > 1 && 'text-disputed-ink')}
+                          title={cons ? `d = ${formatSig(cons.d, 2)}, U = ${formatSig(cons.U, 2)} against the consensus${estimator ? ` (${estimator})` : ''}; this entry is ${cons.included ? 'in' : 'not in'} it` : undefined}
+                        >{!cons ? '—' : Number.isFinite(dOverU(cons)) ? formatSig(dOverU(cons), 2) : '∞'}</td>
                       </tr>
                     );
                   })}
@@ -184,7 +206,7 @@ export function Component() {
             {shown.length > PAGE && (
               <button type="button" className={buttonClass('ghost', 'sm', 'mt-2')} onClick={() => setAll(!all)} aria-expanded={all}>{all ? 'Show fewer' : `Show all ${shown.length}`}</button>
             )}
-            <p className="mt-2 text-xs text-ink-soft">Error = estimate − exact reference; z = error / u; covered when |error| ≤ 2u. Where no exact value exists, |d|/U compares with the consensus (U = 2√(u² + u<sub>c</sub>²)).</p>
+            <p className="mt-2 text-xs text-ink-soft">Scores by the Parallax server. Error = estimate − exact reference; z = error / u; covered when |error| ≤ 2u. Where no exact value is public, |d|/U compares with the consensus of the current standings: d = estimate − consensus, U = 2u(d) with u²(d) = u² + τ² − u<sub>c</sub>² for an entry in the consensus, + u<sub>c</sub>² for one outside it.</p>
           </Panel>
 
           {sel && <EstimateDetail s={sel} track={en.track} />}
@@ -257,13 +279,14 @@ export function Component() {
 
 const MODEL_LABEL: Record<string, string> = { richardson: 'Richardson', linear: 'linear fit', 'polynomial-2': 'quadratic fit', exponential: 'exponential (asymptote 0)', 'exponential-free-asymptote': 'exponential (free asymptote)' };
 
-function EstimateDetail({ s, track }: { s: Scored; track: 'hardware' | 'classical' }) {
+function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' }) {
   const [table, setTable] = useState(false);
   useEffect(() => { document.getElementById('entry-detail')?.scrollIntoView({ block: 'nearest' }); }, [s.e.target]);
-  const ref = s.t?.reference.status === 'exact' ? s.t.reference.value : null;
+  const exact = exactOf(s);
+  const ref = exact ? exact.value : null;
   const zne = useMemo(() => (s.e.noiseScaled?.length ? zneSummary(s.e.noiseScaled.map((p) => ({ scale: p.scale, value: p.value, uncertainty: p.uncertainty }))) : null), [s.e.noiseScaled]);
   return (
-    <Panel title={<>Estimate <code>{s.e.target}</code></>} id="entry-detail" description={<>The team's value <Measured value={s.e.value} u={s.e.uncertainty} />{ref !== null && <> · exact <Measured value={ref} u={0} exactLabel={false} /></>}</>}>
+    <Panel title={<>Estimate <code>{s.e.target}</code></>} id="entry-detail" description={<>The team's value <Measured value={s.e.value} u={s.e.uncertainty} />{exact && <> · exact ({exact.method}) <Measured value={exact.value} u={exact.uncertainty} exactLabel={false} /></>}</>}>
       {zne && (
         <div data-testid="zne">
           <h3 className="mb-1 text-base font-semibold">Zero-noise re-analysis</h3>
@@ -280,7 +303,7 @@ function EstimateDetail({ s, track }: { s: Scored; track: 'hardware' | 'classica
               <tr className="bg-paper-sunk/60">
                 <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-medium">the team's value</th>
                 <td className="border-b border-rule px-2 py-1 text-right"><Measured value={s.e.value} u={s.e.uncertainty} /></td>
-                <td className="num border-b border-rule py-1 pl-2 text-right">{ref !== null ? formatSig(s.e.value - ref, 2) : ''}</td>
+                <td className="num border-b border-rule py-1 pl-2 text-right">{s.s?.reference && ref !== null ? errorText(s.s.reference.error) : ''}</td>
               </tr>
               {zne.models.map((m) => (
                 <tr key={m.model}>

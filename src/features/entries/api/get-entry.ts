@@ -19,6 +19,16 @@ export interface EntryDocument {
 }
 export interface EntryRevision { id: string; revision: number; state: string; publishedAt: string | null; supersedesId: string | null }
 export interface EntryHistoryItem { at: string; action: string; reason?: string }
+/**
+ * The server's score of one estimate (server/presenters/entry.ts): against the exact reference where
+ * it is public (error = estimate − reference, z = error / u, covered when |error| ≤ 2u), and the
+ * degree of equivalence with the consensus of the latest public standings (d, U with k = 2).
+ */
+export interface EstimateScore {
+  target: string;
+  reference: { error: number; z: number | null; covered: boolean } | null;
+  consensus: { d: number; U: number; included: boolean } | null;
+}
 export interface Entry {
   id: string;
   challenge: { slug: string; version: number | null; checksum: string | null };
@@ -31,6 +41,8 @@ export interface Entry {
   revisions: EntryRevision[];
   history?: EntryHistoryItem[];
   document?: EntryDocument;
+  /** one per estimate of the document (sent with the document) */
+  scores?: EstimateScore[];
 }
 
 export const getEntry = (entryId: string, signal?: AbortSignal) => api.get<Entry>(`/entries/${encodeURIComponent(entryId)}`, { signal });
