@@ -169,7 +169,11 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
         for (let b = a + 1; b < idx.length; b++) {
           const ua = ms[a].uncertainty;
           const ub = ms[b].uncertainty;
-          const r = equivalenceRatio(ms[a].value - ms[b].value, 2 * Math.sqrt(ua * ua + ub * ub)); // not Math.hypot: several times slower in V8
+          // sqrt(ua^2 + ub^2) relative to the larger (tiny u must not underflow to U = 0); not
+          // Math.hypot: several times slower in V8
+          const um = ua > ub ? ua : ub;
+          const U = um > 0 ? 2 * um * Math.sqrt((ua / um) * (ua / um) + (ub / um) * (ub / um)) : 0;
+          const r = equivalenceRatio(ms[a].value - ms[b].value, U);
           if (!Number.isFinite(r)) continue;
           const i = idx[a];
           const j = idx[b];
