@@ -384,3 +384,33 @@ describe('degrees of equivalence of a dominant result (u = 1e-12 beside u = 0.01
     }
   });
 });
+
+describe('huge spreads', () => {
+  it('values over the whole format range (|x| <= 1e15) with u from 1e-6 to 1: finite results; random effects absorb the spread into tau', () => {
+    const arbHuge = fc.array(
+      fc.record({ value: fc.double({ min: -1e15, max: 1e15, noNaN: true }), uncertainty: fc.double({ min: 1e-6, max: 1, noNaN: true }) }),
+      { minLength: 2, maxLength: 8, size: 'max' },
+    );
+    fc.assert(
+      fc.property(arbHuge, (xs) => {
+        for (const e of CONSENSUS_ESTIMATORS) {
+          const c = consensus(xs, e, { median: { trials: 20 } });
+          expect(Number.isFinite(c.value), e).toBe(true);
+          expect(Number.isFinite(c.uncertainty), e).toBe(true);
+          expect(c.value).toBeGreaterThanOrEqual(Math.min(...xs.map((m) => m.value)) - 1);
+          expect(c.value).toBeLessThanOrEqual(Math.max(...xs.map((m) => m.value)) + 1);
+        }
+        const spread = Math.max(...xs.map((m) => m.value)) - Math.min(...xs.map((m) => m.value));
+        if (spread > 1e3) {
+          for (const m of ['DL', 'PM', 'REML'] as const) {
+            const r = randomEffects(xs, m);
+            // with u negligible beside the spread, every estimator of tau is of the order of the spread
+            expect(Math.sqrt(r.tau2), m).toBeGreaterThan(spread / (10 * xs.length));
+            expect(Math.sqrt(r.tau2), m).toBeLessThan(spread);
+          }
+        }
+      }),
+      { seed: 1313, numRuns: 200 },
+    );
+  });
+});
