@@ -404,8 +404,9 @@ describe('huge spreads', () => {
         if (spread > 1e3) {
           for (const m of ['DL', 'PM', 'REML'] as const) {
             const r = randomEffects(xs, m);
-            // with u negligible beside the spread, every estimator of tau is of the order of the spread
-            expect(Math.sqrt(r.tau2), m).toBeGreaterThan(spread / (10 * xs.length));
+            // with u negligible beside the spread, PM and REML put tau at the order of the spread (DL
+            // can be far below it when the far result has the smallest weight: a known DL bias)
+            if (m !== 'DL') expect(Math.sqrt(r.tau2), m).toBeGreaterThan(spread / (10 * xs.length));
             expect(Math.sqrt(r.tau2), m).toBeLessThan(spread);
           }
         }
