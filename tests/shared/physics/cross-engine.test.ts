@@ -148,7 +148,7 @@ describe('exact engines agree on random kicked-Ising instances (every lattice ki
         // |<O>| <= sum |coef|
         expect(Math.abs(ref)).toBeLessThanOrEqual(obs.terms.reduce((s, t) => s + Math.abs(t.coef), 0) + 1e-12);
       }),
-      { seed: 20240601, numRuns: 150 },
+      { seed: 20240601, numRuns: 80 },
     );
   });
 
@@ -276,7 +276,7 @@ describe('exact engines agree on random gate lists (gates family, whole gate set
         expect(chosen.value).not.toBeNull();
         if (chosen.value !== null) close(chosen.value, 'chosen method');
       }),
-      { seed: 31337, numRuns: 60 },
+      { seed: 31337, numRuns: 40 },
     );
   });
 });
