@@ -12,7 +12,7 @@
  * Scale: the weights are taken relative to the smallest uncertainty, w_i = (u_min/u_i)^2 <= 1, and
  * chi2 terms as ((x_i - y)/u_i)^2, so that no u_i^2 or 1/u_i^2 is formed: uncertainties down to the
  * smallest doubles (the entry format allows any u >= 0) give finite results, and the results are
- * exactly equivariant under a common scaling of values and uncertainties.
+ * equivariant (to rounding) under a common scaling of values and uncertainties.
  */
 import { chiSquaredSurvival } from './special';
 import type { ConsistencyTest, Measurement } from './types';
