@@ -2,6 +2,7 @@
  * The app factory: everything the server does, given a database, a mailer, a clock and a config.
  * Tests build a fresh app on a fresh database with it; server/index.ts builds the real one.
  */
+import { Slots } from './util/document-body';
 import { randomUUID } from 'node:crypto';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
@@ -45,6 +46,8 @@ export interface AppContext {
   now: () => Date;
   /** wakes the background worker after a job is queued (set by boot when a worker runs here) */
   jobs: { kick(): void };
+  /** processing slots shared by every route that reads a large document (server/util/document-body.ts) */
+  documentSlots: Slots;
 }
 
 export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
@@ -53,7 +56,7 @@ export async function createApp(deps: AppDeps) {
   const now = deps.now ?? (() => new Date());
   const { config, log, database } = deps;
   const auth = createAuth({ db: database.db, config, mailer: deps.mailer, log });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now, jobs: { kick: () => {} } };
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots) };
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 

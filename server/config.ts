@@ -28,6 +28,8 @@ export interface Config {
   jsonLimitBytes: number;
   /** maximum upload size for entry files */
   uploadLimitBytes: number;
+  /** how many large documents (entries, challenge specs) are read and processed at once */
+  documentSlots: number;
   /** extra origins trusted for cookie-bearing writes (e.g. the Vite dev server) */
   trustedOrigins: string[];
   seedDemo: boolean;
@@ -73,6 +75,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustProxyHops: Number(env.TRUST_PROXY_HOPS ?? 0),
     jsonLimitBytes: 1024 * 1024 * Number(env.JSON_LIMIT_MIB ?? 12),
     uploadLimitBytes: 1024 * 1024 * Number(env.UPLOAD_LIMIT_MIB ?? 10),
+    documentSlots: Math.max(1, Number(env.DOCUMENT_SLOTS ?? 2)),
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
     logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',

@@ -3,7 +3,6 @@
  * their references, downloads), and the moderators' draft and publish actions.
  */
 import { asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
-import multer from 'multer';
 import { z } from 'zod';
 import { buildLattice } from '@shared/physics/lattices';
 import { compileInstance } from '@shared/physics/compile';
@@ -13,14 +12,16 @@ import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../app';
 import type { Db } from '../db/client';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
-import { badRequest, notFound } from '../errors';
+import { AppError, badRequest, notFound } from '../errors';
 import { createChallengeVersion, instanceShapes, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { parseBody } from '../validate';
 import { standingsCache } from '../services/standings-cache';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
-import type { Request } from 'express';
+import type { Request, Response } from 'express';
+import { documentBody } from '../util/document-body';
+import { parseStrictJson } from '../util/strict-json';
 
 const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
 
@@ -40,21 +41,25 @@ export async function loadChallengeVersion(db: Db, req: Request) {
 }
 
 const publishBody = z.object({ version: z.number().int().positive().optional(), reason: z.string().trim().max(2000).optional() }).strict();
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 10 * 1024 * 1024, files: 1, fields: 5, parts: 6 } });
+const SPEC_LIMIT = 10 * 1024 * 1024;
 
-function specFromRequest(req: Request): unknown {
-  if (req.file) {
-    try {
-      return JSON.parse(req.file.buffer.toString('utf8'));
-    } catch (e) {
-      throw badRequest(`The uploaded file is not valid JSON (${(e as Error).message.slice(0, 120)}).`, [{ path: '', message: 'upload a JSON challenge spec (schemas/challenge.schema.json)' }]);
-    }
-  }
-  return req.body;
+/** The spec: the uploaded file (strict JSON: duplicate keys and inexact integers are refused), or the JSON body. */
+function specFromRequest(req: Request, res: Response): unknown {
+  const bytes = res.locals.document as Buffer | undefined;
+  if (!bytes) return req.body;
+  const r = parseStrictJson(bytes, { maxDepth: 64 });
+  if (r.ok) return r.value;
+  throw badRequest(`The uploaded file is not a valid JSON challenge spec: ${r.problems[0].path ? `${r.problems[0].path}: ` : ''}${r.problems[0].message}.`, r.problems.map((p) => ({ path: p.path, message: p.message })).concat(r.syntax ? [{ path: '', message: 'upload a JSON challenge spec (schemas/challenge.schema.json)' }] : []));
 }
 
 export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
+  /** a spec as multipart field "file" (a JSON body goes through the global JSON parser) */
+  const upload = documentBody({
+    limit: SPEC_LIMIT, slots: ctx.documentSlots, rawBody: false,
+    tooLarge: () => new AppError('payload_too_large', `The challenge spec is larger than the limit of 10 MiB (${SPEC_LIMIT} bytes).`),
+    wrongField: 'Upload the challenge spec in the multipart field "file" (curl -F file=@spec.json), one file only.',
+  });
 
   routes.add({
     method: 'get', path: '/challenges', access: 'public', summary: 'The catalogue: every published challenge with its size, depth range, targets, exact share and entries per track',
@@ -172,9 +177,9 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
 
   routes.add({
     method: 'post', path: '/challenges/preview', access: 'moderator', summary: 'Validate a spec and show the planner report without storing anything',
-    middleware: [upload.single('file')],
-    handler: async (req) => {
-      const ch = validateSpecOrThrow(specFromRequest(req));
+    middleware: [upload],
+    handler: async (req, res) => {
+      const ch = validateSpecOrThrow(specFromRequest(req, res));
       const plans = planChallenge(ch);
       const graph = buildLattice(ch.spec.lattice);
       return {
@@ -188,9 +193,9 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
 
   routes.add({
     method: 'post', path: '/challenges', access: 'moderator', summary: 'Store a draft challenge version from a spec (JSON body or multipart field "file")',
-    middleware: [upload.single('file')],
+    middleware: [upload],
     handler: async (req, res) => {
-      const out = await createChallengeVersion(db, specFromRequest(req), req.actor, ctx.now());
+      const out = await createChallengeVersion(db, specFromRequest(req, res), req.actor, ctx.now());
       res.status(201);
       return out;
     },

@@ -9,8 +9,7 @@
  * takesEntryDocument and server/app.ts) so that the strict parser can report duplicate keys,
  * integers beyond 2^53 and deep nesting, which JSON.parse would hide.
  */
-import express, { type NextFunction, type Request, type Response } from 'express';
-import multer from 'multer';
+import { type Request, type Response } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../app';
@@ -25,6 +24,7 @@ import { submitEntry } from '../services/submit-entry';
 import { withdrawEntry } from '../services/withdraw-entry';
 import { reviseEntry } from '../services/revise-entry';
 import { parseBody } from '../validate';
+import { documentBody as readDocumentBody } from '../util/document-body';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
 
@@ -42,32 +42,15 @@ const mib = (b: number) => `${(b / 1024 / 1024).toFixed(b % (1024 * 1024) ? 1 : 
 export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
   const limit = ctx.config.uploadLimitBytes;
-  const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: limit, files: 1, fields: 5, parts: 6 } });
-  const text = express.text({ type: () => true, limit });
   const tooLarge = () => new AppError('payload_too_large', `The entry document is larger than the limit of ${mib(limit)} (${limit} bytes). Write it without indentation, or split the sweep into several entries (at most ${MAX_ESTIMATES} estimates each).`);
 
-  /** Reads the entry document as text: multipart field "file", or the raw body. */
-  const documentBody = (req: Request, res: Response, next: NextFunction) => {
-    if (req.is('multipart/form-data')) {
-      upload.single('file')(req, res, (err?: unknown) => {
-        if (!err) return next();
-        const code = (err as { code?: string }).code;
-        if (code === 'LIMIT_FILE_SIZE') return next(tooLarge());
-        if (code === 'LIMIT_UNEXPECTED_FILE') return next(badRequest('Upload the entry document in the multipart field "file" (curl -F file=@entry.json), one file only.'));
-        return next(badRequest(`The multipart upload could not be read (${String((err as Error).message ?? err).slice(0, 120)}); send curl -F file=@entry.json, or the JSON itself as the body.`));
-      });
-      return;
-    }
-    text(req, res, (err?: unknown) => {
-      if (!err) return next();
-      if ((err as { type?: string }).type === 'entity.too.large') return next(tooLarge());
-      next(err);
-    });
-  };
+  /** Reads the entry document (multipart field "file", or the raw body) to disk, then as text under a slot. */
+  const documentBody = readDocumentBody({ limit, slots: ctx.documentSlots, tooLarge, rawBody: true, wrongField: 'Upload the entry document in the multipart field "file" (curl -F file=@entry.json), one file only.' });
 
-  const documentText = (req: Request): string => {
-    if (req.file) return req.file.buffer.toString('utf8');
-    if (typeof req.body === 'string' && req.body.length) return req.body;
+  /** the document's UTF-8 bytes (a view of a reused buffer: parse it, never keep it) */
+  const documentText = (res: Response): Uint8Array => {
+    const bytes = res.locals.document as Buffer | undefined;
+    if (bytes?.length) return bytes;
     throw badRequest('Send the entry document (schemas/entry.schema.json) as the JSON body with Content-Type: application/json, or as the multipart field "file".', [{ path: '', message: 'the body is empty' }]);
   };
 
@@ -108,7 +91,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     middleware: [documentBody],
     handler: async (req, res) => {
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(req), { slug: String(req.params.slug), now, purpose: 'create' });
+      const check = await validateEntryDocument(db, documentText(res), { slug: String(req.params.slug), now, purpose: 'create' });
       const doc = check.document;
       const teamId = (await postingTeam(req))!;
       const out = await createEntry(db, { check, teamId, actor: req.actor, now });
@@ -121,9 +104,9 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     method: 'post', path: '/entries/validate', access: 'public',
     summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing',
     middleware: [documentBody],
-    handler: async (req) => {
+    handler: async (req, res) => {
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(req), { now, purpose: 'dry-run' });
+      const check = await validateEntryDocument(db, documentText(res), { now, purpose: 'dry-run' });
       const doc = check.document;
       const scores = await previewScores(db, check, now);
       // acceptsEntries: whether POST /api/challenges/<id>/entries would take it now (the warnings say why not)
@@ -146,10 +129,10 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     method: 'put', path: '/entries/:entryId', access: 'team-member', apiKey: true, team: entryTeam,
     summary: "Replace a draft's (or returned entry's) whole document; submitted and published entries are frozen",
     middleware: [documentBody],
-    handler: async (req) => {
+    handler: async (req, res) => {
       const e = await loadEntry(req);
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(req), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state } });
+      const check = await validateEntryDocument(db, documentText(res), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state } });
       const doc = check.document;
       const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now });
       return { ...out, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings };

@@ -7,6 +7,10 @@
  *  - nesting deeper than a limit (default 32), without recursing further;
  *  - syntax errors with line, column and what was expected.
  * It builds the same values JSON.parse would (objects get a null-free own-property layout).
+ *
+ * It reads UTF-8 bytes (a string is encoded first), so that a large upload can be parsed straight
+ * from a reused buffer without first becoming a string of its own size (server/util/document-body.ts):
+ * only the keys, strings and numbers it returns are allocated. Bytes that are not UTF-8 are refused.
  */
 import type { FieldProblem } from '../errors';
 
@@ -26,26 +30,41 @@ const esc = (k: string) => k.replace(/~/g, '~0').replace(/\//g, '~1');
 class SyntaxProblem extends Error {}
 class DepthProblem extends Error {}
 
-export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): StrictJsonResult {
+const utf8 = new TextDecoder('utf-8', { fatal: true });
+const lenient = new TextDecoder('utf-8');
+const latin1 = (b: Uint8Array, from: number, to: number) => {
+  let out = '';
+  for (let k = from; k < to; k++) out += String.fromCharCode(b[k]);
+  return out;
+};
+
+export function parseStrictJson(input: string | Uint8Array, opts: StrictJsonOptions = {}): StrictJsonResult {
   const maxDepth = opts.maxDepth ?? DEFAULT_MAX_DEPTH;
   const maxProblems = opts.maxProblems ?? 50;
   const problems: FieldProblem[] = [];
+  const text: Uint8Array = typeof input === 'string' ? new TextEncoder().encode(input) : input;
   let i = 0;
   const n = text.length;
   // a byte-order mark is harmless; skip it
-  if (text.charCodeAt(0) === 0xfeff) i = 1;
+  if (text[0] === 0xef && text[1] === 0xbb && text[2] === 0xbf) i = 3;
 
+  /** line and column in characters (UTF-8 continuation bytes do not count) */
   const where = (at: number) => {
     let line = 1;
     let col = 1;
+    let ch = 0;
     for (let k = 0; k < at && k < n; k++) {
-      if (text.charCodeAt(k) === 10) { line++; col = 1; } else col++;
+      const c = text[k];
+      if ((c & 0xc0) === 0x80) continue;
+      ch++;
+      if (c === 10) { line++; col = 1; } else col++;
     }
-    return `line ${line}, column ${col}`;
+    return { line, col, ch };
   };
-  const describe = (at: number) => (at >= n ? 'the end of the document' : `${JSON.stringify(text.slice(at, at + 12))}`);
+  const describe = (at: number) => (at >= n ? 'the end of the document' : `${JSON.stringify(lenient.decode(text.subarray(at, Math.min(n, at + 12))))}`);
   const fail = (expected: string, at = i): never => {
-    problems.push({ path: '', message: `not valid JSON at ${where(at)} (character ${at + 1}): expected ${expected}, found ${describe(at)}` });
+    const w = where(at);
+    problems.push({ path: '', message: `not valid JSON at line ${w.line}, column ${w.col} (character ${w.ch + 1}): expected ${expected}, found ${describe(at)}` });
     throw new SyntaxProblem();
   };
   const problem = (p: FieldProblem) => {
@@ -54,7 +73,7 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
 
   const ws = () => {
     while (i < n) {
-      const c = text.charCodeAt(i);
+      const c = text[i];
       if (c === 32 || c === 10 || c === 13 || c === 9) i++;
       else break;
     }
@@ -64,10 +83,20 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
     // i is at the opening quote
     const start = ++i;
     let escaped = false;
+    let ascii = true;
     while (i < n) {
-      const c = text.charCodeAt(i);
+      const c = text[i];
       if (c === 34) {
-        const raw = text.slice(start, i);
+        const end = i;
+        let raw: string;
+        if (ascii) raw = latin1(text, start, end);
+        else {
+          try {
+            raw = utf8.decode(text.subarray(start, end));
+          } catch {
+            return fail('text in UTF-8 (the string holds bytes that are not UTF-8: save the file as UTF-8)', start - 1);
+          }
+        }
         i++;
         if (!escaped) return raw;
         try {
@@ -77,7 +106,8 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
         }
       }
       if (c === 92) { escaped = true; i += 2; continue; }
-      if (c < 32) fail('the end of the string (control characters such as a line break must be escaped)', i);
+      if (c >= 0x80) ascii = false;
+      else if (c < 32) fail('the end of the string (control characters such as a line break must be escaped)', i);
       i++;
     }
     return fail('the closing quote " of the string', start - 1);
@@ -86,31 +116,31 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
   const num = (ptr: string): number => {
     const start = i;
     let isInt = true;
-    if (text.charCodeAt(i) === 45) i++;
+    if (text[i] === 45) i++;
     const d0 = i;
-    if (text.charCodeAt(i) === 48) i++;
+    if (text[i] === 48) i++;
     else {
-      while (i < n && text.charCodeAt(i) >= 48 && text.charCodeAt(i) <= 57) i++;
+      while (i < n && text[i] >= 48 && text[i] <= 57) i++;
     }
     if (i === d0) fail('a digit', i);
-    if (text.charCodeAt(i) === 46) {
+    if (text[i] === 46) {
       isInt = false;
       i++;
       const f0 = i;
-      while (i < n && text.charCodeAt(i) >= 48 && text.charCodeAt(i) <= 57) i++;
+      while (i < n && text[i] >= 48 && text[i] <= 57) i++;
       if (i === f0) fail('a digit after the decimal point', i);
     }
-    const e = text.charCodeAt(i);
+    const e = text[i];
     if (e === 101 || e === 69) {
       isInt = false;
       i++;
-      const s = text.charCodeAt(i);
+      const s = text[i];
       if (s === 43 || s === 45) i++;
       const x0 = i;
-      while (i < n && text.charCodeAt(i) >= 48 && text.charCodeAt(i) <= 57) i++;
+      while (i < n && text[i] >= 48 && text[i] <= 57) i++;
       if (i === x0) fail('a digit in the exponent', i);
     }
-    const lit = text.slice(start, i);
+    const lit = latin1(text, start, i);
     const v = Number(lit);
     if (isInt && !Number.isSafeInteger(v)) {
       problem({ path: ptr, message: `the integer ${lit.length > 40 ? lit.slice(0, 40) + '...' : lit} is beyond 2^53 and cannot be stored exactly: write it as a decimal number (e.g. 1.5e20) or as a string if it is an identifier` });
@@ -121,8 +151,8 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
   };
 
   const lit = (word: string | null, v: unknown) => {
-    if (word && text.startsWith(word, i)) { i += word.length; return v; }
-    const bare = /^[A-Za-z+-][A-Za-z0-9.+-]*/.exec(text.slice(i, i + 20))?.[0];
+    if (word && latin1(text, i, Math.min(n, i + word.length)) === word) { i += word.length; return v; }
+    const bare = /^[A-Za-z+-][A-Za-z0-9.+-]*/.exec(latin1(text, i, Math.min(n, i + 20)))?.[0];
     if (bare && /^[+-]?(NaN|Infinity|inf|nan)$/i.test(bare)) {
       return fail(`a JSON value (${bare} is not JSON: JSON has no NaN or Infinity; leave the estimate out or give a finite number)`);
     }
@@ -131,7 +161,7 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
 
   const value = (ptr: string, depth: number): unknown => {
     ws();
-    const c = text.charCodeAt(i);
+    const c = text[i];
     if (c === 123) { // {
       if (depth >= maxDepth) {
         problems.push({ path: ptr, message: `the document is nested deeper than ${maxDepth} levels (the limit): entries need at most 5` });
@@ -141,13 +171,13 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
       const obj: Record<string, unknown> = {};
       const seen = new Set<string>();
       ws();
-      if (text.charCodeAt(i) === 125) { i++; return obj; }
+      if (text[i] === 125) { i++; return obj; }
       for (;;) {
         ws();
-        if (text.charCodeAt(i) !== 34) fail('a key in double quotes');
+        if (text[i] !== 34) fail('a key in double quotes');
         const key = str();
         ws();
-        if (text.charCodeAt(i) !== 58) fail('a colon : after the key');
+        if (text[i] !== 58) fail('a colon : after the key');
         i++;
         const kp = `${ptr}/${esc(key)}`;
         const v = value(kp, depth + 1);
@@ -156,7 +186,7 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
         if (key === '__proto__') Object.defineProperty(obj, key, { value: v, enumerable: true, writable: true, configurable: true });
         else obj[key] = v;
         ws();
-        const d = text.charCodeAt(i);
+        const d = text[i];
         if (d === 44) { i++; continue; }
         if (d === 125) { i++; return obj; }
         fail('a comma , or the closing brace }');
@@ -170,11 +200,11 @@ export function parseStrictJson(text: string, opts: StrictJsonOptions = {}): Str
       i++;
       const arr: unknown[] = [];
       ws();
-      if (text.charCodeAt(i) === 93) { i++; return arr; }
+      if (text[i] === 93) { i++; return arr; }
       for (;;) {
         arr.push(value(`${ptr}/${arr.length}`, depth + 1));
         ws();
-        const d = text.charCodeAt(i);
+        const d = text[i];
         if (d === 44) { i++; continue; }
         if (d === 93) { i++; return arr; }
         fail('a comma , or the closing bracket ]');

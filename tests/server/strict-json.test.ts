@@ -27,4 +27,24 @@ describe('strict JSON', () => {
     expect((parseStrictJson('') as { problems: { message: string }[] }).problems[0].message).toMatch(/the body is empty/);
     expect(parseStrictJson('{"s": "a\\u00e9\\n"}')).toEqual({ ok: true, value: { s: 'aé\n' } });
   });
+  it('reads UTF-8 bytes exactly as it reads the same text (uploads are parsed from a byte buffer)', () => {
+    // any Unicode text, lone surrogates included (JSON.stringify escapes them: ES2019 well-formed stringify)
+    fc.assert(fc.property(fc.jsonValue({ maxDepth: 4, stringUnit: 'binary' }), fc.boolean(), (v, pretty) => {
+      const text = JSON.stringify(v, null, pretty ? 2 : undefined);
+      const fromText = parseStrictJson(text);
+      const fromBytes = parseStrictJson(new TextEncoder().encode(text));
+      expect(fromBytes).toEqual(fromText);
+      if (fromText.ok) expect(fromText.value).toEqual(JSON.parse(text));
+    }), { numRuns: 300 });
+  });
+  it('refuses bytes that are not UTF-8, skips a UTF-8 byte-order mark, and counts positions in characters', () => {
+    const latin1 = Uint8Array.from([...Buffer.from('{"site": "'), 0xe9, ...Buffer.from('"}')]); // "é" saved as ISO-8859-1
+    const r = parseStrictJson(latin1);
+    expect(r.ok).toBe(false);
+    expect((r as { problems: { message: string }[] }).problems[0].message).toMatch(/not UTF-8: save the file as UTF-8/);
+    expect(parseStrictJson(Uint8Array.from([0xef, 0xbb, 0xbf, ...Buffer.from('{"a": 1}')]))).toEqual({ ok: true, value: { a: 1 } });
+    // "é" and "→" are 2 and 3 bytes in UTF-8 but one character each: the column is the editor's column
+    const e = parseStrictJson('{"é→": x}');
+    expect((e as { problems: { message: string }[] }).problems[0].message).toMatch(/^not valid JSON at line 1, column 8 \(character 8\)/);
+  });
 });
