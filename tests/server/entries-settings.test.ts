@@ -9,7 +9,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { count, eq } from 'drizzle-orm';
 import { ORIGIN } from './helpers';
-import { fullSweep, makeEntryWorld, type EntryWorld } from './entries-fixtures';
+import { CHAIN_SPEC, fullSweep, makeEntryWorld, type EntryWorld } from './entries-fixtures';
 import { entries, estimates } from '../../server/db/schema';
 import { publishEntry } from '../../server/services/publish-entry';
 import { createEntry } from '../../server/services/create-entry';
@@ -337,4 +337,25 @@ describe('the dry run reports every independent problem in one pass', () => {
       }
     }
   }, 60_000);
+});
+
+// last in the file: it publishes version 2 of chain-12, which every test above answers at version 1
+describe('a draft whose version was superseded meanwhile', () => {
+  it('is not sent to review: 409 naming /challenge/version and the current checksum; moved to the new version it is', async () => {
+    const id = await draft();
+    const v2 = { ...CHAIN_SPEC, version: 2, description: `${CHAIN_SPEC.description} (corrected)` };
+    expect((await w.mod.post('/api/challenges', v2)).status).toBe(201);
+    const pub = await w.mod.post('/api/challenges/chain-12/publish', { reason: 'description corrected' });
+    expect(pub.status, pub.text).toBe(200);
+    const e = await refused(() => submit(id));
+    expect(e.problems).toEqual([{ path: '/challenge/version', message: 'version 1 is superseded; the current version is 2' }]);
+    expect(e.message).toContain('(description corrected)');
+    expect(e.message).toContain(pub.body.checksum);
+    expect(await stateOf(id)).toBe('draft');
+    // the same targets exist in version 2 (only the description changed): the moved draft goes to review
+    const moved = await put(id, fullSweep(w, { challenge: { id: 'chain-12', version: 2, checksum: `sha256:${pub.body.checksum}`.replace('sha256:sha256:', 'sha256:') } }));
+    expect(moved.status, moved.text).toBe(200);
+    expect((await submit(id)).status).toBe(200);
+    expect(await stateOf(id)).toBe('in-review');
+  });
 });
