@@ -53,7 +53,8 @@ export async function entryDocument(db: Db, e: EntryRow): Promise<EntryDocument>
   return { ...(e.document as Omit<EntryDocument, 'estimates'>), estimates: ests };
 }
 
-export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean } = {}) {
+/** opts.now: the app's clock (whether a sealed reference is public yet is decided at this time) */
+export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean; now?: Date } = {}) {
   const [team] = await db.select({ id: organization.id, name: organization.name, slug: organization.slug }).from(organization).where(eq(organization.id, e.teamId));
   const [v] = await db.select({ version: challengeVersions.version, checksum: challengeVersions.checksum }).from(challengeVersions).where(eq(challengeVersions.id, e.versionId));
   const [{ n }] = await db.select({ n: count() }).from(estimates).where(eq(estimates.entryId, e.id));
@@ -80,6 +81,6 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
       warnings: opts.privileged ? (h.details as { warnings?: unknown }).warnings : undefined,
     })),
     document: doc,
-    scores: doc ? await estimateScores(db, e, doc.estimates, new Date()) : undefined,
+    scores: doc ? await estimateScores(db, e, doc.estimates, opts.now ?? new Date()) : undefined,
   };
 }

@@ -121,7 +121,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
       const e = await loadEntry(req);
       const priv = await privileged(req, e.teamId);
       if (!priv && !isPublicEntry(e)) throw notFound('The entry');
-      return presentEntry(db, e, { document: true, privileged: priv });
+      return presentEntry(db, e, { document: true, privileged: priv, now: ctx.now() });
     },
   });
 
@@ -175,7 +175,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
       const rows = await db.select().from(entries)
         .where(priv ? eq(entries.teamId, teamId) : and(eq(entries.teamId, teamId), inArray(entries.state, ['published', 'superseded'])))
         .orderBy(desc(entries.updatedAt)).limit(500);
-      return { entries: await Promise.all(rows.map((e) => presentEntry(db, e, { privileged: priv }).then(({ history: _h, ...rest }) => rest))) };
+      return { entries: await Promise.all(rows.map((e) => presentEntry(db, e, { privileged: priv, now: ctx.now() }).then(({ history: _h, ...rest }) => rest))) };
     },
   });
 
@@ -187,7 +187,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
       const rows = await db.select().from(entries).where(and(eq(entries.versionId, v.id), eq(entries.state, 'published'))).orderBy(desc(entries.publishedAt));
       const out = [];
       for (const e of rows) {
-        const { history: _h, revisions: _r, ...rest } = await presentEntry(db, e);
+        const { history: _h, revisions: _r, ...rest } = await presentEntry(db, e, { now: ctx.now() });
         const ests = await db.select({ u: estimates.uncertainty }).from(estimates).where(eq(estimates.entryId, e.id));
         const us = ests.map((x) => x.u).sort((a, b) => a - b);
         out.push({ ...rest, summary: { estimates: us.length, medianUncertainty: us.length ? us[Math.floor(us.length / 2)] : null, resources: (e.document as { resources?: unknown }).resources ?? null } });
