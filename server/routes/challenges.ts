@@ -22,6 +22,7 @@ import type { RouteTable } from './registry';
 import type { Request, Response } from 'express';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
+import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';
 
 const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
 
@@ -38,6 +39,42 @@ export async function loadChallengeVersion(db: Db, req: Request) {
   const v = wanted !== null ? visible.find((x) => x.version === wanted) : visible.find((x) => x.id === c.currentVersionId) ?? visible[0];
   if (!v) throw notFound(wanted !== null ? `Version ${wanted} of "${slug}"` : `A version of "${slug}"`);
   return { challenge: c, version: v, versions: visible };
+}
+
+/** a moment as the short reasons say it, in UTC: "2026-12-24 00:00 UTC" (seconds only when there are any) */
+const utcText = (d: Date) => {
+  const s = d.toISOString();
+  return `${s.slice(0, 10)} ${s.slice(11, s.slice(16, 23) === ':00.000' ? 16 : 19)} UTC`;
+};
+const reasonText = (r: GateReason): string => {
+  switch (r.kind) {
+    case 'state': return r.state === 'closed' ? 'submissions closed' : `not open (${r.state})`;
+    case 'before-window': return `opens ${utcText(r.at)}`;
+    case 'after-window': return `closed ${utcText(r.at)}`;
+    case 'track-closed': return `${r.track} track closed`;
+    case 'other': return r.message;
+  }
+};
+
+/**
+ * Whether the challenge takes new entries now (on the request's clock), per track and in any
+ * track, with a short reason when not: the same answer as the entry routes' enforcement
+ * (entryGateStatus in services/validate-entry.ts). Drafts already stored stay editable and
+ * returned entries can be resubmitted whatever this says (see the settings section there).
+ */
+export function submissionsStatus(c: ChallengeGate, now: Date) {
+  const g = entryGateStatus(c, now);
+  const track = (t: 'hardware' | 'classical') => ({ acceptsEntriesNow: g.tracks[t].acceptsEntries, reason: g.tracks[t].reasons.map(reasonText).join('; ') || null });
+  // the reasons shared by both tracks (state, window), or that no track is open
+  const shared = g.tracks.hardware.reasons.filter((r) => r.kind !== 'track-closed');
+  return {
+    acceptsEntriesNow: g.acceptsEntries,
+    reason: g.acceptsEntries ? null : shared.length ? shared.map(reasonText).join('; ') : 'no track open',
+    openTracks: g.openTracks,
+    window: { opensAt: g.window.opensAt?.toISOString() ?? null, closesAt: g.window.closesAt?.toISOString() ?? null },
+    tracks: { hardware: track('hardware'), classical: track('classical') },
+    asOf: now.toISOString(),
+  };
 }
 
 const publishBody = z.object({ version: z.number().int().positive().optional(), reason: z.string().trim().max(2000).optional() }).strict();
@@ -62,13 +99,14 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
   });
 
   routes.add({
-    method: 'get', path: '/challenges', access: 'public', summary: 'The catalogue: every published challenge with its size, depth range, targets, exact share and entries per track',
+    method: 'get', path: '/challenges', access: 'public', summary: 'The catalogue: every published challenge with its size, depth range, targets, exact share, entries per track and whether it takes entries now',
     handler: async (req) => {
       const rows = await db.select().from(challenges).where(isModerator(req) ? undefined : ne(challenges.state, 'draft')).orderBy(asc(challenges.title));
       const versionIds = rows.map((r) => r.currentVersionId).filter((x): x is string => Boolean(x));
       const versions = versionIds.length ? await db.select({ id: challengeVersions.id, version: challengeVersions.version, checksum: challengeVersions.checksum, spec: challengeVersions.spec, publishedAt: challengeVersions.publishedAt }).from(challengeVersions).where(inArray(challengeVersions.id, versionIds)) : [];
       const tcounts = versionIds.length ? await db.select({ versionId: targets.versionId, n: count(), exact: sql<number>`count(${references.value})::int`, sealed: sql<number>`count(*) filter (where ${references.sealedUntil} > now())::int` })
         .from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(inArray(targets.versionId, versionIds)).groupBy(targets.versionId) : [];
+      const now = ctx.now();
       const ecounts = await db.select({ slug: entries.challengeSlug, track: entries.track, n: count(), last: sql<string>`max(${entries.publishedAt})` }).from(entries)
         .where(eq(entries.state, 'published')).groupBy(entries.challengeSlug, entries.track);
       return {
@@ -89,6 +127,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
             targets: Number(tc?.n ?? 0), exactTargets: Number(tc?.exact ?? 0), sealedTargets: Number(tc?.sealed ?? 0),
             entries: { hardware: Number(ec.find((x) => x.track === 'hardware')?.n ?? 0), classical: Number(ec.find((x) => x.track === 'classical')?.n ?? 0) },
             lastActivity: [lastEntry, v?.publishedAt?.toISOString(), c.updatedAt.toISOString()].filter(Boolean).sort().pop(),
+            submissions: submissionsStatus(c, now),
           };
         }),
       };
@@ -96,7 +135,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
   });
 
   routes.add({
-    method: 'get', path: '/challenges/:slug', access: 'public', summary: 'One challenge: spec, versions, instances with gate counts and depth, lattice drawing, reference-job progress',
+    method: 'get', path: '/challenges/:slug', access: 'public', summary: 'One challenge: spec, versions, instances with gate counts and depth, lattice drawing, reference-job progress, whether it takes entries now (tracks, window, reason)',
     handler: async (req) => {
       const { challenge: c, version: v, versions } = await loadChallengeVersion(db, req);
       const spec = v.spec as ChallengeSpec;
@@ -107,6 +146,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
         .from(jobs).where(sql`${jobs.payload}->>'versionId' = ${v.id}`).orderBy(desc(jobs.createdAt)).limit(20);
       return {
         slug: c.slug, title: spec.title, description: spec.description, state: c.state, settings: c.settings,
+        submissions: submissionsStatus(c, ctx.now()),
         version: { id: v.id, version: v.version, checksum: v.checksum, state: v.state, publishedAt: v.publishedAt, supersededReason: v.supersededReason },
         versions: versions.map((x) => ({ version: x.version, checksum: x.checksum, state: x.state, publishedAt: x.publishedAt, supersededReason: x.supersededReason })),
         spec,

@@ -358,6 +358,45 @@ export function gateProblems(c: ChallengeGate, track: unknown, now: Date | undef
   return out;
 }
 
+/** Why a track takes no new entries now, in a form a page can phrase briefly. */
+export type GateReason =
+  | { kind: 'state'; state: string }
+  | { kind: 'before-window'; at: Date }
+  | { kind: 'after-window'; at: Date }
+  | { kind: 'track-closed'; track: string }
+  /** a refusal of gateProblems that none of the kinds above describes: its message */
+  | { kind: 'other'; message: string };
+
+export interface EntryGateStatus {
+  /** a new entry in at least one track would be taken now */
+  acceptsEntries: boolean;
+  openTracks: string[];
+  window: { opensAt: Date | null; closesAt: Date | null };
+  tracks: Record<(typeof TRACKS)[number], { acceptsEntries: boolean; reasons: GateReason[] }>;
+}
+
+/**
+ * Whether the challenge takes new entries now, per track and in any track, for the public pages.
+ * The answer is gateProblems' for a new entry ('create') on the clock given, so a page and the
+ * enforcement cannot disagree; the reasons restate its refusals by kind.
+ */
+export function entryGateStatus(c: ChallengeGate, now: Date): EntryGateStatus {
+  const window = submissionWindow(c.settings);
+  const open = openTracks(c.settings);
+  const common: GateReason[] = [];
+  if (c.state !== 'open') common.push({ kind: 'state', state: c.state });
+  if (window.opensAt && now.getTime() < window.opensAt.getTime()) common.push({ kind: 'before-window', at: window.opensAt });
+  else if (window.closesAt && now.getTime() >= window.closesAt.getTime()) common.push({ kind: 'after-window', at: window.closesAt });
+  const one = (track: (typeof TRACKS)[number]) => {
+    const problems = gateProblems(c, track, now, 'create');
+    const reasons: GateReason[] = [...common, ...(open.includes(track) ? [] : [{ kind: 'track-closed' as const, track }])];
+    if (problems.length && !reasons.length) reasons.push({ kind: 'other', message: problems[0].message });
+    return { acceptsEntries: problems.length === 0, reasons: problems.length ? reasons : [] };
+  };
+  const tracks = { hardware: one('hardware'), classical: one('classical') };
+  return { acceptsEntries: tracks.hardware.acceptsEntries || tracks.classical.acceptsEntries, openTracks: open, window, tracks };
+}
+
 /** A refusal by the challenge settings: 409, with the problems naming their fields. */
 export function refuse(problems: FieldProblem[]): void {
   if (!problems.length) return;
