@@ -80,6 +80,8 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
           mode: 'average-unverifiable', computedAt: row?.computedAt ?? null,
           entries: (result?.agreement.entryIds ?? []).map((id) => ({ id, ...labels.get(id) })),
           meanRatio: result?.agreement.meanRatio ?? [], targets: result?.agreement.targets ?? [],
+          // standings computed before the field existed have none: zeros of the same shape
+          incompatible: result?.agreement.incompatible ?? (result?.agreement.targets ?? []).map((r) => r.map(() => 0)),
         };
       }
       const hideBaseline = (await sealedTargetKeys(db, v.id, ctx.now())).has(target);

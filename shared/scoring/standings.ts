@@ -113,7 +113,12 @@ export interface StandingsResult {
   estimator: ConsensusEstimator;
   entries: StandingsRow[];
   targets: TargetConsensus[];
-  agreement: { entryIds: string[]; meanRatio: (number | null)[][]; targets: number[][] };
+  /**
+   * meanRatio: |d|/U averaged over the targets without exact reference that both answered, with a
+   * finite ratio; targets: how many; incompatible: on how many more the two differ while both claim
+   * zero uncertainty (U = 0, |d| > 0: an infinite ratio, counted here instead of hidden)
+   */
+  agreement: { entryIds: string[]; meanRatio: (number | null)[][]; targets: number[][]; incompatible: number[][] };
   counts: { targets: number; verifiable: number; unverifiable: number; disputed: number; entries: number };
 }
 
@@ -138,6 +143,7 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
   const does: { d: number; U: number }[][] = E.map(() => []);
   const pairSum = Array.from({ length: nE }, () => new Float64Array(nE));
   const pairN = Array.from({ length: nE }, () => new Int32Array(nE));
+  const pairInf = Array.from({ length: nE }, () => new Int32Array(nE));
 
   for (const t of input.targets) {
     const idx: number[] = [];
@@ -174,9 +180,12 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
           const um = ua > ub ? ua : ub;
           const U = um > 0 ? 2 * um * Math.sqrt((ua / um) * (ua / um) + (ub / um) * (ub / um)) : 0;
           const r = equivalenceRatio(ms[a].value - ms[b].value, U);
-          if (!Number.isFinite(r)) continue;
           const i = idx[a];
           const j = idx[b];
+          if (!Number.isFinite(r)) {
+            if (r === Infinity) { pairInf[i][j]++; pairInf[j][i]++; }
+            continue;
+          }
           pairSum[i][j] += r; pairSum[j][i] += r; pairN[i][j]++; pairN[j][i]++;
         }
       }
@@ -214,6 +223,7 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
       entryIds: entries.map((r) => r.id),
       meanRatio: order.map((i) => order.map((j) => (i === j ? 0 : pairN[i][j] ? pairSum[i][j] / pairN[i][j] : null))),
       targets: order.map((i) => order.map((j) => pairN[i][j])),
+      incompatible: order.map((i) => order.map((j) => pairInf[i][j])),
     },
     counts: {
       targets: input.targets.length,

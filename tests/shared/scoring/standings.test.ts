@@ -52,6 +52,22 @@ describe('standings', () => {
     expect(s.counts).toEqual({ targets: 2, verifiable: 1, unverifiable: 1, disputed: 0, entries: 3 });
   });
 
+  it('two entries that differ while both claim zero uncertainty are counted as incompatible, not hidden', () => {
+    // |d| > 0 with U = 0: no finite |d|/U (SCORING.md degrees of equivalence); agreeing at U = 0 is ratio 0
+    const s = computeStandings({
+      estimator: 'median',
+      targets: [{ key: 'u1', reference: null }, { key: 'u2', reference: null }, { key: 'u3', reference: null }],
+      entries: [entry('a', { u1: [0.1, 0], u2: [0.3, 0], u3: [0.5, 0.01] }), entry('b', { u1: [0.2, 0], u2: [0.3, 0], u3: [0.52, 0.01] })],
+    });
+    const ia = s.agreement.entryIds.indexOf('a');
+    const ib = s.agreement.entryIds.indexOf('b');
+    expect(s.agreement.incompatible[ia][ib]).toBe(1); // u1
+    expect(s.agreement.incompatible[ib][ia]).toBe(1);
+    expect(s.agreement.targets[ia][ib]).toBe(2); // u2 (ratio 0) and u3
+    expect(s.agreement.meanRatio[ia][ib]).toBeCloseTo((0 + 0.02 / (2 * Math.sqrt(2e-4))) / 2, 12);
+    expect(s.agreement.incompatible[ia][ia]).toBe(0);
+  });
+
   it('pairwise agreement with tiny uncertainties (1e-170) is resolved, not lost to U = 0', () => {
     const s = computeStandings({
       estimator: 'weighted-mean',

@@ -2,7 +2,7 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import { api } from '@/lib/api-client';
 
 export interface AgreementEntry { id: string; label?: string; teamName?: string; track?: 'hardware' | 'classical'; value?: number; uncertainty?: number }
-export interface AgreementAverage { mode: 'average-unverifiable'; computedAt: string | null; entries: AgreementEntry[]; meanRatio: (number | null)[][]; targets: number[][] }
+export interface AgreementAverage { mode: 'average-unverifiable'; computedAt: string | null; entries: AgreementEntry[]; meanRatio: (number | null)[][]; targets: number[][]; incompatible: number[][] }
 export interface AgreementTarget {
   mode: 'target'; target: string; computedAt: string | null; entries: AgreementEntry[];
   d: number[][]; U: number[][]; ratio: (number | null)[][];

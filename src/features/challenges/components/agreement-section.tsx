@@ -30,11 +30,14 @@ export default function AgreementSection({ c }: { c: ChallengeDetail }) {
     const names = d.entries.map(short);
     const ratio = d.mode === 'target' ? d.ratio : d.meanRatio;
     const counts = d.mode === 'average-unverifiable' ? d.targets : null;
+    const incompatible = d.mode === 'average-unverifiable' ? d.incompatible ?? null : null;
+    let incompatiblePairs = 0;
+    incompatible?.forEach((r, i) => r.forEach((k, j) => { if (j > i && k > 0) incompatiblePairs++; }));
     const rows: HeatRow[] = d.entries.map((_, i) => ({
       id: String.fromCharCode(65 + (i % 26)),
       data: d.entries.map((__, j) => ({ x: String.fromCharCode(65 + (j % 26)), y: i === j ? null : ratio[i]?.[j] ?? null, n: counts?.[i]?.[j] })),
     }));
-    return { rows, names, ratio, counts };
+    return { rows, names, ratio, counts, incompatible, incompatiblePairs };
   }, [q.data]);
 
   const d = q.data;
@@ -109,6 +112,12 @@ export default function AgreementSection({ c }: { c: ChallengeDetail }) {
                 {d!.consensus.disputed && <span className="ml-1 text-disputed-ink">· disputed</span>}
               </p>
             )}
+            {model.incompatiblePairs > 0 && (
+              <p className="mt-3 text-xs text-disputed-ink" data-testid="incompatible-note">
+                {model.incompatiblePairs === 1 ? 'One pair differs' : `${model.incompatiblePairs} pairs differ`} on targets where both claim zero uncertainty:
+                no finite |d|/U exists there, so those targets are left out of the mean and counted after the “+” in the table.
+              </p>
+            )}
             <p className="mt-3 text-xs text-ink-soft">Computed {formatDateTime(d!.computedAt)}</p>
           </div>
           {showTable && (
@@ -128,7 +137,7 @@ export default function AgreementSection({ c }: { c: ChallengeDetail }) {
                       {d!.entries.map((_, j) => (
                         <td key={j} className="num border-b border-rule px-2 py-1 text-right">
                           {i === j ? '·' : model.ratio[i]?.[j] === null || model.ratio[i]?.[j] === undefined ? '—' : formatSig(model.ratio[i][j], 3)}
-                          {model.counts && i !== j && <span className="text-ink-faint"> ({model.counts[i]?.[j] ?? 0})</span>}
+                          {model.counts && i !== j && <span className="text-ink-faint"> ({model.counts[i]?.[j] ?? 0}{model.incompatible?.[i]?.[j] ? <span className="text-disputed-ink"> + {model.incompatible[i][j]} at U = 0</span> : null})</span>}
                         </td>
                       ))}
                     </tr>
