@@ -5,8 +5,9 @@ import { getChallengeQueryOptions, useChallenge, type ChallengeDetail } from '@/
 import { getStandingsQueryOptions } from '@/features/standings/api/get-standings';
 import { StandingsSection } from '@/features/standings/components/standings-section';
 import { SpecSection } from '@/features/challenges/components/spec-section';
+import { SubmissionsStatusLine, SubmitEntryButton } from '@/features/challenges/components/submissions-status';
 import { formatDate } from '@/lib/format';
-import { Badge, CopyButton, ErrorState, PageHeader, PageLoading, Tabs } from '@/components/ui';
+import { CopyButton, ErrorState, PageHeader, PageLoading, Tabs } from '@/components/ui';
 
 // the chart views (and nivo with them) load when a visitor opens them
 const SweepSection = lazy(() => import('@/features/challenges/components/sweep-section'));
@@ -69,9 +70,9 @@ export function Component() {
         kicker={<Link to="/challenges">Challenges</Link>}
         title={c.title}
         actions={
-          <div className="flex flex-wrap items-center gap-2 text-sm">
-            <Badge tone={c.state === 'open' ? 'ok' : 'neutral'}>{c.state}</Badge>
+          <div className="flex flex-col items-start gap-2 text-sm sm:items-end">
             <span className="num text-ink-soft">v{c.version.version} · {formatDate(c.version.publishedAt)}</span>
+            <SubmitEntryButton slug={c.slug} state={c.state} s={c.submissions} />
           </div>
         }
       >
@@ -81,6 +82,7 @@ export function Component() {
           <CopyButton text={`sha256:${c.version.checksum}`} label="Copy checksum" />
           {c.settings.license && <span className="text-ink-soft">Data licence {c.settings.license}</span>}
         </p>
+        <SubmissionsStatusLine state={c.state} s={c.submissions} receivedAt={q.dataUpdatedAt} />
       </PageHeader>
       <Tabs tabs={[...TABS]} active={tab} onChange={setTab} label="Challenge views" idPrefix="challenge-tab" />
       <div role="tabpanel" id="challenge-tab-panel" aria-labelledby={`challenge-tab-${tab}`} className="pt-6" tabIndex={-1}>

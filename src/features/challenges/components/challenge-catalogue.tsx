@@ -2,9 +2,8 @@ import { useMemo, useState } from 'react';
 import { Link, useSearchParams } from 'react-router';
 import { useChallenges, type ChallengeSummary } from '@/features/challenges/api/get-challenges';
 import { formatDate, formatPercent, formatRelative } from '@/lib/format';
-import { Badge, EmptyState, ErrorState, PageLoading, TrackMark, cx, inputClass, type BadgeTone } from '@/components/ui';
-
-const STATE_TONE: Record<string, BadgeTone> = { open: 'ok', closed: 'neutral', archived: 'neutral', draft: 'disputed' };
+import { Badge, EmptyState, ErrorState, PageLoading, TrackMark, cx, inputClass } from '@/components/ui';
+import { EntryStatusBadge, entryStatus } from './submissions-status';
 
 /** "chain, 60 sites", "heavy-hex 3 × 3" */
 export function describeLattice(l: ChallengeSummary['lattice']): string {
@@ -15,10 +14,11 @@ export function describeLattice(l: ChallengeSummary['lattice']): string {
   return String(l.kind);
 }
 
-export function StateBadge({ c }: { c: Pick<ChallengeSummary, 'state' | 'sealedTargets'> }) {
+/** whether it takes entries now (the server's answer: open, opens <date>, closed), and a sealed round */
+export function StateBadge({ c }: { c: Pick<ChallengeSummary, 'state' | 'sealedTargets' | 'submissions'> }) {
   return (
     <span className="inline-flex flex-wrap gap-1">
-      <Badge tone={STATE_TONE[c.state] ?? 'neutral'}>{c.state}</Badge>
+      <EntryStatusBadge state={c.state} s={c.submissions} />
       {c.sealedTargets > 0 && <Badge tone="consensus">sealed round</Badge>}
     </span>
   );
@@ -58,7 +58,11 @@ const sortValue: Record<SortKey, (c: ChallengeSummary) => number | string> = {
   lastActivity: (c) => c.lastActivity ?? '',
 };
 
-const stateOf = (c: ChallengeSummary) => (c.sealedTargets > 0 ? ['sealed', c.state] : [c.state]);
+const stateOf = (c: ChallengeSummary) => {
+  const k = entryStatus(c.state, c.submissions).key;
+  return c.sealedTargets > 0 ? ['sealed', k] : [k];
+};
+const STATE_OPTION: Record<string, string> = { sealed: 'sealed round', open: 'open for entries', upcoming: 'opens later', closed: 'closed for entries', draft: 'draft' };
 
 /**
  * The catalogue: search, filters (lattice, state, track with entries), a sortable table at
@@ -128,7 +132,7 @@ export function ChallengeCatalogue({ layout = 'auto' }: { layout?: 'auto' | 'car
           <span className="sr-only">State</span>
           <select aria-label="State" value={state} onChange={(e) => set('state', e.target.value)} className={inputClass(false, 'h-9 w-full pr-7 text-sm')}>
             <option value="">any state</option>
-            {states.map((k) => <option key={k} value={k}>{k === 'sealed' ? 'sealed round' : k}</option>)}
+            {states.map((k) => <option key={k} value={k}>{STATE_OPTION[k] ?? k}</option>)}
           </select>
         </label>
         <label className="col-span-2 text-sm sm:col-span-1">
