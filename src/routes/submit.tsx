@@ -30,5 +30,5 @@ export function Component() {
   if (c.isError) return <ErrorState error={c.error} retry={() => c.refetch()} />;
   if (t.isError) return <ErrorState error={t.error} retry={() => t.refetch()} />;
   // a new key per resumed entry, so the form starts from its document
-  return <SubmitPage key={entry?.id ?? 'new'} challenge={c.data} targets={t.data.targets} teams={teams} entry={entry} />;
+  return <SubmitPage key={entry?.id ?? 'new'} challenge={c.data} targets={t.data.targets} teams={teams} entry={entry} receivedAt={c.dataUpdatedAt} />;
 }

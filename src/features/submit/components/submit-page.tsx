@@ -22,11 +22,12 @@ import { EstimatesTable, cellProblems } from './estimates-table';
 import { MetadataForm } from './metadata-form';
 import { ProblemList } from './problem-list';
 import { ScorePreview } from './score-preview';
+import { SubmissionsNotice, takesEntry } from './submissions-notice';
 
 const EDITABLE_STATES = ['draft', 'returned'];
 const kib = (n: number) => (n < 1024 * 1024 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1024 / 1024).toFixed(1)} MiB`);
 
-export function SubmitPage({ challenge, targets, teams, entry }: { challenge: ChallengeDetail; targets: Target[]; teams: MeTeam[]; entry: Entry | null }) {
+export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { challenge: ChallengeDetail; targets: Target[]; teams: MeTeam[]; entry: Entry | null; receivedAt: number }) {
   const navigate = useNavigate();
   const [, setSearch] = useSearchParams();
   const current = useMemo(() => ({ id: challenge.slug, version: challenge.version.version, checksum: `sha256:${challenge.version.checksum}` }), [challenge]);
@@ -210,6 +211,13 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
   const estimatesError = errorFor('estimates');
   const busy = check.isPending || create.isPending || update.isPending || submitting;
   const noTeam = teams.length === 0;
+  // what the challenge settings allow now (the server refuses the rest with a 409 all the same):
+  // a new entry is stored only while its track takes entries; a draft is submitted only then; a
+  // returned entry goes back to review whatever they say
+  const takes = takesEntry(challenge, form.track);
+  const cannotSave = !takes && !entryId;
+  const cannotSubmit = !takes && entryState !== 'returned';
+  const notNow = 'The challenge takes no new entries in this track now (see the note at the top)';
 
   return (
     <div>
@@ -224,6 +232,7 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
         </p>
       </PageHeader>
 
+      <SubmissionsNotice challenge={challenge} track={form.track} entryState={entryState} receivedAt={receivedAt} />
       {noTeam && <FormMessage tone="info">Entries belong to teams and you are in none. <Link to="/teams">Create a team or accept an invitation</Link> first.</FormMessage>}
       {frozen && <FormMessage tone="info">This entry is {entryState} and can no longer be edited. <Link to="/my-entries">Back to My entries</Link></FormMessage>}
       {entry?.state === 'returned' && <ReturnedNote entry={entry} />}
@@ -295,8 +304,8 @@ export function SubmitPage({ challenge, targets, teams, entry }: { challenge: Ch
       <div className="sticky bottom-0 z-10 -mx-4 mt-6 border-t border-rule bg-paper/95 backdrop-blur sm:mx-0">
         <div className="flex flex-wrap items-center gap-2 px-4 py-3 sm:px-0">
           <Button variant="secondary" onClick={() => runCheck()} busy={check.isPending} disabled={busy || frozen}>Check</Button>
-          <Button variant="secondary" onClick={onSave} busy={create.isPending || update.isPending} disabled={busy || frozen || noTeam}>Save draft</Button>
-          <Button onClick={onSubmit} busy={submitting} disabled={busy || frozen || noTeam}>Submit for review</Button>
+          <Button variant="secondary" onClick={onSave} busy={create.isPending || update.isPending} disabled={busy || frozen || noTeam || cannotSave} title={cannotSave ? notNow : undefined}>Save draft</Button>
+          <Button onClick={onSubmit} busy={submitting} disabled={busy || frozen || noTeam || cannotSubmit} title={cannotSubmit ? notNow : undefined}>Submit for review</Button>
           <span className={cx('ml-auto hidden text-sm sm:inline', dirty ? 'text-ink-soft' : 'text-ink-faint')}>
             {dirty ? 'Unsaved changes' : entryId ? 'Saved' : ''}
           </span>
