@@ -134,7 +134,7 @@ export function Component() {
             </div>
             {tq.isError && <p className="mb-2 text-sm text-danger">The references could not be loaded: their values and provenance are missing here (the scores are the server's).</p>}
             <div className="-mx-4 overflow-x-auto px-4 sm:mx-0 sm:px-0">
-              <table className="w-full border-collapse text-sm sm:min-w-[46rem]" data-testid="entry-estimates">
+              <table className="w-full border-collapse text-sm sm:min-w-[40rem] lg:min-w-0" data-testid="entry-estimates">
                 <caption className="sr-only">Every estimate of this entry with its score against the exact reference or the consensus</caption>
                 <thead>
                   <tr className="text-xs text-ink-soft uppercase">
