@@ -89,6 +89,11 @@ describe('the public pages in the browser', () => {
     await standings.waitFor();
     const rows = standings.getByTestId('standings-row');
     expect(await rows.count()).toBeGreaterThanOrEqual(2);
+    // whether it takes entries now, in the header (the demo challenges are open, both tracks)
+    const status = p.getByTestId('submissions-status');
+    await expect.poll(() => status.textContent()).toMatch(/Open for entries/);
+    expect(await p.getByTestId('submissions-tracks').textContent()).toMatch(/hardware open.*classical open/);
+    expect(await p.getByRole('link', { name: 'Submit an entry' }).getAttribute('href')).toBe(`/challenges/${SLUG}/submit`);
     await shots(p, '03-standings');
 
     // sort by max error (ascending, then descending)
@@ -158,6 +163,8 @@ describe('the public pages in the browser', () => {
     await standings.waitFor();
     await standings.getByRole('link', { name: /ZNE/ }).first().click();
     await p.getByTestId('entry-estimates').waitFor();
+    // the estimates table fits its column at desktop width (no sideways scroll)
+    expect(await p.getByTestId('entry-estimates').evaluate((t) => t.parentElement!.scrollWidth - t.parentElement!.clientWidth)).toBeLessThanOrEqual(0);
     await p.getByTestId('entry-estimates').getByRole('button').nth(5).click();
     await p.getByTestId('zne').waitFor();
     await shots(p, '13-entry');
