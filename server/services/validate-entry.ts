@@ -448,8 +448,8 @@ export function problemsOrThrow(problems: FieldProblem[], total = problems.lengt
 }
 
 /** Strict JSON from text (an already parsed value passes through), or a 400 naming the places. */
-function parseStrict(input: string | unknown): unknown {
-  if (typeof input !== 'string') return input;
+function parseStrict(input: string | Uint8Array | unknown): unknown {
+  if (typeof input !== 'string' && !(input instanceof Uint8Array)) return input;
   const r = parseStrictJson(input, { maxDepth: MAX_DEPTH, maxProblems: MAX_PROBLEMS });
   if (!r.ok) problemsOrThrow(r.problems);
   return (r as { value: unknown }).value;
