@@ -11,7 +11,7 @@
  * whole bodies held together (RELIABILITY.md 15: 20 concurrent maximum-size uploads add < 100 MB).
  * A slow client costs no slot while its body is still arriving.
  */
-import { createWriteStream, mkdirSync, rmSync } from 'node:fs';
+import { createWriteStream, mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { open, unlink } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -24,10 +24,26 @@ import multer from 'multer';
 import { AppError, badRequest } from '../errors';
 
 let spool: string | null = null;
-/** One spool directory per process, removed when the process exits. */
+const SPOOL_PREFIX = 'parallax-uploads-';
+
+/** Spool directories of processes that no longer exist (killed before their exit handler ran). */
+function removeStaleSpools() {
+  try {
+    for (const name of readdirSync(tmpdir())) {
+      const pid = Number(/^parallax-uploads-(\d+)-/.exec(name)?.[1]);
+      if (!pid || pid === process.pid) continue;
+      try { process.kill(pid, 0); } catch (e) {
+        if ((e as { code?: string }).code === 'ESRCH') rmSync(join(tmpdir(), name), { recursive: true, force: true });
+      }
+    }
+  } catch { /* best effort: a spool left behind holds only partial uploads */ }
+}
+
+/** One spool directory per process (mode 0700), removed when the process exits. */
 function spoolDir(): string {
   if (spool) return spool;
-  spool = join(tmpdir(), `parallax-uploads-${process.pid}-${randomUUID().slice(0, 8)}`);
+  removeStaleSpools();
+  spool = join(tmpdir(), `${SPOOL_PREFIX}${process.pid}-${randomUUID().slice(0, 8)}`);
   mkdirSync(spool, { recursive: true, mode: 0o700 });
   const dir = spool;
   process.once('exit', () => { try { rmSync(dir, { recursive: true, force: true }); } catch { /* best effort */ } });
