@@ -46,19 +46,26 @@ export function degreesOfEquivalence(estimates: readonly Measurement[], c: Conse
   let s0 = Infinity;
   for (const i of incList) s0 = Math.min(s0, sd(i));
   // relative weight of each included result, and the sum of the others' weights (prefix + suffix,
-  // not sum - w_i)
-  const wRel = new Map<number, number>();
-  const othersOf = new Map<number, number>();
-  const ws = incList.map((i) => (s0 / sd(i)) ** 2);
+  // not sum - w_i); typed arrays indexed by position in incList (slot[i] = position, or -1): this
+  // runs for every target of every standings recomputation
+  const nInc = incList.length;
+  const slot = new Int32Array(estimates.length).fill(-1);
+  const ws = new Float64Array(nInc);
+  const xs = new Float64Array(nInc);
+  const others = new Float64Array(nInc);
   let sw = 0;
-  for (let a = 0; a < ws.length; a++) {
-    othersOf.set(incList[a], sw);
-    wRel.set(incList[a], ws[a]);
+  for (let a = 0; a < nInc; a++) {
+    const i = incList[a];
+    slot[i] = a;
+    const r = s0 / sd(i);
+    ws[a] = r * r;
+    xs[a] = estimates[i].value;
+    others[a] = sw;
     sw += ws[a];
   }
   let suffix = 0;
-  for (let a = ws.length - 1; a >= 0; a--) {
-    othersOf.set(incList[a], (othersOf.get(incList[a]) as number) + suffix);
+  for (let a = nInc - 1; a >= 0; a--) {
+    others[a] += suffix;
     suffix += ws[a];
   }
   // is the consensus the weighted mean of the included results (u(y) = s0/sqrt(sum w))?
@@ -66,21 +73,21 @@ export function degreesOfEquivalence(estimates: readonly Measurement[], c: Conse
   return estimates.map((m, i) => {
     const included = inc.has(i);
     let d = m.value - c.value;
-    if (included && isWeightedMean && wRel.has(i) && incList.length <= 5000) {
+    const at = slot[i];
+    if (included && isWeightedMean && at >= 0 && nInc <= 5000) {
       // d_i = sum_{j != i} w_j (x_i - x_j) / sum w: resolves a dominant result's d below the
       // rounding of y itself (y = x_i + 3e-21 rounds to x_i)
       let sd_ = 0;
-      for (const j of incList) if (j !== i) sd_ += (wRel.get(j) as number) * (m.value - estimates[j].value);
+      const xi = m.value;
+      for (let b = 0; b < nInc; b++) if (b !== at) sd_ += ws[b] * (xi - xs[b]);
       d = sd_ / sw;
     }
     let u: number;
     const mc = c.doeUncertainties?.[i];
     if (mc !== undefined && !Number.isNaN(mc)) u = mc;
-    else if (included && isWeightedMean && wRel.has(i)) {
+    else if (included && isWeightedMean && at >= 0) {
       // (u_i^2 + tau^2)(1 - w_i/sum w), with 1 - w_i/sum w = (sum of the other weights)/sum w
-      const wi = wRel.get(i) as number;
-      const others = othersOf.get(i) as number;
-      u = sd(i) * Math.sqrt(others / (others + wi));
+      u = sd(i) * Math.sqrt(others[at] / (others[at] + ws[at]));
     } else {
       const si = sd(i);
       const sc = Math.max(si, uy);
