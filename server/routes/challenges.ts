@@ -52,23 +52,31 @@ const reasonText = (r: GateReason): string => {
     case 'before-window': return `opens ${utcText(r.at)}`;
     case 'after-window': return `closed ${utcText(r.at)}`;
     case 'track-closed': return `${r.track} track closed`;
-    case 'other': return r.message;
   }
 };
 
 /**
- * Whether the challenge takes new entries now (on the request's clock), per track and in any
- * track, with a short reason when not: the same answer as the entry routes' enforcement
- * (entryGateStatus in services/validate-entry.ts). Drafts already stored stay editable and
- * returned entries can be resubmitted whatever this says (see the settings section there).
+ * Whether the challenge takes entries now (on the request's clock), per track and in any track,
+ * with a short reason when not: the same answer as the entry routes' enforcement (entryGateStatus
+ * in services/validate-entry.ts).
+ * - acceptsEntriesNow: a submission would be taken now (a new entry created and sent to review);
+ *   reason says why not.
+ * - acceptsDraftsNow: a new draft would be stored now; true as well before the window opens, when
+ *   only the submission waits for opensAt.
+ * Drafts already stored stay editable and returned entries can be resubmitted whatever this says
+ * (see the settings section there).
  */
 export function submissionsStatus(c: ChallengeGate, now: Date) {
   const g = entryGateStatus(c, now);
-  const track = (t: 'hardware' | 'classical') => ({ acceptsEntriesNow: g.tracks[t].acceptsEntries, reason: g.tracks[t].reasons.map(reasonText).join('; ') || null });
+  const track = (t: 'hardware' | 'classical') => ({
+    acceptsEntriesNow: g.tracks[t].acceptsEntries, acceptsDraftsNow: g.tracks[t].acceptsDrafts,
+    reason: g.tracks[t].reasons.map(reasonText).join('; ') || null,
+  });
   // the reasons shared by both tracks (state, window), or that no track is open
   const shared = g.tracks.hardware.reasons.filter((r) => r.kind !== 'track-closed');
   return {
     acceptsEntriesNow: g.acceptsEntries,
+    acceptsDraftsNow: g.acceptsDrafts,
     reason: g.acceptsEntries ? null : shared.length ? shared.map(reasonText).join('; ') : 'no track open',
     openTracks: g.openTracks,
     window: { opensAt: g.window.opensAt?.toISOString() ?? null, closesAt: g.window.closesAt?.toISOString() ?? null },

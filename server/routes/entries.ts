@@ -102,15 +102,19 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
 
   routes.add({
     method: 'post', path: '/entries/validate', access: 'public',
-    summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing',
+    summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing. acceptsDrafts: POST /api/challenges/<id>/entries would store it now; acceptsSubmissions: it could also be submitted now; acceptsEntries: the same as acceptsSubmissions (kept for compatibility)',
     middleware: [documentBody],
     handler: async (req, res) => {
       const now = ctx.now();
       const check = await validateEntryDocument(db, documentText(res), { now, purpose: 'dry-run' });
       const doc = check.document;
       const scores = await previewScores(db, check, now);
-      // acceptsEntries: whether POST /api/challenges/<id>/entries would take it now (the warnings say why not)
-      return { valid: true, stored: false, acceptsEntries: check.refusals.length === 0, challenge: { slug: check.version.slug, version: check.version.version, checksum: check.version.checksum }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, scores };
+      // what the challenge settings take now (the warnings say why not):
+      // acceptsDrafts: POST /api/challenges/<id>/entries would store it as a draft (before the window opens it would);
+      // acceptsSubmissions: that draft could also be submitted now (POST /api/entries/<id>/submit);
+      // acceptsEntries: kept for compatibility, = acceptsSubmissions (a submission would be taken now)
+      const { drafts: acceptsDrafts, submissions: acceptsSubmissions } = check.accepts;
+      return { valid: true, stored: false, acceptsEntries: acceptsSubmissions, acceptsDrafts, acceptsSubmissions, challenge: { slug: check.version.slug, version: check.version.version, checksum: check.version.checksum }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, scores };
     },
   });
 

@@ -4,6 +4,8 @@
  * callers pass the result of checkEntry. The challenge settings (state, submission window, open
  * tracks; see validate-entry.ts) are checked again inside the transaction with the caller's clock,
  * so a moderator closing a track or the window after the check still wins (409, nothing stored).
+ * Before the submission window opens a draft is stored all the same (only its submission waits for
+ * opensAt; the check's warnings say when).
  */
 import { randomUUID } from 'node:crypto';
 import { sql } from 'drizzle-orm';

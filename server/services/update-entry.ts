@@ -1,9 +1,9 @@
 /**
  * Replacing the document of a draft (or returned) entry: metadata and every estimate, in one
  * transaction. A submitted entry is frozen; a published one changes only through a revision.
- * A draft stays editable when its track, the submission window or the challenge closes (its
- * submission is what the settings refuse, see validate-entry.ts), but an edit never moves an entry
- * into a closed track (409).
+ * A draft is editable before the submission window opens, and stays editable when its track, the
+ * submission window or the challenge closes (its submission is what the settings refuse, see
+ * validate-entry.ts), but an edit never moves an entry into a closed track (409).
  */
 import { eq } from 'drizzle-orm';
 import type { Db } from '../db/client';

@@ -266,9 +266,12 @@ const fmt = (x: number) => String(Number(x.toPrecision(6)));
  *   no new revisions of published entries, until a moderator opens the challenge again.
  * - tracks: the tracks that take entries; a track not listed is closed. No "tracks" setting means
  *   both are open (the default of a new challenge).
- * - submissionWindow {opensAt, closesAt}: entries are taken from opensAt (inclusive) until closesAt
- *   (exclusive); a missing end is unbounded. Outside it: no new entries, no submissions, no new
- *   revisions, as for a closed challenge.
+ * - submissionWindow {opensAt, closesAt}: submissions are taken from opensAt (inclusive) until
+ *   closesAt (exclusive); a missing end is unbounded. Before opensAt a team may already create and
+ *   edit drafts (prepared in advance, e.g. for a blind round, and submitted the moment the window
+ *   opens): the answers warn when submissions open, and the submission and new revisions are
+ *   refused until then. After closesAt: no new entries, no submissions, no new revisions, as for a
+ *   closed challenge.
  *
  * Drafts that exist when a track, the window or the challenge closes stay editable (PUT): editing
  * harms nobody and the draft is ready if a moderator reopens or extends; the gate is the
@@ -280,8 +283,10 @@ const fmt = (x: number) => String(Number(x.toPrecision(6)));
  *
  * A refusal by the settings is a 409 (the document is fine; the challenge's state conflicts with
  * it, and the request can succeed once that changes); the dry run reports the same problems as
- * warnings with acceptsEntries: false, so a team learns them before posting and still gets the
- * score preview. The clock is always the request's (ctx.now()), never the process's.
+ * warnings with acceptsDrafts / acceptsSubmissions, so a team learns them before posting and
+ * still gets the score preview. The rules are gateReasons and REFUSES below, and nowhere else: the
+ * enforcement (gateProblems) and the public status (entryGateStatus) both apply them. The clock is
+ * always the request's (ctx.now()), never the process's.
  */
 export const TRACKS = ['hardware', 'classical'] as const;
 export type GateAction = 'create' | 'submit' | 'revise';
@@ -320,81 +325,111 @@ export function closedTrackProblem(c: ChallengeGate, track: unknown, action: Gat
   return { path: '/track', message: `the ${track} track of ${c.slug} is closed; open tracks: ${open.join(', ') || 'none'}${fix}` };
 }
 
-/**
- * Every reason the settings refuse this action now: the challenge's state, the submission window
- * (when a clock is given; the writing services always give theirs) and the track.
- */
-export function gateProblems(c: ChallengeGate, track: unknown, now: Date | undefined, action: GateAction): FieldProblem[] {
-  const out: FieldProblem[] = [];
-  const s = c.slug;
-  const no = TAKES_NO[action];
-  if (c.state === 'closed') {
-    out.push({ path: '/challenge/id', message: `${s} is closed and ${no}${{
-      create: '; a moderator can open it again',
-      submit: '; the draft stays editable, and can be submitted if a moderator opens the challenge again',
-      revise: '; the published entry stays as it is (a moderator can open the challenge again)',
-    }[action]}` });
-  } else if (c.state !== 'open') {
-    out.push({ path: '/challenge/id', message: `${s} is not open (state "${c.state}") and ${no}` });
-  }
-  if (now) {
-    const w = submissionWindow(c.settings);
-    if (w.opensAt && now.getTime() < w.opensAt.getTime()) {
-      out.push({ path: '/challenge/id', message: `${s} ${no} before its submission window opens at ${w.opensAt.toISOString()}${{
-        create: '; check the document meanwhile with POST /api/entries/validate',
-        submit: '; submit the draft from then on',
-        revise: '',
-      }[action]}` });
-    } else if (w.closesAt && now.getTime() >= w.closesAt.getTime()) {
-      out.push({ path: '/challenge/id', message: `${s} ${no} since its submission window closed at ${w.closesAt.toISOString()}${{
-        create: '; a moderator can extend the window',
-        submit: '; the draft stays editable, and can be submitted if a moderator extends the window',
-        revise: '; the published entry stays as it is (a moderator can extend the window)',
-      }[action]}` });
-    }
-  }
-  const t = closedTrackProblem(c, track, action);
-  if (t) out.push(t);
-  return out;
-}
-
-/** Why a track takes no new entries now, in a form a page can phrase briefly. */
+/** Why the settings hold something back now, in a form a page can phrase briefly. */
 export type GateReason =
   | { kind: 'state'; state: string }
   | { kind: 'before-window'; at: Date }
   | { kind: 'after-window'; at: Date }
-  | { kind: 'track-closed'; track: string }
-  /** a refusal of gateProblems that none of the kinds above describes: its message */
-  | { kind: 'other'; message: string };
+  | { kind: 'track-closed'; track: string };
 
-export interface EntryGateStatus {
-  /** a new entry in at least one track would be taken now */
-  acceptsEntries: boolean;
-  openTracks: string[];
-  window: { opensAt: Date | null; closesAt: Date | null };
-  tracks: Record<(typeof TRACKS)[number], { acceptsEntries: boolean; reasons: GateReason[] }>;
+/**
+ * The one rule set: every reason the settings hold against an entry in this track now: the
+ * challenge's state, the submission window (when a clock is given; the writing services always
+ * give theirs) and the track. Which of them refuse which action is REFUSES'.
+ */
+export function gateReasons(c: ChallengeGate, track: unknown, now: Date | undefined): GateReason[] {
+  const out: GateReason[] = [];
+  if (c.state !== 'open') out.push({ kind: 'state', state: c.state });
+  if (now) {
+    const w = submissionWindow(c.settings);
+    if (w.opensAt && now.getTime() < w.opensAt.getTime()) out.push({ kind: 'before-window', at: w.opensAt });
+    else if (w.closesAt && now.getTime() >= w.closesAt.getTime()) out.push({ kind: 'after-window', at: w.closesAt });
+  }
+  if (typeof track === 'string' && (TRACKS as readonly string[]).includes(track) && !openTracks(c.settings).includes(track)) out.push({ kind: 'track-closed', track });
+  return out;
 }
 
 /**
- * Whether the challenge takes new entries now, per track and in any track, for the public pages.
- * The answer is gateProblems' for a new entry ('create') on the clock given, so a page and the
- * enforcement cannot disagree; the reasons restate its refusals by kind.
+ * Which reasons refuse which action. Every reason refuses a submission and a revision; before the
+ * window opens a new draft is still taken (a team prepares it and submits from opensAt on), so a
+ * new entry is refused by every reason but that one.
+ */
+const REFUSES: Record<GateAction, (r: GateReason) => boolean> = {
+  create: (r) => r.kind !== 'before-window',
+  submit: () => true,
+  revise: () => true,
+};
+
+function gateMessage(c: ChallengeGate, r: GateReason, action: GateAction): FieldProblem {
+  const s = c.slug;
+  const no = TAKES_NO[action];
+  switch (r.kind) {
+    case 'state':
+      if (r.state !== 'closed') return { path: '/challenge/id', message: `${s} is not open (state "${r.state}") and ${no}` };
+      return { path: '/challenge/id', message: `${s} is closed and ${no}${{
+        create: '; a moderator can open it again',
+        submit: '; the draft stays editable, and can be submitted if a moderator opens the challenge again',
+        revise: '; the published entry stays as it is (a moderator can open the challenge again)',
+      }[action]}` };
+    case 'before-window':
+      // never a refusal of a new entry (REFUSES): its warning is the submission's message
+      return { path: '/challenge/id', message: `${s} ${no} before its submission window opens at ${r.at.toISOString()}${{
+        create: '; a draft can be saved meanwhile',
+        submit: '; a draft can be saved and edited meanwhile, and submitted from then on',
+        revise: '',
+      }[action]}` };
+    case 'after-window':
+      return { path: '/challenge/id', message: `${s} ${no} since its submission window closed at ${r.at.toISOString()}${{
+        create: '; a moderator can extend the window',
+        submit: '; the draft stays editable, and can be submitted if a moderator extends the window',
+        revise: '; the published entry stays as it is (a moderator can extend the window)',
+      }[action]}` };
+    case 'track-closed':
+      return closedTrackProblem(c, r.track, action)!;
+  }
+}
+
+/** Every reason the settings refuse this action now (409), each naming its field. */
+export function gateProblems(c: ChallengeGate, track: unknown, now: Date | undefined, action: GateAction): FieldProblem[] {
+  return gateReasons(c, track, now).filter(REFUSES[action]).map((r) => gateMessage(c, r, action));
+}
+
+/**
+ * What the settings let this action do now but would refuse of the draft's submission: for a new
+ * entry before the window opens, that it cannot be submitted until then. Said as the submission's
+ * refusal would say it; the answers carry these as warnings.
+ */
+export function gateWarnings(c: ChallengeGate, track: unknown, now: Date | undefined, action: GateAction): FieldProblem[] {
+  return gateReasons(c, track, now).filter((r) => !REFUSES[action](r)).map((r) => gateMessage(c, r, 'submit'));
+}
+
+export interface EntryGateStatus {
+  /** a new entry in at least one track would be submitted now (created and sent to review) */
+  acceptsEntries: boolean;
+  /** a new draft in at least one track would be stored now (before the window opens: yes, but not submitted) */
+  acceptsDrafts: boolean;
+  openTracks: string[];
+  window: { opensAt: Date | null; closesAt: Date | null };
+  /** reasons: why a submission in this track is not taken now (empty when it is) */
+  tracks: Record<(typeof TRACKS)[number], { acceptsEntries: boolean; acceptsDrafts: boolean; reasons: GateReason[] }>;
+}
+
+/**
+ * Whether the challenge takes submissions and new drafts now, per track and in any track, for the
+ * public pages: gateReasons and REFUSES on the clock given, as gateProblems applies them to a
+ * submission ('submit') and a new entry ('create'), so a page and the enforcement cannot disagree.
  */
 export function entryGateStatus(c: ChallengeGate, now: Date): EntryGateStatus {
-  const window = submissionWindow(c.settings);
-  const open = openTracks(c.settings);
-  const common: GateReason[] = [];
-  if (c.state !== 'open') common.push({ kind: 'state', state: c.state });
-  if (window.opensAt && now.getTime() < window.opensAt.getTime()) common.push({ kind: 'before-window', at: window.opensAt });
-  else if (window.closesAt && now.getTime() >= window.closesAt.getTime()) common.push({ kind: 'after-window', at: window.closesAt });
   const one = (track: (typeof TRACKS)[number]) => {
-    const problems = gateProblems(c, track, now, 'create');
-    const reasons: GateReason[] = [...common, ...(open.includes(track) ? [] : [{ kind: 'track-closed' as const, track }])];
-    if (problems.length && !reasons.length) reasons.push({ kind: 'other', message: problems[0].message });
-    return { acceptsEntries: problems.length === 0, reasons: problems.length ? reasons : [] };
+    const reasons = gateReasons(c, track, now);
+    return { acceptsEntries: !reasons.some(REFUSES.submit), acceptsDrafts: !reasons.some(REFUSES.create), reasons };
   };
   const tracks = { hardware: one('hardware'), classical: one('classical') };
-  return { acceptsEntries: tracks.hardware.acceptsEntries || tracks.classical.acceptsEntries, openTracks: open, window, tracks };
+  return {
+    acceptsEntries: tracks.hardware.acceptsEntries || tracks.classical.acceptsEntries,
+    acceptsDrafts: tracks.hardware.acceptsDrafts || tracks.classical.acceptsDrafts,
+    openTracks: openTracks(c.settings), window: submissionWindow(c.settings), tracks,
+  };
 }
 
 /** A refusal by the challenge settings: 409, with the problems naming their fields. */
@@ -425,6 +460,12 @@ export interface EntryCheck {
    * draft's submission. Both are also in the warnings. Empty when the settings allow it.
    */
   refusals: FieldProblem[];
+  /**
+   * What the settings take now (gateProblems): drafts, whether this entry is stored as a new draft
+   * (dry run, create) or the edit saved (update); submissions, whether it could then be sent to
+   * review (a returned entry always can).
+   */
+  accepts: { drafts: boolean; submissions: boolean };
 }
 
 /** dry-run: settings refusals are warnings; create: they refuse (409); update: only a move into a closed track refuses, the rest warn. */
@@ -533,16 +574,23 @@ async function inspect(db: Db, doc: unknown, schema: FieldProblem[], opts: Check
   const track = isObject(doc) ? doc.track : undefined;
   let refusing: FieldProblem[] = [];
   let refusals: FieldProblem[] = [];
+  // what a new draft may do but its submission may not yet (before the window opens): warnings only
+  let heldBack: FieldProblem[] = [];
+  let accepts = { drafts: true, submissions: true };
   const c = rv.challenge;
   if (c) {
-    if (purpose === 'create') refusing = refusals = gateProblems(c, track, opts.now, 'create');
-    else if (purpose === 'dry-run') refusals = gateProblems(c, track, opts.now, 'create');
-    else {
+    if (purpose === 'create' || purpose === 'dry-run') {
+      refusals = gateProblems(c, track, opts.now, 'create');
+      if (purpose === 'create') refusing = refusals;
+      heldBack = gateWarnings(c, track, opts.now, 'create');
+      accepts = { drafts: refusals.length === 0, submissions: gateProblems(c, track, opts.now, 'submit').length === 0 };
+    } else {
       const e = opts.entry;
       const move = e && track !== e.track ? closedTrackProblem(c, track, 'move', e.track) : null;
       if (move) refusing = [move];
       // a returned entry's resubmission is not held back (see above); a draft's is
       if (!e || e.state === 'draft') refusals = gateProblems(c, track, opts.now, 'submit').filter((p) => !(move && p.path === '/track'));
+      accepts = { drafts: !move, submissions: !move && refusals.length === 0 };
     }
   }
 
@@ -565,8 +613,8 @@ async function inspect(db: Db, doc: unknown, schema: FieldProblem[], opts: Check
   const hw = document.method.family === 'error-mitigated-hardware';
   if (document.track === 'classical' && hw) warnings.push({ path: '/track', message: 'track "classical" with method family "error-mitigated-hardware": use track "hardware" for results from a quantum processor' });
   if (document.track === 'hardware' && !hw && document.method.family !== 'other') warnings.push({ path: '/method/family', message: `track "hardware" with method family "${document.method.family}": hardware entries normally use "error-mitigated-hardware"` });
-  warnings.unshift(...refusals);
-  return { document, version: vt, warnings, coverage, refusals };
+  warnings.unshift(...refusals, ...heldBack);
+  return { document, version: vt, warnings, coverage, refusals, accepts };
 }
 
 // ------------------------------------------------------------------ dry-run score preview

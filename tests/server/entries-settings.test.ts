@@ -1,8 +1,9 @@
 /**
  * The challenge settings on entries (server/services/validate-entry.ts, "challenge settings"):
  * open tracks, the submission window (on the injected clock) and the closed state refuse new
- * entries, submissions and revisions with a 409 naming the field; drafts stay editable; a returned
- * entry can be resubmitted; the dry run warns instead. And the dry run's one pass: schema problems
+ * entries, submissions and revisions with a 409 naming the field, except that before the window
+ * opens a draft is stored and edited with a warning (only its submission waits); drafts stay
+ * editable; a returned entry can be resubmitted; the dry run warns instead. And the dry run's one pass: schema problems
  * and the checks against the challenge reported together.
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -141,29 +142,102 @@ describe('the writing services check again in their transaction', () => {
 });
 
 describe('the submission window, on the injected clock', () => {
-  it('before it opens and from the moment it closes no entry is created; opensAt is inclusive, closesAt exclusive', async () => {
+  it('before it opens a draft is stored and edited with a warning, but not submitted; from opensAt (inclusive) it is; from closesAt (exclusive) no entry is created', async () => {
     const t0 = w.t.clock.now.getTime();
     const opens = t0 + 3_600_000;
     const closes = t0 + 7_200_000;
     await settings({ submissionWindow: { opensAt: iso(opens), closesAt: iso(closes) } });
-    const early = await refused(() => post(fullSweep(w)));
-    expect(early.problems).toEqual([{ path: '/challenge/id', message: `chain-12 takes no new entries before its submission window opens at ${iso(opens)}; check the document meanwhile with POST /api/entries/validate` }]);
+    const wait = { path: '/challenge/id', message: `chain-12 takes no submissions before its submission window opens at ${iso(opens)}; a draft can be saved and edited meanwhile, and submitted from then on` };
+
+    // a draft prepared in advance: stored (metadata and every estimate), with the warning saying from when it can be submitted
+    const [n0, e0] = await stored();
+    const early = await post(fullSweep(w, { label: 'prepared in advance' }));
+    expect(early.status, early.text).toBe(201);
+    expect(early.body.state).toBe('draft');
+    expect(early.body.warnings).toEqual([wait]);
+    expect(await stored()).toEqual([n0 + 1, e0 + early.body.estimates]);
+    const id = early.body.id as string;
+    // an API key may prepare one too
+    const k = await request(w.t.app).post('/api/challenges/chain-12/entries').set('x-api-key', w.keyA).set('Content-Type', 'application/json').send(json(hardware()));
+    expect(k.status, k.text).toBe(201);
+    expect(k.body.warnings).toEqual([wait]);
+    // edited: saved, with the same warning
+    const edit = await put(id, fullSweep(w, { label: 'prepared in advance, edited' }));
+    expect(edit.status, edit.text).toBe(200);
+    expect(edit.body.warnings).toEqual([wait]);
+    expect((await w.memberA.get(`/api/entries/${id}`)).body.document.label).toBe('prepared in advance, edited');
+    // not submitted before opensAt: 409 saying from when, and the draft stays a draft
+    const s = await refused(() => submit(id));
+    expect(s.problems).toEqual([wait]);
+    expect(s.message).toBe(`/challenge/id: ${wait.message}`);
+    expect(await stateOf(id)).toBe('draft');
+    // the dry run says the same: a draft would be stored, a submission would not be taken
     const d = await dry(fullSweep(w));
     expect(d.status).toBe(200);
-    expect(d.body.acceptsEntries).toBe(false);
-    expect(d.body.warnings[0]).toEqual(early.problems[0]);
+    expect(d.body).toMatchObject({ valid: true, stored: false, acceptsDrafts: true, acceptsSubmissions: false, acceptsEntries: false });
+    expect(d.body.warnings).toEqual([wait]);
 
-    w.t.clock.advance(opens - w.t.clock.now.getTime()); // exactly opensAt
-    expect((await post(fullSweep(w))).status).toBe(201);
-    expect((await dry(fullSweep(w))).body.acceptsEntries).toBe(true);
+    w.t.clock.advance(opens - w.t.clock.now.getTime() - 1); // the last millisecond before
+    expect((await refused(() => submit(id))).problems).toEqual([wait]);
+    w.t.clock.advance(1); // exactly opensAt
+    const sent = await submit(id);
+    expect(sent.status, sent.text).toBe(200);
+    expect(sent.body).toMatchObject({ state: 'in-review', submittedAt: iso(opens) });
+    const at = await dry(fullSweep(w));
+    expect(at.body).toMatchObject({ acceptsDrafts: true, acceptsSubmissions: true, acceptsEntries: true, warnings: [] });
+    const fresh = await post(fullSweep(w));
+    expect(fresh.status).toBe(201);
+    expect(fresh.body.warnings).toEqual([]);
     w.t.clock.advance(closes - w.t.clock.now.getTime() - 1); // the last millisecond inside
     expect((await post(fullSweep(w))).status).toBe(201);
     w.t.clock.advance(1); // exactly closesAt
     const late = await refused(() => post(fullSweep(w)));
     expect(late.problems).toEqual([{ path: '/challenge/id', message: `chain-12 takes no new entries since its submission window closed at ${iso(closes)}; a moderator can extend the window` }]);
+    const ld = await dry(fullSweep(w));
+    expect(ld.body).toMatchObject({ acceptsDrafts: false, acceptsSubmissions: false, acceptsEntries: false });
+    expect(ld.body.warnings).toEqual(late.problems);
     // extending the window opens it again
     await settings({ submissionWindow: { closesAt: iso(closes + 60_000) } });
     expect((await post(fullSweep(w))).status).toBe(201);
+  });
+
+  it('before it opens, a closed challenge or a closed track still refuses a new draft (409, nothing stored); the open track takes it with the warning', async () => {
+    const opens = w.t.clock.now.getTime() + 3_600_000;
+    const wait = { path: '/challenge/id', message: `chain-12 takes no submissions before its submission window opens at ${iso(opens)}; a draft can be saved and edited meanwhile, and submitted from then on` };
+    await settings({ state: 'closed', submissionWindow: { opensAt: iso(opens) } });
+    const c = await refused(() => post(fullSweep(w)));
+    expect(c.problems).toEqual([{ path: '/challenge/id', message: 'chain-12 is closed and takes no new entries; a moderator can open it again' }]);
+    const cd = await dry(fullSweep(w));
+    expect(cd.body).toMatchObject({ acceptsDrafts: false, acceptsSubmissions: false, acceptsEntries: false });
+    expect(cd.body.warnings).toEqual([...c.problems, wait]);
+
+    await settings({ state: 'open', tracks: ['hardware'] });
+    const t = await refused(() => post(fullSweep(w)));
+    expect(t.problems.map((p) => p.path)).toEqual(['/track']);
+    const hw = await post(hardware());
+    expect(hw.status, hw.text).toBe(201);
+    expect(hw.body.warnings).toEqual([wait]);
+    // and a draft is not moved into the closed track before the window opens either
+    const move = await refused(() => put(hw.body.id, fullSweep(w)));
+    expect(move.problems.map((p) => p.path)).toEqual(['/track']);
+  });
+
+  it('before it opens no new revision of a published entry; a returned entry is resubmitted as ever', async () => {
+    const pub = await published(fullSweep(w, { label: 'published before the window was set' }));
+    const back = await draft(fullSweep(w, { label: 'returned before the window was set' }));
+    expect((await submit(back)).status).toBe(200);
+    expect((await w.mod.post(`/api/entries/${back}/decision`, { decision: 'return', reason: 'Say which bond dimension you used.' })).status).toBe(200);
+    const opens = w.t.clock.now.getTime() + 3_600_000;
+    await settings({ submissionWindow: { opensAt: iso(opens) } });
+    const r = await refused(() => w.memberA.post(`/api/entries/${pub}/revise`));
+    expect(r.problems).toEqual([{ path: '/challenge/id', message: `chain-12 takes no new revisions before its submission window opens at ${iso(opens)}` }]);
+    expect(await stateOf(pub)).toBe('published');
+    const fix = await put(back, fullSweep(w, { label: 'returned before the window was set', method: { family: 'tensor-network', settings: { bondDimension: 512 } } }));
+    expect(fix.status, fix.text).toBe(200);
+    expect(fix.body.warnings).toEqual([]);
+    const again = await submit(back);
+    expect(again.status, again.text).toBe(200);
+    expect(again.body.state).toBe('in-review');
   });
 
   it('a window with only an end, or only a start, is unbounded on the other side', async () => {
