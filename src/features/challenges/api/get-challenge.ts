@@ -8,17 +8,19 @@ export interface ObservableSpec { id?: string; terms?: { coef: number; pauli: st
 export interface ChallengeObservable { key: string; spec: ObservableSpec; bound: number | null }
 export type TrackKey = 'hardware' | 'classical';
 /**
- * Whether the challenge takes new entries now, on the server's clock (asOf): the same answer as
- * the enforcement when an entry is created. Drafts already saved stay editable whatever it says,
- * and a returned entry can be sent back to review.
+ * Whether the challenge takes entries now, on the server's clock (asOf): the same answer as the
+ * enforcement. acceptsEntriesNow: a submission would be taken now; acceptsDraftsNow: a new draft
+ * would be stored now (also before the window opens, when only the submission waits). Drafts
+ * already saved stay editable whatever it says, and a returned entry can be sent back to review.
  */
 export interface SubmissionsStatus {
   acceptsEntriesNow: boolean;
-  /** short, when it takes none: "submissions closed", "opens 2026-12-24 00:00 UTC", "closed …", "no track open" */
+  acceptsDraftsNow: boolean;
+  /** short, when it takes no submission: "submissions closed", "opens 2026-12-24 00:00 UTC", "closed …", "no track open" */
   reason: string | null;
   openTracks: TrackKey[];
   window: { opensAt: string | null; closesAt: string | null };
-  tracks: Record<TrackKey, { acceptsEntriesNow: boolean; reason: string | null }>;
+  tracks: Record<TrackKey, { acceptsEntriesNow: boolean; acceptsDraftsNow: boolean; reason: string | null }>;
   asOf: string;
 }
 export interface ChallengeDetail {

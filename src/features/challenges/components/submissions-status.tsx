@@ -2,7 +2,8 @@
  * Whether a challenge takes entries now, as the server says (submissions in GET
  * /api/challenges/:slug and the catalogue; the same answer as the enforcement): a badge for the
  * catalogue, and on the challenge page a status line with the window, the open tracks and the
- * submit button. Dates are shown in UTC, the reader's local time in the tooltip.
+ * submit button. Before the window opens drafts can already be prepared (acceptsDraftsNow) while
+ * submissions wait for opensAt. Dates are shown in UTC, the reader's local time in the tooltip.
  */
 import { useEffect, useState } from 'react';
 import type { SubmissionsStatus, TrackKey } from '@/features/challenges/api/get-challenge';
@@ -33,7 +34,7 @@ export function useServerNow(s: SubmissionsStatus, receivedAt: number): number {
 
 export type EntryStatusKey = 'open' | 'upcoming' | 'closed' | 'draft';
 
-/** what the badge says: open (taking entries now), upcoming (the window opens later), closed, draft */
+/** what the badge says: open (taking submissions now), upcoming (the window opens later; drafts may be prepared), closed, draft */
 export function entryStatus(state: string, s: SubmissionsStatus): { key: EntryStatusKey; label: string; tone: BadgeTone; title: string } {
   if (state === 'draft') return { key: 'draft', label: 'draft', tone: 'disputed', title: 'Not published yet' };
   if (s.acceptsEntriesNow) {
@@ -43,7 +44,7 @@ export function entryStatus(state: string, s: SubmissionsStatus): { key: EntrySt
   }
   const opens = s.window.opensAt;
   if (state === 'open' && opens && Date.parse(opens) > Date.parse(s.asOf))
-    return { key: 'upcoming', label: `opens ${formatUtcDate(opens)}`, tone: 'neutral', title: `Takes entries from ${formatUtcDateTime(opens)}` };
+    return { key: 'upcoming', label: `opens ${formatUtcDate(opens)}`, tone: 'neutral', title: `Takes submissions from ${formatUtcDateTime(opens)}${s.acceptsDraftsNow ? '; drafts can be prepared now' : ''}` };
   return { key: 'closed', label: 'closed', tone: 'neutral', title: `Takes no new entries: ${shortReason(state, s)}` };
 }
 
@@ -63,7 +64,7 @@ export function Headline({ state, s, now }: { state: string; s: SubmissionsStatu
   if (state === 'draft') return <>Not open for entries: not published yet</>;
   if (state === 'closed') return <>Closed for entries: a moderator closed submissions</>;
   if (opensAt && Date.parse(opensAt) > Date.parse(s.asOf))
-    return <>Opens for entries on <UtcTime at={opensAt} />{rel(opensAt)}{closesAt && <>, until <UtcTime at={closesAt} /></>}</>;
+    return <>Opens for submissions on <UtcTime at={opensAt} />{rel(opensAt)}{closesAt && <>, until <UtcTime at={closesAt} /></>}{s.acceptsDraftsNow && <>; drafts can be prepared now</>}</>;
   if (closesAt && Date.parse(closesAt) <= Date.parse(s.asOf))
     return <>Closed for entries since <UtcTime at={closesAt} />{rel(closesAt)}</>;
   return <>Closed for entries: {s.reason ?? 'no track open'}</>;
@@ -94,7 +95,10 @@ export function SubmissionsStatusLine({ state, s, receivedAt }: { state: string;
           );
         })}
       </p>
-      {!s.acceptsEntriesNow && state !== 'draft' && (
+      {!s.acceptsEntriesNow && s.acceptsDraftsNow && s.window.opensAt && (
+        <p className="text-ink-soft">A draft saved now can be submitted for review from <UtcTime at={s.window.opensAt} />.</p>
+      )}
+      {!s.acceptsEntriesNow && !s.acceptsDraftsNow && state !== 'draft' && (
         <p className="text-ink-soft">Drafts already saved stay editable from My entries, and a returned entry can be fixed and sent back to review.</p>
       )}
     </div>
@@ -111,9 +115,20 @@ export function shortReason(state: string, s: SubmissionsStatus): string {
   return s.reason ?? 'closed';
 }
 
-/** "Submit an entry", or the same button disabled with the reason beside it */
+/**
+ * "Submit an entry"; before the window opens the same link to the form, where a draft can be saved
+ * (submitting waits for opensAt, said beside it); otherwise the button disabled with the reason
+ */
 export function SubmitEntryButton({ slug, state, s }: { slug: string; state: string; s: SubmissionsStatus }) {
-  if (s.acceptsEntriesNow) return <ButtonLink variant="primary" size="sm" to={`/challenges/${encodeURIComponent(slug)}/submit`}>Submit an entry</ButtonLink>;
+  const to = `/challenges/${encodeURIComponent(slug)}/submit`;
+  if (s.acceptsEntriesNow) return <ButtonLink variant="primary" size="sm" to={to}>Submit an entry</ButtonLink>;
+  if (s.acceptsDraftsNow)
+    return (
+      <span className="inline-flex flex-wrap items-center gap-2">
+        <ButtonLink variant="primary" size="sm" to={to} aria-describedby="submit-drafts-only">Submit an entry</ButtonLink>
+        <span id="submit-drafts-only" className="text-xs text-ink-soft">Drafts only: submissions open {s.window.opensAt ? formatUtcDateTime(s.window.opensAt) : 'later'}</span>
+      </span>
+    );
   return (
     <span className="inline-flex flex-wrap items-center gap-2">
       <button type="button" disabled className={buttonClass('primary', 'sm')} aria-describedby="submit-closed-reason">Submit an entry</button>

@@ -6,7 +6,11 @@ export interface SweepStats { targets: number; answered: number; scored: number;
 export interface PreviewTarget { target: string; value: number; uncertainty: number; reference: number; error: number; z: number | null; covered: boolean }
 export interface ValidateResult {
   valid: true; stored: false;
-  /** whether the challenge takes it now (its state, submission window, open tracks); the warnings say why not */
+  /** whether it would be stored as a draft now (before the window opens it would); the warnings say why not */
+  acceptsDrafts: boolean;
+  /** whether it could also be submitted for review now (state, submission window, open tracks) */
+  acceptsSubmissions: boolean;
+  /** the same as acceptsSubmissions, kept for compatibility */
   acceptsEntries: boolean;
   challenge: { slug: string; version: number; checksum: string };
   estimates: number;

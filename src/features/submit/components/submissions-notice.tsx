@@ -1,25 +1,32 @@
 /**
  * Before the form: whether the challenge takes this entry now (the server's submissions status,
  * the same answer as the enforcement), and what stays possible when it does not: checking always,
- * saving an existing draft, sending a returned entry back to review.
+ * saving a draft before the submission window opens, saving an existing draft, sending a returned
+ * entry back to review.
  */
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
-import { Headline, useServerNow } from '@/features/challenges/components/submissions-status';
+import { Headline, UtcTime, useServerNow } from '@/features/challenges/components/submissions-status';
 import { FormMessage, isTrack } from '@/components/ui';
 
 const TRACKS = ['hardware', 'classical'] as const;
 
-/** whether this entry (new or a draft, in this track) can be stored as new or submitted now */
-export function takesEntry(c: ChallengeDetail, track: string): boolean {
+/** whether this entry (new or a draft, in this track) can be submitted for review now */
+export function takesSubmission(c: ChallengeDetail, track: string): boolean {
   const s = c.submissions;
   return isTrack(track) ? s.tracks[track].acceptsEntriesNow : s.acceptsEntriesNow;
+}
+
+/** whether a new entry in this track can be stored as a draft now (also before the window opens) */
+export function takesDraft(c: ChallengeDetail, track: string): boolean {
+  const s = c.submissions;
+  return isTrack(track) ? s.tracks[track].acceptsDraftsNow : s.acceptsDraftsNow;
 }
 
 export function SubmissionsNotice({ challenge: c, track, entryState, receivedAt }: { challenge: ChallengeDetail; track: string; entryState: string | null; receivedAt: number }) {
   const s = c.submissions;
   const now = useServerNow(s, receivedAt);
   if (entryState && entryState !== 'draft' && entryState !== 'returned') return null;
-  if (takesEntry(c, track)) {
+  if (takesSubmission(c, track)) {
     // this entry's track is open: say so when the other is not, before the form
     const closed = TRACKS.filter((t) => !s.tracks[t].acceptsEntriesNow);
     if (!closed.length) return null;
@@ -29,7 +36,23 @@ export function SubmissionsNotice({ challenge: c, track, entryState, receivedAt 
       </div>
     );
   }
-  const trackOnly = s.acceptsEntriesNow && isTrack(track);
+  if (takesDraft(c, track) && entryState !== 'returned') {
+    // before the window opens: a draft is saved now, its submission waits for opensAt
+    const opens = s.window.opensAt;
+    const from = opens ? <>from <UtcTime at={opens} /></> : 'once the submission window opens';
+    return (
+      <div className="mb-4" data-testid="submissions-notice">
+        <FormMessage tone="info">
+          <p><strong><Headline state={c.state} s={s} now={now} />.</strong></p>
+          <p className="mt-1">
+            {entryState === 'draft' ? 'This draft can be edited and saved now' : 'You can prepare this entry and save it as a draft now'} (Save draft); Submit for review is possible {from}.
+          </p>
+        </FormMessage>
+      </div>
+    );
+  }
+  // the challenge takes something in the other track, but this track is closed
+  const trackOnly = isTrack(track) && s.acceptsDraftsNow && !s.tracks[track].acceptsDraftsNow;
   const asOf = Date.parse(s.asOf);
   const until = trackOnly ? 'while its track is closed'
     : c.state === 'closed' ? 'until a moderator opens the challenge again'

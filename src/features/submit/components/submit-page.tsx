@@ -22,7 +22,8 @@ import { EstimatesTable, cellProblems } from './estimates-table';
 import { MetadataForm } from './metadata-form';
 import { ProblemList } from './problem-list';
 import { ScorePreview } from './score-preview';
-import { SubmissionsNotice, takesEntry } from './submissions-notice';
+import { formatUtcDateTime } from '@/lib/format-time';
+import { SubmissionsNotice, takesDraft, takesSubmission } from './submissions-notice';
 
 const EDITABLE_STATES = ['draft', 'returned'];
 const kib = (n: number) => (n < 1024 * 1024 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1024 / 1024).toFixed(1)} MiB`);
@@ -93,7 +94,9 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
       setWarnings(r.warnings);
       setResult(r);
       const valid = `The entry is valid: ${r.estimates} estimate${r.estimates === 1 ? '' : 's'}, covering ${r.coverage.covered} of ${r.coverage.targets} targets.`;
-      setMessage(r.acceptsEntries === false ? { tone: 'info', text: `${valid} The challenge does not take it now: see the warnings.` } : { tone: 'ok', text: valid });
+      setMessage(r.acceptsDrafts && !r.acceptsSubmissions ? { tone: 'info', text: `${valid} It can be saved as a draft now but not yet submitted: see the warnings.` }
+        : !r.acceptsSubmissions ? { tone: 'info', text: `${valid} The challenge does not take it now: see the warnings.` }
+        : { tone: 'ok', text: valid });
     } catch (e) {
       setResult(null);
       setWarnings([]);
@@ -212,12 +215,15 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
   const busy = check.isPending || create.isPending || update.isPending || submitting;
   const noTeam = teams.length === 0;
   // what the challenge settings allow now (the server refuses the rest with a 409 all the same):
-  // a new entry is stored only while its track takes entries; a draft is submitted only then; a
-  // returned entry goes back to review whatever they say
-  const takes = takesEntry(challenge, form.track);
-  const cannotSave = !takes && !entryId;
-  const cannotSubmit = !takes && entryState !== 'returned';
+  // a new entry is stored only while its track takes drafts (also before the window opens); a
+  // draft is submitted only while its track takes submissions; a returned entry goes back to
+  // review whatever they say
+  const cannotSave = !takesDraft(challenge, form.track) && !entryId;
+  const cannotSubmit = !takesSubmission(challenge, form.track) && entryState !== 'returned';
+  const opensAt = challenge.submissions.window.opensAt;
+  const draftsOnly = cannotSubmit && takesDraft(challenge, form.track) && opensAt !== null;
   const notNow = 'The challenge takes no new entries in this track now (see the note at the top)';
+  const notYet = draftsOnly ? `Submissions open ${formatUtcDateTime(opensAt)}: save the draft now and submit it from then on` : notNow;
 
   return (
     <div>
@@ -305,7 +311,8 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
         <div className="flex flex-wrap items-center gap-2 px-4 py-3 sm:px-0">
           <Button variant="secondary" onClick={() => runCheck()} busy={check.isPending} disabled={busy || frozen}>Check</Button>
           <Button variant="secondary" onClick={onSave} busy={create.isPending || update.isPending} disabled={busy || frozen || noTeam || cannotSave} title={cannotSave ? notNow : undefined}>Save draft</Button>
-          <Button onClick={onSubmit} busy={submitting} disabled={busy || frozen || noTeam || cannotSubmit} title={cannotSubmit ? notNow : undefined}>Submit for review</Button>
+          <Button onClick={onSubmit} busy={submitting} disabled={busy || frozen || noTeam || cannotSubmit} title={cannotSubmit ? notYet : undefined} aria-describedby={cannotSubmit && !frozen ? 'submit-not-now' : undefined}>Submit for review</Button>
+          {cannotSubmit && !frozen && <span id="submit-not-now" className="text-xs text-ink-soft" data-testid="submit-not-now">{draftsOnly ? `Submissions open ${formatUtcDateTime(opensAt)}` : 'Not taking submissions now'}</span>}
           <span className={cx('ml-auto hidden text-sm sm:inline', dirty ? 'text-ink-soft' : 'text-ink-faint')}>
             {dirty ? 'Unsaved changes' : entryId ? 'Saved' : ''}
           </span>
