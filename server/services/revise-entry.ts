@@ -1,9 +1,10 @@
 /**
  * A new revision of a published entry: a draft copy (metadata and estimates) in the same lineage,
  * revision + 1, that supersedes the published one once it is published in turn (publishEntry).
- * One open revision per lineage at a time. A revision is a new entry in effect, so the challenge
- * settings refuse it as they refuse a new entry: challenge closed, outside the submission window, or
- * the entry's track closed (409; see validate-entry.ts). The published entry stays as it is.
+ * One open revision per lineage at a time. A revision is a new submission in effect, so the
+ * challenge settings refuse it as they refuse a submission: challenge closed, outside the submission
+ * window (before it opens too, although a new draft is taken then), or the entry's track closed (409;
+ * see REFUSES in validate-entry.ts). The published entry stays as it is.
  */
 import { randomUUID } from 'node:crypto';
 import { and, eq, inArray, max, sql } from 'drizzle-orm';
