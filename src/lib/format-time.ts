@@ -22,9 +22,9 @@ export function formatFromNow(d: string | Date | null | undefined, now = Date.no
   const a = Math.abs(ms);
   const unit = (n: number, w: string) => `${n} ${w}${n === 1 ? '' : 's'}`;
   const span = a < 60_000 ? null
-    : a < 3_600_000 ? unit(Math.floor(a / 60_000), 'minute')
-    : a < 86_400_000 ? unit(Math.floor(a / 3_600_000), 'hour')
-    : unit(Math.floor(a / 86_400_000), 'day');
+    : a < 3_570_000 ? unit(Math.round(a / 60_000), 'minute')
+    : a < 84_600_000 ? unit(Math.round(a / 3_600_000), 'hour')
+    : unit(Math.round(a / 86_400_000), 'day'); // rounded: 47.9 hours is "in 2 days", not "in 1 day"
   if (!span) return ms >= 0 ? 'in under a minute' : 'just now';
   return ms >= 0 ? `in ${span}` : `${span} ago`;
 }

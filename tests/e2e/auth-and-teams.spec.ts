@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots, openPage, closeAll } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -18,11 +18,7 @@ const bruno = { name: 'Bruno Tamm', email: `bruno.${stamp}@example.test`, passwo
 const teamName = `Falcon Tensor Group ${stamp}`;
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
-  const ctx = await browser.newContext({ viewport, baseURL: server.url });
-  contexts.push(ctx);
-  const page = await ctx.newPage();
-  page.setDefaultTimeout(15_000);
-  return page;
+  return openPage(browser, server.url, contexts, viewport, { timeoutMs: 15_000 });
 }
 
 
@@ -79,9 +75,7 @@ describe('sign-up, verification, teams and invitations in the browser', () => {
   });
 
   afterAll(async () => {
-    for (const c of contexts) await c.close().catch(() => undefined);
-    await browser?.close().catch(() => undefined);
-    await server?.stop();
+    await closeAll(contexts, browser, server);
   });
 
   it('takes two new people from sign-up to one team', async () => {

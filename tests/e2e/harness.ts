@@ -8,7 +8,7 @@ import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 export const SHOTS = path.join(root, 'test-output', 'screenshots');
@@ -79,6 +79,25 @@ export async function launchBrowser(): Promise<Browser> {
     executablePath: chromiumPath(),
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
+}
+
+/**
+ * A page in a fresh browser context (own cookies) on the test server; the context is remembered in
+ * `contexts` so that closeAll can close it.
+ */
+export async function openPage(browser: Browser, baseURL: string, contexts: BrowserContext[], viewport: { width: number; height: number }, opts: { timeoutMs?: number; downloads?: boolean } = {}): Promise<Page> {
+  const ctx = await browser.newContext({ viewport, baseURL, acceptDownloads: opts.downloads ?? false });
+  contexts.push(ctx);
+  const page = await ctx.newPage();
+  page.setDefaultTimeout(opts.timeoutMs ?? 20_000);
+  return page;
+}
+
+/** Closes every context, the browser and the server (each step tolerant of an earlier failure). */
+export async function closeAll(contexts: BrowserContext[], browser: Browser | undefined, server: RunningServer | undefined): Promise<void> {
+  for (const c of contexts) await c.close().catch(() => undefined);
+  await browser?.close().catch(() => undefined);
+  await server?.stop();
 }
 
 export const DESKTOP = { width: 1280, height: 800 };

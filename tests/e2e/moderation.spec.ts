@@ -6,7 +6,7 @@
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, shots, openPage, closeAll } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -27,11 +27,7 @@ const spec = {
 };
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
-  const ctx = await browser.newContext({ viewport, baseURL: server.url });
-  contexts.push(ctx);
-  const page = await ctx.newPage();
-  page.setDefaultTimeout(20_000);
-  return page;
+  return openPage(browser, server.url, contexts, viewport);
 }
 
 
@@ -62,9 +58,7 @@ describe('moderation in the browser', () => {
     if (ctx.task.result?.state === 'fail' && failing) await shot(failing, 'failed-moderation').catch(() => undefined);
   });
   afterAll(async () => {
-    for (const c of contexts) await c.close().catch(() => undefined);
-    await browser?.close().catch(() => undefined);
-    await server?.stop();
+    await closeAll(contexts, browser, server);
   });
 
   it('publishes a challenge, returns an entry with a reason, and publishes the resubmission', async () => {

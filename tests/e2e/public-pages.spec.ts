@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type RunningServer, openPage, closeAll } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -14,11 +14,7 @@ const contexts: BrowserContext[] = [];
 const SLUG = 'kicked-chain-60';
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
-  const ctx = await browser.newContext({ viewport, baseURL: server.url, acceptDownloads: true });
-  contexts.push(ctx);
-  const page = await ctx.newPage();
-  page.setDefaultTimeout(20_000);
-  return page;
+  return openPage(browser, server.url, contexts, viewport, { downloads: true });
 }
 
 async function shots(page: Page, name: string): Promise<void> {
@@ -52,9 +48,7 @@ describe('the public pages in the browser', () => {
   }, 240_000);
 
   afterAll(async () => {
-    for (const c of contexts) await c.close().catch(() => undefined);
-    await browser?.close().catch(() => undefined);
-    await server?.stop();
+    await closeAll(contexts, browser, server);
   });
 
   it('a visitor browses, compares and downloads', async () => {
@@ -174,10 +168,27 @@ describe('the public pages in the browser', () => {
     await p.getByTestId('team-entries').waitFor();
     await shots(p, '14-team');
 
+    // a moderator opens a blind round later and closes another challenge: the pages say so
+    const mod = await newPage(DESKTOP);
+    const origin = { origin: server.url };
+    expect((await mod.request.post('/api/auth/sign-in/email', { data: { email: 'moderator@parallax.test', password: DEMO_PASSWORD }, headers: origin })).ok()).toBe(true);
+    const opensAt = new Date(Date.now() + 2 * 86_400_000).toISOString();
+    const later = await mod.request.post('/api/challenges/square-7x7-echo/settings', { data: { submissionWindow: { opensAt }, reason: 'blind round opens later' }, headers: origin });
+    expect(later.ok(), await later.text()).toBe(true);
+    const closed = await mod.request.post('/api/challenges/hex-patch-3x3/settings', { data: { state: 'closed', reason: 'round over' }, headers: origin });
+    expect(closed.ok(), await closed.text()).toBe(true);
+    await p.goto('/challenges/square-7x7-echo');
+    await expect.poll(() => p.getByTestId('submissions-status').textContent()).toMatch(/Opens for submissions on .*drafts can be prepared now/);
+    await p.getByText(/Drafts only: submissions open/).waitFor();
+    await shots(p, '15-opens-later');
+    await p.goto('/challenges/hex-patch-3x3');
+    await expect.poll(() => p.getByTestId('submissions-status').textContent()).toMatch(/Closed for entries/);
+    await shots(p, '16-closed');
+
     // the home page lists the challenges as cards
     await p.goto('/');
     await p.getByTestId('challenge-list').waitFor();
-    await shots(p, '15-home');
+    await shots(p, '17-home');
 
     expect(errors).toEqual([]);
   });

@@ -6,7 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { DEMO_PASSWORD, DESKTOP, launchBrowser, startServer, type RunningServer, shots } from './harness';
+import { DEMO_PASSWORD, DESKTOP, launchBrowser, startServer, type RunningServer, shots, openPage, closeAll } from './harness';
 
 let server: RunningServer;
 let browser: Browser;
@@ -14,11 +14,7 @@ const contexts: BrowserContext[] = [];
 const SLUG = 'kicked-chain-60';
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
-  const ctx = await browser.newContext({ viewport, baseURL: server.url });
-  contexts.push(ctx);
-  const page = await ctx.newPage();
-  page.setDefaultTimeout(20_000);
-  return page;
+  return openPage(browser, server.url, contexts, viewport);
 }
 
 
@@ -47,9 +43,7 @@ describe('submitting an entry in the browser', () => {
     browser = await launchBrowser();
   });
   afterAll(async () => {
-    for (const c of contexts) await c.close().catch(() => undefined);
-    await browser?.close().catch(() => undefined);
-    await server?.stop();
+    await closeAll(contexts, browser, server);
   });
 
   it('shows two errors beside their cells, takes the fixes, previews the scores and submits', async () => {
