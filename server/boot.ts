@@ -58,7 +58,24 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
         }
       : undefined,
   });
-  server.on('request', app);
+  // Shutdown in three steps (stop below): requests already accepted finish; then, for
+  // config.shutdownDrainMs, new requests (the kernel's accept queue and keep-alive reuse) are
+  // answered 503 with Retry-After and Connection: close, a retryable refusal instead of a reset;
+  // then the listener closes.
+  let draining = false;
+  let inFlight = 0;
+  let idle: (() => void) | null = null;
+  server.on('request', (req: http.IncomingMessage, res: http.ServerResponse) => {
+    if (draining) {
+      const body = JSON.stringify({ error: { code: 'unavailable', message: 'Parallax is restarting: send the request again in a few seconds.', problems: [] } });
+      res.writeHead(503, { 'content-type': 'application/json; charset=utf-8', 'retry-after': '5', connection: 'close', 'content-length': Buffer.byteLength(body) });
+      res.end(body);
+      return;
+    }
+    inFlight++;
+    res.once('close', () => { if (--inFlight === 0 && idle) idle(); });
+    app(req, res);
+  });
 
   let worker: Worker | undefined;
   if (config.runWorker) {
@@ -89,6 +106,11 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
   let stopping: Promise<void> | undefined;
   const stop = () =>
     (stopping ??= (async () => {
+      draining = true;
+      // the requests accepted before the signal finish (at most 10 s)
+      if (inFlight > 0) await new Promise<void>((resolve) => { idle = resolve; setTimeout(resolve, 10_000).unref(); });
+      // connections still queued are accepted now that the loop is free, and refused with a 503
+      if (config.shutdownDrainMs > 0) await new Promise((r) => setTimeout(r, config.shutdownDrainMs));
       await new Promise<void>((resolve) => {
         server.close(() => resolve());
         server.closeIdleConnections?.();

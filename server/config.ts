@@ -30,6 +30,8 @@ export interface Config {
   uploadLimitBytes: number;
   /** how many large documents (entries, challenge specs) are read and processed at once */
   documentSlots: number;
+  /** after the requests in flight at SIGTERM finish: how long new ones get 503 before the listener closes */
+  shutdownDrainMs: number;
   /** extra origins trusted for cookie-bearing writes (e.g. the Vite dev server) */
   trustedOrigins: string[];
   seedDemo: boolean;
@@ -76,6 +78,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     jsonLimitBytes: 1024 * 1024 * Number(env.JSON_LIMIT_MIB ?? 12),
     uploadLimitBytes: 1024 * 1024 * Number(env.UPLOAD_LIMIT_MIB ?? 10),
     documentSlots: Math.max(1, Number(env.DOCUMENT_SLOTS ?? 2)),
+    shutdownDrainMs: Math.max(0, Number(env.SHUTDOWN_DRAIN_MS ?? 1000)),
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
     logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',
