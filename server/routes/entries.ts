@@ -15,8 +15,7 @@ import { z } from 'zod';
 import type { AppContext } from '../app';
 import { entries, estimates, member, organization } from '../db/schema';
 import { AppError, badRequest, forbidden, notFound } from '../errors';
-import { teamRole } from '../middleware/actor';
-import { isPublicEntry, presentEntry, type EntryRow } from '../presenters/entry';
+import { isPublicEntry, presentEntry } from '../presenters/entry';
 import { validateEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
 import { createEntry } from '../services/create-entry';
 import { updateEntry } from '../services/update-entry';
@@ -27,6 +26,7 @@ import { parseBody } from '../validate';
 import { documentBody as readDocumentBody } from '../util/document-body';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
+import { entryAccess } from './entry-access';
 
 /** The routes whose body is an entry document, read as raw text by the route itself. */
 export function takesEntryDocument(method: string, path: string): boolean {
@@ -35,7 +35,6 @@ export function takesEntryDocument(method: string, path: string): boolean {
   return false;
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const withdrawBody = z.object({ reason: z.string().trim().min(1, 'say why the entry is withdrawn (it stays visible with the reason)').max(2000) }).strict();
 const mib = (b: number) => `${(b / 1024 / 1024).toFixed(b % (1024 * 1024) ? 1 : 0)} MiB`;
 
@@ -67,23 +66,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     throw badRequest(`You are a member of ${mine.length} teams (${mine.map((m) => `${m.name}: ${m.id}`).join(', ')}): say which one this entry is for with ?team=<teamId>.`);
   };
 
-  const loadEntry = async (req: Request): Promise<EntryRow> => {
-    const id = String(req.params.entryId);
-    if (!UUID.test(id)) throw notFound('The entry');
-    const [e] = await db.select().from(entries).where(eq(entries.id, id)).limit(1);
-    if (!e) throw notFound('The entry');
-    return e;
-  };
-  const entryTeam = async (req: Request) => (await loadEntry(req)).teamId;
-
-  /** Whether the caller is of the entry's team (member or its API key) or a moderator. */
-  const privileged = async (req: Request, teamId: string): Promise<boolean> => {
-    const a = req.actor;
-    if (a.kind === 'api-key') return a.teamId === teamId;
-    if (a.kind !== 'user') return false;
-    if (a.user.role === 'moderator' || a.user.role === 'admin') return true;
-    return (await teamRole(db, a.user.id, teamId)) !== null;
-  };
+  const { loadEntry, entryTeam, privileged } = entryAccess(db);
 
   routes.add({
     method: 'post', path: '/challenges/:slug/entries', access: 'team-member', apiKey: true, team: postingTeam,

@@ -10,9 +10,8 @@ import type { Request } from 'express';
 import { PRIMARY_METRICS } from '@shared/scoring/standings';
 import { CONSENSUS_ESTIMATORS } from '@shared/scoring';
 import type { AppContext } from '../app';
-import { entries, entryCommitments, referenceSeals } from '../db/schema';
+import { entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
-import { teamRole } from '../middleware/actor';
 import { isPublicEntry } from '../presenters/entry';
 import { QueueChecksCache, reviewQueue } from '../services/check-entries';
 import { decideEntry, DECISIONS, notifyDecision, type Decision } from '../services/decide-entry';
@@ -24,8 +23,8 @@ import { COMMITMENT_RECIPE, registerCommitment, storedEstimatesHash } from '../s
 import { parseBody } from '../validate';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
+import { entryAccess } from './entry-access';
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
 const curationBody = z.object({
@@ -59,14 +58,7 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
   // the queue's checks, recomputed per challenge version only when what they depend on changed
   const checksCache = new QueueChecksCache();
 
-  const loadEntry = async (req: Request) => {
-    const id = String(req.params.entryId);
-    if (!UUID.test(id)) throw notFound('The entry');
-    const [e] = await db.select().from(entries).where(eq(entries.id, id)).limit(1);
-    if (!e) throw notFound('The entry');
-    return e;
-  };
-  const entryTeam = async (req: Request) => (await loadEntry(req)).teamId;
+  const { loadEntry, entryTeam, privileged } = entryAccess(db);
 
   routes.add({
     method: 'get', path: '/moderation/queue', access: 'moderator',
@@ -161,9 +153,7 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     summary: "An entry's commitment and, after the reveal, whether it matched the estimates (public after the reveal; the team and moderators see it before)",
     handler: async (req) => {
       const e = await loadEntry(req);
-      const a = req.actor;
-      const priv = a.kind === 'api-key' ? a.teamId === e.teamId
-        : a.kind === 'user' ? a.user.role === 'moderator' || a.user.role === 'admin' || (await teamRole(db, a.user.id, e.teamId)) !== null : false;
+      const priv = await privileged(req, e.teamId);
       const [c] = await db.select().from(entryCommitments).where(eq(entryCommitments.entryId, e.id));
       const revealed = c && c.result !== 'pending';
       if (!c || (!priv && (!revealed || !isPublicEntry(e)))) throw notFound('A public commitment for this entry');

@@ -102,8 +102,16 @@ type Query = Record<string, string | number | boolean | undefined | null>;
 
 export interface RequestOptions {
   query?: Query;
+  /** a JSON value, or a FormData (multipart uploads: sent as it is) */
   body?: unknown;
   signal?: AbortSignal;
+}
+
+/** a file as the multipart field "file", the field every upload route reads */
+export function fileForm(file: File): FormData {
+  const fd = new FormData();
+  fd.append('file', file, file.name);
+  return fd;
 }
 
 async function request<T>(method: string, path: string, opts: RequestOptions = {}): Promise<T> {
@@ -114,13 +122,14 @@ async function request<T>(method: string, path: string, opts: RequestOptions = {
     const s = qs.toString();
     if (s) url += `?${s}`;
   }
+  const form = opts.body instanceof FormData;
   let res: Response;
   try {
     res = await fetch(url, {
       method,
       credentials: 'include',
-      headers: { Accept: 'application/json', ...(opts.body !== undefined ? { 'Content-Type': 'application/json' } : {}) },
-      body: opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
+      headers: { Accept: 'application/json', ...(opts.body !== undefined && !form ? { 'Content-Type': 'application/json' } : {}) },
+      body: form ? (opts.body as FormData) : opts.body !== undefined ? JSON.stringify(opts.body) : undefined,
       signal: opts.signal,
     });
   } catch (e) {
@@ -143,6 +152,7 @@ async function request<T>(method: string, path: string, opts: RequestOptions = {
 export const api = {
   get: <T>(path: string, opts?: RequestOptions) => request<T>('GET', path, opts),
   post: <T>(path: string, body?: unknown, opts?: RequestOptions) => request<T>('POST', path, { ...opts, body: body ?? {} }),
+  put: <T>(path: string, body?: unknown, opts?: RequestOptions) => request<T>('PUT', path, { ...opts, body: body ?? {} }),
   delete: <T>(path: string, opts?: RequestOptions) => request<T>('DELETE', path, opts),
 };
 

@@ -4,26 +4,17 @@
  */
 import { spawn, execFileSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { freePort } from '../support/free-port';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 export const SHOTS = path.join(root, 'test-output', 'screenshots');
 export const DEMO_PASSWORD = 'parallax-demo-2026';
 
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const p = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(p));
-    });
-  });
-}
+export { freePort };
 
 export interface RunningServer { url: string; dataDir: string; output: () => string; stop(): Promise<void> }
 

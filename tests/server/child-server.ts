@@ -10,7 +10,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync } from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createHash } from 'node:crypto';
@@ -18,29 +17,17 @@ import { eq, sql } from 'drizzle-orm';
 import { apikey } from '../../server/db/schema';
 import { openDatabase, type Database } from '../../server/db/client';
 import { applyMigrations } from '../../server/db/migrate';
-import { createApp } from '../../server/app';
-import { loadConfig, type Config } from '../../server/config';
-import { startFakeSmtp } from '../../server/mail/fake-smtp';
-import { createMailer } from '../../server/mail/mailer';
-import { createLogger } from '../../server/log';
+import type { Config } from '../../server/config';
 import { startWorker } from '../../server/jobs/worker';
-import { setRole, signUpVerified, type TestApp } from './helpers';
+import { appOnDatabase, setRole, signUpVerified, type TestApp } from './helpers';
+import { freePort } from '../support/free-port';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 export const CHILD_AUTH_SECRET = 'child-secret-child-secret-child-secret-01';
 const CHAIN_SPEC = JSON.parse(readFileSync(new URL('../fixtures/challenges/chain-small.json', import.meta.url), 'utf8'));
 const FULL_ENTRY = JSON.parse(readFileSync(new URL('../fixtures/entries/chain-12-full.json', import.meta.url), 'utf8'));
 
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const p = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(p));
-    });
-  });
-}
+export { freePort };
 
 export interface ChildServer {
   url: string;
@@ -114,19 +101,7 @@ async function spawnServerOnce(dataDir: string, env: Record<string, string>): Pr
 export async function openAppOn(dataDir: string, overrides: Partial<Config> = {}): Promise<TestApp> {
   const database = await openDatabase({ dataDir: path.join(dataDir, 'pglite') });
   await applyMigrations(database);
-  const smtp = await startFakeSmtp(database.db, 0);
-  const config: Config = {
-    ...loadConfig({ DATA_DIR: dataDir, AUTH_SECRET: CHILD_AUTH_SECRET }),
-    baseUrl: 'http://parallax.test', passwordHash: { N: 2 ** 10, r: 8, p: 1 }, seedDemo: false, runWorker: false, logLevel: 'info',
-    signInThrottle: { windowMs: 10_000, maxFailures: 1000 }, authRateLimits: { signUpPerMinute: 1000, mailPerMinute: 1000 },
-    ...overrides,
-  };
-  const mailer = createMailer({ port: smtp.port, from: config.mailFrom });
-  const logs: string[] = [];
-  const log = createLogger('info', (l) => logs.push(l));
-  const clock = { now: new Date(), advance(ms: number) { this.now = new Date(this.now.getTime() + ms); } };
-  const { app, ctx, routes } = await createApp({ database, mailer, config, log, now: () => clock.now, serveClient: false });
-  return { app, ctx, routes, database, config, logs, clock, async close() { mailer.close(); await smtp.close(); await database.close(); } };
+  return appOnDatabase(database, { DATA_DIR: dataDir, AUTH_SECRET: CHILD_AUTH_SECRET }, { baseUrl: 'http://parallax.test', ...overrides });
 }
 
 export interface World { keyA: string; teamA: string; checksum: string; targets: { key: string; reference: { value?: number } }[] }

@@ -55,11 +55,17 @@ async function openTestDatabase(): Promise<Database> {
 }
 
 export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
-  const database = await openTestDatabase();
+  return appOnDatabase(await openTestDatabase(), { DATA_DIR: '/tmp/parallax-test-unused', AUTH_SECRET: 'test-secret-test-secret-test-secret-0123' }, { baseUrl: ORIGIN, ...overrides });
+}
+
+/**
+ * A test app in this process on an open database: a fake SMTP server, fast password hashing, no
+ * demo seed or worker, generous sign-in and mail limits, captured logs and a movable clock.
+ */
+export async function appOnDatabase(database: Database, env: Record<string, string>, overrides: Partial<Config> = {}): Promise<TestApp> {
   const smtp = await startFakeSmtp(database.db, 0);
   const config: Config = {
-    ...loadConfig({ DATA_DIR: '/tmp/parallax-test-unused', AUTH_SECRET: 'test-secret-test-secret-test-secret-0123' }),
-    baseUrl: ORIGIN,
+    ...loadConfig(env),
     passwordHash: { N: 2 ** 10, r: 8, p: 1 },
     seedDemo: false,
     runWorker: false,

@@ -3,7 +3,7 @@
  * draft version, publish (a correction needs a reason) and follow the reference job.
  */
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, ApiError, toApiError } from '@/lib/api-client';
+import { api, fileForm } from '@/lib/api-client';
 
 export interface PlanRow { target: string; method: string | null; size: number | null; unit: string | null; estimatedSeconds: number | null; reason: string | null; cone: unknown }
 export interface SpecPreview {
@@ -15,25 +15,8 @@ export interface StoredDraft { slug: string; versionId: string; version: number;
 export interface PublishResult { slug: string; versionId: string; version: number; checksum: string; jobId: string }
 export interface Job { id: string; kind: string; state: string; progress: number | null; note: string | null; error: string | null; createdAt: string; startedAt: string | null; finishedAt: string | null }
 
-/** the spec as the multipart field "file" (the api client sends JSON only) */
-async function postFile<T>(path: string, file: File): Promise<T> {
-  const fd = new FormData();
-  fd.append('file', file, file.name);
-  let res: Response;
-  try {
-    res = await fetch(`/api${path}`, { method: 'POST', credentials: 'include', headers: { Accept: 'application/json' }, body: fd });
-  } catch {
-    throw new ApiError({ status: 0, code: 'network', message: 'The server could not be reached. Check your connection and try again.' });
-  }
-  const text = await res.text();
-  let data: unknown;
-  try { data = text ? JSON.parse(text) : undefined; } catch { data = undefined; }
-  if (!res.ok) throw toApiError(res.status, data, res.headers);
-  return data as T;
-}
-
-export const previewSpec = (file: File) => postFile<SpecPreview>('/challenges/preview', file);
-export const storeDraft = (file: File) => postFile<StoredDraft>('/challenges', file);
+export const previewSpec = (file: File) => api.post<SpecPreview>('/challenges/preview', fileForm(file));
+export const storeDraft = (file: File) => api.post<StoredDraft>('/challenges', fileForm(file));
 export const publishChallenge = (slug: string, reason?: string) => api.post<PublishResult>(`/challenges/${encodeURIComponent(slug)}/publish`, reason ? { reason } : {});
 export const getJob = (id: string, signal?: AbortSignal) => api.get<Job>(`/jobs/${encodeURIComponent(id)}`, { signal });
 
