@@ -14,7 +14,8 @@ import type { Config } from './config';
 import type { Database } from './db/client';
 import type { Mailer } from './mail/mailer';
 import type { Logger } from './log';
-import { createAuth, CLIENT_IP_HEADER, type Auth } from './auth';
+import { createAuth, CLIENT_IP_HEADER } from './auth';
+import type { AppContext } from './context';
 import { AppError } from './errors';
 import { actorMiddleware } from './middleware/actor';
 import { signInThrottle } from './middleware/sign-in-throttle';
@@ -36,19 +37,7 @@ export interface AppDeps {
   beforeClient?: (app: express.Express) => void | Promise<void>;
 }
 
-export interface AppContext {
-  database: Database;
-  db: Database['db'];
-  auth: Auth;
-  mailer: Mailer;
-  config: Config;
-  log: Logger;
-  now: () => Date;
-  /** wakes the background worker after a job is queued (set by boot when a worker runs here) */
-  jobs: { kick(): void };
-  /** processing slots shared by every route that reads a large document (server/util/document-body.ts) */
-  documentSlots: Slots;
-}
+export type { AppContext } from './context';
 
 export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
 

@@ -5,7 +5,7 @@
  */
 import { randomUUID } from 'node:crypto';
 import { count, eq, inArray } from 'drizzle-orm';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { member, organization, user } from './schema';
 import { DEMO_SPECS } from './demo-challenges';
 import { createChallengeVersion } from '../services/create-challenge-version';

@@ -9,7 +9,7 @@
  * (by database handle); a worker without an app in its process reveals but sends no mail.
  */
 import { and, isNull, lte } from 'drizzle-orm';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import type { Db } from '../db/client';
 import { referenceSeals } from '../db/schema';
 import { recomputeStandings } from '../services/recompute-standings';

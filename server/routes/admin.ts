@@ -1,7 +1,7 @@
 /** Site administration: users and their roles, bans, and the outbox of the local fake mail server. */
 import { desc, eq, ilike, or } from 'drizzle-orm';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { mailMessages, session, user } from '../db/schema';
 import { badRequest, notFound } from '../errors';
 import { recordAudit } from '../services/record-audit';

@@ -4,7 +4,7 @@
  */
 import { and, desc, eq, lt, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { auditLog } from '../db/schema';
 import { parseBody } from '../validate';
 import type { RouteTable } from './registry';

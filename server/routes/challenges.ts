@@ -9,7 +9,7 @@ import { compileInstance } from '@shared/physics/compile';
 import { toQasm3 } from '@shared/physics/qasm';
 import { planChallenge } from '@shared/physics/planner';
 import type { ChallengeSpec } from '@shared/physics/challenge';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import type { Db } from '../db/client';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
 import { AppError, badRequest, notFound } from '../errors';

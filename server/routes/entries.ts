@@ -12,7 +12,7 @@
 import { type Request, type Response } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { entries, estimates, member, organization } from '../db/schema';
 import { AppError, badRequest, forbidden, notFound } from '../errors';
 import { isPublicEntry, presentEntry } from '../presenters/entry';

@@ -7,7 +7,7 @@ import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { asc, eq, inArray, and } from 'drizzle-orm';
 import type { StandingsResult } from '@shared/scoring/standings';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { entries, estimates, organization, references, targets } from '../db/schema';
 import { notFound } from '../errors';
 import { latestStandings, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';

@@ -1,4 +1,4 @@
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { migrationCount, migrationLevel } from '../db/migrate';
 import type { RouteTable } from './registry';
 

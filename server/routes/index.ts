@@ -1,4 +1,4 @@
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import type { RouteTable } from './registry';
 import { registerHealthRoutes } from './health';
 import { registerMeRoutes } from './me';

@@ -1,5 +1,5 @@
 import { eq } from 'drizzle-orm';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { member, organization } from '../db/schema';
 import type { RouteTable } from './registry';
 

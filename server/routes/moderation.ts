@@ -9,7 +9,7 @@ import { z } from 'zod';
 import type { Request } from 'express';
 import { PRIMARY_METRICS } from '@shared/scoring/standings';
 import { CONSENSUS_ESTIMATORS } from '@shared/scoring';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
 import { isPublicEntry } from '../presenters/entry';

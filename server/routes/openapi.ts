@@ -4,7 +4,7 @@
  * entry document (schemas/entry.schema.json) and the challenge spec (schemas/challenge.schema.json).
  */
 import { readFileSync } from 'node:fs';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import type { RouteDef, RouteTable } from './registry';
 
 const readSchema = (name: string) => {

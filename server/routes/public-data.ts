@@ -2,7 +2,7 @@
 import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm';
 import { lightCone } from '@shared/physics/light-cone';
 import { compileInstance } from '@shared/physics/compile';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import type { Db } from '../db/client';
 import { auditLog, challengeVersions, entries, estimates, jobs, organization, standings } from '../db/schema';
 import { badRequest, notFound } from '../errors';

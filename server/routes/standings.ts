@@ -4,7 +4,7 @@ import type { Request, Response } from 'express';
 import { and, eq, inArray } from 'drizzle-orm';
 import { PRIMARY_METRICS, rankRows, type PrimaryMetric, type StandingsResult } from '@shared/scoring/standings';
 import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { entries, estimates, organization } from '../db/schema';
 import { badRequest } from '../errors';
 import { latestStandings, privateView, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';

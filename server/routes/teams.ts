@@ -5,7 +5,7 @@
  */
 import { and, count, desc, eq } from 'drizzle-orm';
 import { z } from 'zod';
-import type { AppContext } from '../app';
+import type { AppContext } from '../context';
 import { API_KEY_DEFAULT_TTL_MS } from '../auth';
 import { apikey, invitation, member, organization, user } from '../db/schema';
 import { notFound } from '../errors';

@@ -1,0 +1,25 @@
+/**
+ * The app context every route, job and service helper receives: the database, auth, mail, config,
+ * log, the injected clock, the worker's kick and the shared document slots. It lives apart from the
+ * app factory (server/app.ts) so that nothing which app.ts imports needs to import app.ts back.
+ */
+import type { Slots } from './util/document-body';
+import type { Config } from './config';
+import type { Database } from './db/client';
+import type { Mailer } from './mail/mailer';
+import type { Logger } from './log';
+import type { Auth } from './auth';
+
+export interface AppContext {
+  database: Database;
+  db: Database['db'];
+  auth: Auth;
+  mailer: Mailer;
+  config: Config;
+  log: Logger;
+  now: () => Date;
+  /** wakes the background worker after a job is queued (set by boot when a worker runs here) */
+  jobs: { kick(): void };
+  /** processing slots shared by every route that reads a large document (server/util/document-body.ts) */
+  documentSlots: Slots;
+}
