@@ -18,6 +18,7 @@ import { fileURLToPath } from 'node:url';
 import autocannon from 'autocannon';
 import { eq } from 'drizzle-orm';
 import { openDatabase } from '../server/db/client';
+import { createMailQueue } from '../server/mail/queue';
 import { applyMigrations } from '../server/db/migrate';
 import { entries, member, organization, user } from '../server/db/schema';
 import { createChallengeVersion } from '../server/services/create-challenge-version';
@@ -68,7 +69,7 @@ for (let i = 0; i < 3; i++) {
 }
 await recomputeStandings(db, v.versionId);
 const cfg = { ...loadConfig({ DATA_DIR: dataDir, AUTH_SECRET: SECRET }), passwordHash: { N: 2 ** 10, r: 8, p: 1 } };
-const auth = createAuth({ db, config: cfg, mailer: { send: async () => {}, close: () => {} } as never, log: createLogger('silent') });
+const auth = createAuth({ db, config: cfg, mailer: { send: async () => {}, close: () => {} } as never, mailQueue: createMailQueue(createLogger('silent')), log: createLogger('silent') });
 const key = (await auth.api.createApiKey({ body: { name: 'load script', organizationId: 'load-team', userId: 'load-lead', expiresIn: 86400 } })).key;
 await database.close();
 console.log(`world: ${keys.length} targets, 3 published entries, standings computed, API key (${Math.round(performance.now() - t0)} ms)`);

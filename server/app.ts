@@ -19,6 +19,8 @@ import type { AppContext } from './context';
 import { AppError } from './errors';
 import { actorMiddleware } from './middleware/actor';
 import { signInThrottle } from './middleware/sign-in-throttle';
+import { authPathGate } from './middleware/auth-paths';
+import { createMailQueue } from './mail/queue';
 import { originCheck } from './middleware/origin-check';
 import { RouteTable } from './routes/registry';
 import { registerAllRoutes } from './routes';
@@ -44,8 +46,9 @@ export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
 export async function createApp(deps: AppDeps) {
   const now = deps.now ?? (() => new Date());
   const { config, log, database } = deps;
-  const auth = createAuth({ db: database.db, config, mailer: deps.mailer, log });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots) };
+  const mailQueue = createMailQueue(log);
+  const auth = createAuth({ db: database.db, config, mailer: deps.mailer, mailQueue, log, now });
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots) };
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 
@@ -100,7 +103,9 @@ export async function createApp(deps: AppDeps) {
   // CSRF: better-auth itself accepted cookie-bearing POSTs from a foreign Origin (sign-out,
   // organization/create, update-user, ...: tests/server/abuse.test.ts); the same check as /api
   app.use('/api/auth', originCheck([config.baseUrl, ...config.trustedOrigins]));
-  app.post('/api/auth/sign-in/email', signInThrottle({ ...config.signInThrottle, now: () => now().getTime() }));
+  // only the better-auth endpoints the product uses are open (admin and API-key plugin endpoints are not)
+  app.use('/api/auth', authPathGate());
+  app.post('/api/auth/sign-in/email', signInThrottle(database.db, config.signInThrottle, now));
   app.all('/api/auth/{*any}', toNodeHandler(auth));
 
   // entry documents are read as raw text by their own routes (strict parsing: duplicate keys,

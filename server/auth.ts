@@ -8,7 +8,7 @@
  * A Parallax team is a better-auth organization: owner/admin members are team leads.
  */
 import { betterAuth } from 'better-auth';
-import { createAuthMiddleware } from 'better-auth/api';
+import { APIError, createAuthMiddleware, getSessionFromCtx } from 'better-auth/api';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { admin, organization } from 'better-auth/plugins';
 import { apiKey } from '@better-auth/api-key';
@@ -16,6 +16,9 @@ import type { Config } from './config';
 import type { Db } from './db/client';
 import * as schema from './db/schema';
 import type { Mailer } from './mail/mailer';
+import type { MailQueue } from './mail/queue';
+import { recordSignInOutcome } from './middleware/sign-in-throttle';
+import { invitationRefusal, recordInvitationMail, teamProblems, teamsLedBy } from './services/team-rules';
 import { hashPassword, verifyPassword } from './password';
 import type { Logger } from './log';
 import { escapeHtml } from './util/html';
@@ -31,21 +34,32 @@ export interface AuthDeps {
   db: Db;
   config: Config;
   mailer: Mailer;
+  /** every mail better-auth asks for is queued here, never awaited by the request (issue 12 item 12) */
+  mailQueue: MailQueue;
   log: Logger;
+  /** the injected clock (sign-in throttle, invitation limits) */
+  now?: () => Date;
 }
 
-export function createAuth({ db, config, mailer, log }: AuthDeps) {
+/** A better-auth error with our message (its JSON body is { code, message }). */
+const refuse = (status: 'BAD_REQUEST' | 'FORBIDDEN' | 'TOO_MANY_REQUESTS', message: string, headers?: Record<string, string>) =>
+  new APIError(status, { message, code: status === 'TOO_MANY_REQUESTS' ? 'RATE_LIMITED' : status === 'FORBIDDEN' ? 'TEAM_LIMIT' : 'INVALID_TEAM' }, headers);
+
+export function createAuth({ db, config, mailer, mailQueue, log, now = () => new Date() }: AuthDeps) {
+  // queued: the response never waits for SMTP, so an existing and an unknown address take the same time
   const send = async (to: string, subject: string, text: string, link: string) => {
-    try {
-      await mailer.send({
-        to,
-        subject,
-        text: `${text}\n\n${link}\n\n— Parallax`,
-        html: `<p>${escapeHtml(text)}</p><p><a href="${escapeHtml(link)}">${escapeHtml(link)}</a></p><p>— Parallax</p>`,
-      });
-    } catch (e) {
-      log.error('mail.send_failed', { to, subject, error: (e as Error).message });
-    }
+    mailQueue.push(subject, async () => {
+      try {
+        await mailer.send({
+          to,
+          subject,
+          text: `${text}\n\n${link}\n\n— Parallax`,
+          html: `<p>${escapeHtml(text)}</p><p><a href="${escapeHtml(link)}">${escapeHtml(link)}</a></p><p>— Parallax</p>`,
+        });
+      } catch (e) {
+        log.error('mail.send_failed', { to, subject, error: (e as Error).message });
+      }
+    });
   };
   return betterAuth({
     appName: 'Parallax',
@@ -105,10 +119,39 @@ export function createAuth({ db, config, mailer, log }: AuthDeps) {
       defaultCookieAttributes: { httpOnly: true, sameSite: 'lax' },
     },
     hooks: {
+      // the team rules (server/services/team-rules.ts) on better-auth's organization endpoints
+      before: createAuthMiddleware(async (ctx) => {
+        if (ctx.path !== '/organization/create' && ctx.path !== '/organization/update' && ctx.path !== '/organization/invite-member') return;
+        const body = (ctx.body ?? {}) as Record<string, unknown>;
+        const s = await getSessionFromCtx(ctx).catch(() => null);
+        if (!s) return; // the endpoint answers 401 itself
+        if (ctx.path === '/organization/invite-member') {
+          const refusal = await invitationRefusal(db, config.teamLimits, { senderId: s.user.id, recipient: String(body.email ?? ''), now: now() });
+          if (refusal) throw refuse('TOO_MANY_REQUESTS', refusal.message, { 'Retry-After': String(refusal.retryAfterS) });
+          return;
+        }
+        const update = ctx.path === '/organization/update';
+        const data = (update ? body.data ?? {} : body) as Record<string, unknown>;
+        const teamId = update ? String(body.organizationId ?? s.session.activeOrganizationId ?? '') : undefined;
+        const problems = await teamProblems(db, { name: data.name, slug: data.slug, metadata: data.metadata, logo: data.logo, excludeTeamId: teamId });
+        if (problems.length) throw refuse('BAD_REQUEST', problems.map((p) => p.message).join(' '));
+        if (!update && (await teamsLedBy(db, s.user.id)) >= config.teamLimits.teamsPerUser) {
+          throw refuse('FORBIDDEN', `You already lead ${config.teamLimits.teamsPerUser} teams, the limit per person; hand one over or ask an admin.`);
+        }
+      }),
       // no account enumeration: for an address that already has an account, better-auth answers
       // the sign-up with a made-up user, but without the admin plugin's default role (role: null
       // instead of 'user'), which told the two cases apart (tests/server/abuse.test.ts)
       after: createAuthMiddleware(async (ctx) => {
+        if (ctx.path === '/sign-in/email') {
+          // the sign-in throttle counts failures per (account, address) in the database, before the response leaves
+          const r = ctx.context.returned;
+          const status = r instanceof Error && 'statusCode' in r ? Number(r.statusCode) : 200;
+          if (status !== 401 && status !== 200) return;
+          const ip = ctx.headers?.get(CLIENT_IP_HEADER) ?? 'unknown';
+          await recordSignInOutcome(db, config.signInThrottle, { email: (ctx.body as { email?: unknown } | undefined)?.email, ip, ok: status === 200, now: now() });
+          return;
+        }
         if (ctx.path !== '/sign-up/email') return;
         const r = ctx.context.returned as { user?: Record<string, unknown> } | null | undefined;
         if (r && typeof r === 'object' && !(r instanceof Error) && r.user && typeof r.user === 'object' && r.user.role == null) {
@@ -124,11 +167,12 @@ export function createAuth({ db, config, mailer, log }: AuthDeps) {
         invitationExpiresIn: 7 * 24 * 60 * 60,
         membershipLimit: 200,
         sendInvitationEmail: async (data) => {
+          await recordInvitationMail(db, { senderId: data.inviter.user.id, recipient: data.email, now: now() });
           const link = `${config.baseUrl}/invitations/${data.id}`;
           await send(
             data.email,
             `Join the team ${data.organization.name} on Parallax`,
-            `${data.inviter.user.name.replace(/[\r\n]+/g, ' ')} invites you to the team "${data.organization.name}" on Parallax as ${data.role === 'member' ? 'a member' : 'a team lead'}. Sign in (or sign up with this address) and accept:`,
+            `${data.inviter.user.name.replace(/[\r\n]+/g, ' ').slice(0, 80)} invites you to the team "${data.organization.name}" on Parallax as ${data.role === 'member' ? 'a member' : 'a team lead'}. Sign in (or sign up with this address) and accept:`,
             link,
           );
         },

@@ -36,8 +36,10 @@ export interface Config {
   trustedOrigins: string[];
   seedDemo: boolean;
   logLevel: 'debug' | 'info' | 'warn' | 'error' | 'silent';
-  /** failed sign-ins allowed per client address or e-mail within the window before 429 */
-  signInThrottle: { windowMs: number; maxFailures: number };
+  /** failed sign-ins: free failures per (account, address) and per address, then doubling delays (server/middleware/sign-in-throttle.ts) */
+  signInThrottle: { windowMs: number; maxFailures: number; perAddressFailures?: number; maxDelayMs?: number; forgetAfterMs?: number };
+  /** teams and invitations (server/services/team-rules.ts): teams a user may lead, invitation mails per sender and per recipient */
+  teamLimits: { teamsPerUser: number; invitesPerSenderPerHour: number; invitesPerRecipientPerDay: number };
   /** better-auth's own per-address limits per minute: sign-up, reset and verification requests */
   authRateLimits: { signUpPerMinute: number; mailPerMinute: number };
   /** exact-reference planner limits: estimated seconds per target, light-cone qubits */
@@ -82,7 +84,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
     logLevel: (env.LOG_LEVEL as Config['logLevel']) ?? 'info',
-    signInThrottle: { windowMs: 10_000, maxFailures: 3 },
+    signInThrottle: { windowMs: 10_000, maxFailures: 3, perAddressFailures: 30, maxDelayMs: 15 * 60_000, forgetAfterMs: 86_400_000 },
+    teamLimits: { teamsPerUser: 5, invitesPerSenderPerHour: 20, invitesPerRecipientPerDay: 3 },
     authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
     referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? 120), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? 26) },
     runWorker: env.RUN_WORKER !== '0',

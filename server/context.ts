@@ -7,6 +7,7 @@ import type { Slots } from './util/document-body';
 import type { Config } from './config';
 import type { Database } from './db/client';
 import type { Mailer } from './mail/mailer';
+import type { MailQueue } from './mail/queue';
 import type { Logger } from './log';
 import type { Auth } from './auth';
 
@@ -15,6 +16,8 @@ export interface AppContext {
   db: Database['db'];
   auth: Auth;
   mailer: Mailer;
+  /** mail sent after the response (better-auth's account and invitation mails): server/mail/queue.ts */
+  mailQueue: MailQueue;
   config: Config;
   log: Logger;
   now: () => Date;

@@ -115,7 +115,9 @@ export const apikey = pgTable('apikey', {
   updatedAt: ts('updated_at').notNull().defaultNow(),
   permissions: text('permissions'),
   metadata: text('metadata'),
-}, (t) => [index('apikey_key_idx').on(t.key), index('apikey_reference_idx').on(t.referenceId), index('apikey_config_idx').on(t.configId)]);
+  /** the user who made the key (POST /api/teams/:teamId/api-keys): a ban of that user revokes it */
+  createdBy: text('created_by').references(() => user.id, { onDelete: 'cascade' }),
+}, (t) => [index('apikey_created_by_idx').on(t.createdBy), index('apikey_key_idx').on(t.key), index('apikey_reference_idx').on(t.referenceId), index('apikey_config_idx').on(t.configId)]);
 
 // ---------------------------------------------------------------- challenges
 /** A challenge family (the slug); its content lives in versions. */
@@ -270,7 +272,10 @@ export const jobs = pgTable('jobs', {
   progress: doublePrecision('progress').notNull().default(0),
   progressNote: text('progress_note'),
   attempts: integer('attempts').notNull().default(0),
+  /** the public message of a failed job (never the raw exception: server/jobs/queue.ts failJob) */
   error: text('error'),
+  /** the raw exception of a failed job, for the log and admins only; no public route reads it */
+  errorDetail: text('error_detail'),
   result: jsonb('result'),
   lockedBy: text('locked_by'),
   lockedAt: ts('locked_at'),
@@ -334,3 +339,27 @@ export const entryCommitments = pgTable('entry_commitments', {
   computedSha256: text('computed_sha256'),
   checkedAt: ts('checked_at'),
 });
+
+// ---------------------------------------------------------------- abuse limits (issue 12)
+/**
+ * Failed sign-ins per (account, client address) and per address, shared by every server process
+ * (server/middleware/sign-in-throttle.ts). blocked_until grows with each failure past the free ones.
+ */
+export const signInFailures = pgTable('sign_in_failures', {
+  key: text('key').primaryKey(),
+  failures: integer('failures').notNull().default(0),
+  lastFailureAt: ts('last_failure_at').notNull(),
+  blockedUntil: ts('blocked_until'),
+});
+
+/**
+ * Mail that a user makes the server send to someone else (team invitations), on the injected
+ * clock: the per-sender and per-recipient limits of server/services/team-rules.ts count these rows.
+ */
+export const mailQuota = pgTable('mail_quota', {
+  id: bigserial('id', { mode: 'number' }).primaryKey(),
+  kind: text('kind').notNull(),
+  senderId: text('sender_id').notNull(),
+  recipient: text('recipient').notNull(),
+  at: ts('at').notNull(),
+}, (t) => [index('mail_quota_sender_idx').on(t.kind, t.senderId, t.at), index('mail_quota_recipient_idx').on(t.kind, t.recipient, t.at)]);

@@ -46,8 +46,27 @@ export async function finishJob(db: Db, id: string, result: Record<string, unkno
   await db.update(jobs).set({ state: 'done', progress: 1, result, finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
 }
 
-export async function failJob(db: Db, id: string, error: string): Promise<void> {
-  await db.update(jobs).set({ state: 'failed', error: error.slice(0, 2000), finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
+/** An error whose message is written for the public (no SQL, no parameters, no internals). */
+export class PublicJobError extends Error {}
+
+const JOB_WHAT: Record<string, string> = {
+  references: 'The exact-reference computation', baseline: 'The house baseline', standings: 'The standings computation',
+  'demo-entries': 'The demo data', reveal: 'The reveal of sealed references',
+};
+
+/**
+ * The message anyone may read about a failed job (GET /api/jobs/:id, the challenge page): the text
+ * of a PublicJobError, otherwise a fixed sentence. The raw error (a SQL statement with its
+ * parameters, a stack) goes to jobs.error_detail and the log only.
+ */
+export function publicJobError(kind: string, id: string, err: unknown): string {
+  if (err instanceof PublicJobError) return err.message.slice(0, 500);
+  return `${JOB_WHAT[kind] ?? 'This job'} failed on the server; the operators have the details (job ${id}).`;
+}
+
+export async function failJob(db: Db, id: string, kind: string, err: unknown): Promise<void> {
+  const detail = String((err as Error)?.stack ?? (err as Error)?.message ?? err).slice(0, 4000);
+  await db.update(jobs).set({ state: 'failed', error: publicJobError(kind, id, err), errorDetail: detail, finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
 }
 
 /**

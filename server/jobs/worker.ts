@@ -7,12 +7,16 @@ import { randomUUID } from 'node:crypto';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db } from '../db/client';
-import { challengeVersions, entries, estimates, organization, references, targets } from '../db/schema';
+import { challengeVersions, entries, estimates, references, targets } from '../db/schema';
 import type { Logger } from '../log';
-import { claimJob, enqueueJob, failJob, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind, type JobRow } from './queue';
+import { claimJob, enqueueJob, failJob, PublicJobError, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind, type JobRow } from './queue';
 import { runCompute } from './run-compute';
 import { recordAudit } from '../services/record-audit';
 
+/**
+ * The house team. Its row is created by the schema (migration 0005 inserts it), never by a job, so no
+ * user can take its slug before the first baseline runs; team-rules.ts reserves its name and slug.
+ */
 export const HOUSE_TEAM = { id: 'parallax-house', name: 'Parallax house baseline', slug: 'parallax-house' };
 export const BASELINE_SETTINGS = { delta: 5e-3, maxTerms: 20_000 };
 
@@ -32,7 +36,7 @@ export function registerJobHandler(kind: JobKind, h: JobHandler): void {
 
 async function versionSpec(db: Db, versionId: string) {
   const [v] = await db.select().from(challengeVersions).where(eq(challengeVersions.id, versionId));
-  if (!v) throw new Error(`challenge version ${versionId} does not exist`);
+  if (!v) throw new PublicJobError(`The challenge version ${versionId.slice(0, 40)} does not exist (any more).`);
   return v;
 }
 
@@ -64,10 +68,6 @@ async function referencesJob(job: JobRow, w: WorkerContext) {
   return { targets: all.length, computed: stored, exact, engine: ENGINE_VERSION };
 }
 
-async function ensureHouseTeam(db: Db) {
-  await db.insert(organization).values({ ...HOUSE_TEAM, metadata: JSON.stringify({ track: 'classical', description: 'The built-in classical baseline that Parallax computes for every challenge.' }) }).onConflictDoNothing();
-}
-
 async function baselineJob(job: JobRow, w: WorkerContext) {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const v = await versionSpec(w.db, versionId);
@@ -82,7 +82,6 @@ async function baselineJob(job: JobRow, w: WorkerContext) {
     wallMs += m.wallMs;
     rows.push({ targetKey: m.targetId, value: m.value, uncertainty: m.bound, kind: m.exact ? 'none' : 'bound', raw: { peakTerms: m.terms, truncatedWeight: m.bound } });
   });
-  await ensureHouseTeam(w.db);
   await w.db.transaction(async (tx) => {
     const id = randomUUID();
     await tx.insert(entries).values({
@@ -125,8 +124,8 @@ export async function startWorker(db: Db, log: Logger, opts: { pollMs?: number; 
       await finishJob(db, job.id, result);
       log.info('job.done', { id: job.id, kind: job.kind, ms: Math.round(performance.now() - t0) });
     } catch (e) {
-      await failJob(db, job.id, (e as Error).message).catch(() => {});
-      log.error('job.failed', { id: job.id, kind: job.kind, error: (e as Error).message });
+      await failJob(db, job.id, job.kind, e).catch(() => {});
+      log.error('job.failed', { id: job.id, kind: job.kind, error: String((e as Error)?.message ?? e).slice(0, 2000) });
     }
     return true;
   };

@@ -7,7 +7,7 @@ import { fromNodeHeaders } from 'better-auth/node';
 import { and, eq } from 'drizzle-orm';
 import type { Auth } from '../auth';
 import type { Db } from '../db/client';
-import { member, session as sessionTable } from '../db/schema';
+import { apikey, member, session as sessionTable, user as userTable } from '../db/schema';
 import { AppError } from '../errors';
 
 export type SiteRole = 'user' | 'moderator' | 'admin';
@@ -42,6 +42,11 @@ export function actorMiddleware(auth: Auth, db: Db, sessionMaxAgeMs: number, now
         }
         return next(new AppError('unauthenticated', 'The API key is not valid, has expired or was revoked.'));
       }
+      // a key is only as good as the person who made it: refused once they are banned or no
+      // longer lead the team (a ban also deletes their keys: server/routes/admin.ts)
+      if (!(await keyCreatorInGoodStanding(db, r.key.id, r.key.referenceId, now()))) {
+        return next(new AppError('unauthenticated', 'The API key is not valid: the person who made it is banned or no longer leads the team. A team lead can make a new key.'));
+      }
       req.actor = { kind: 'api-key', teamId: r.key.referenceId, keyId: r.key.id, keyName: r.key.name ?? null };
       return next();
     }
@@ -63,6 +68,16 @@ export function actorMiddleware(auth: Auth, db: Db, sessionMaxAgeMs: number, now
     };
     next();
   };
+}
+
+/** True when the key's creator (if recorded) is not banned and still leads the key's team. */
+export async function keyCreatorInGoodStanding(db: Db, keyId: string, teamId: string, now: Date): Promise<boolean> {
+  const [k] = await db.select({ createdBy: apikey.createdBy, banned: userTable.banned, banExpires: userTable.banExpires })
+    .from(apikey).leftJoin(userTable, eq(userTable.id, apikey.createdBy)).where(eq(apikey.id, keyId)).limit(1);
+  if (!k) return false;
+  if (!k.createdBy) return true; // keys made before the creator was recorded (migration 0005)
+  if (k.banned && (!k.banExpires || k.banExpires > now)) return false;
+  return (await teamRole(db, k.createdBy, teamId)) === 'lead';
 }
 
 export type TeamRole = 'lead' | 'member';

@@ -2,7 +2,7 @@
 import { desc, eq, ilike, or } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
-import { mailMessages, session, user } from '../db/schema';
+import { apikey, mailMessages, member, session, user } from '../db/schema';
 import { badRequest, notFound } from '../errors';
 import { recordAudit } from '../services/record-audit';
 import { parseBody } from '../validate';
@@ -41,7 +41,7 @@ export function registerAdminRoutes(routes: RouteTable, ctx: AppContext): void {
   });
 
   routes.add({
-    method: 'post', path: '/admin/users/:userId/ban', access: 'admin', summary: 'Ban (sessions end at once) or unban a user',
+    method: 'post', path: '/admin/users/:userId/ban', access: 'admin', summary: 'Ban or unban a user: a ban ends their sessions, revokes the API keys they made and their team roles, at once',
     handler: async (req) => {
       const body = parseBody(banBody, req.body);
       const id = String(req.params.userId);
@@ -50,9 +50,17 @@ export function registerAdminRoutes(routes: RouteTable, ctx: AppContext): void {
         const [u] = await tx.select({ id: user.id }).from(user).where(eq(user.id, id)).limit(1);
         if (!u) throw notFound('The user');
         await tx.update(user).set({ banned: body.banned, banReason: body.banned ? body.reason ?? null : null, updatedAt: ctx.now() }).where(eq(user.id, id));
-        if (body.banned) await tx.delete(session).where(eq(session.userId, id));
-        await recordAudit(tx, { actor: req.actor, action: body.banned ? 'user.ban' : 'user.unban', subjectType: 'user', subjectId: id, details: { reason: body.reason ?? null } });
-        return { id, banned: body.banned };
+        let keysRevoked: string[] = [];
+        let teamsLeft: string[] = [];
+        if (body.banned) {
+          await tx.delete(session).where(eq(session.userId, id));
+          // a team API key keeps working without a session: the keys this person made go too, and
+          // their team roles (an unban restores neither: a lead invites them again)
+          keysRevoked = (await tx.delete(apikey).where(eq(apikey.createdBy, id)).returning({ id: apikey.id })).map((k) => k.id);
+          teamsLeft = (await tx.delete(member).where(eq(member.userId, id)).returning({ teamId: member.organizationId })).map((m) => m.teamId);
+        }
+        await recordAudit(tx, { actor: req.actor, action: body.banned ? 'user.ban' : 'user.unban', subjectType: 'user', subjectId: id, details: { reason: body.reason ?? null, ...(body.banned ? { keysRevoked, teamsLeft } : {}) } });
+        return { id, banned: body.banned, ...(body.banned ? { keysRevoked: keysRevoked.length, teamsLeft: teamsLeft.length } : {}) };
       });
     },
   });

@@ -10,12 +10,10 @@ import { API_KEY_DEFAULT_TTL_MS } from '../auth';
 import { apikey, invitation, member, organization, user } from '../db/schema';
 import { notFound } from '../errors';
 import { recordAudit } from '../services/record-audit';
+import { readTeamMetadata } from '../services/team-rules';
 import { parseBody } from '../validate';
 import type { RouteTable } from './registry';
 
-const teamMeta = (m: string | null): { track?: string; description?: string } => {
-  try { return m ? JSON.parse(m) : {}; } catch { return {}; }
-};
 
 const createKeyBody = z.object({
   name: z.string().trim().min(1, 'give the key a name, e.g. "sweep script"').max(32, 'at most 32 characters'),
@@ -31,7 +29,7 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
       const rows = await db.select({ id: organization.id, name: organization.name, slug: organization.slug, metadata: organization.metadata, members: count(member.id) })
         .from(organization).leftJoin(member, eq(member.organizationId, organization.id))
         .groupBy(organization.id).orderBy(organization.name);
-      return { teams: rows.map((r) => ({ id: r.id, name: r.name, slug: r.slug, members: Number(r.members), ...teamMeta(r.metadata) })) };
+      return { teams: rows.map((r) => ({ ...readTeamMetadata(r.metadata), id: r.id, name: r.name, slug: r.slug, members: Number(r.members) })) };
     },
   });
 
@@ -43,8 +41,9 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
       if (!t) throw notFound('The team');
       const members = await db.select({ name: user.name, role: member.role, since: member.createdAt })
         .from(member).innerJoin(user, eq(user.id, member.userId)).where(eq(member.organizationId, id)).orderBy(user.name);
+      // the typed metadata first, the authoritative fields last: nothing in metadata can replace them
       return {
-        id: t.id, name: t.name, slug: t.slug, createdAt: t.createdAt, ...teamMeta(t.metadata),
+        ...readTeamMetadata(t.metadata), id: t.id, name: t.name, slug: t.slug, createdAt: t.createdAt,
         members: members.map((m) => ({ name: m.name, role: m.role === 'owner' ? 'lead' : 'member', since: m.since })),
       };
     },
@@ -62,8 +61,8 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
   routes.add({
     method: 'get', path: '/teams/:teamId/api-keys', access: 'team-lead', summary: "A team's API keys (never the secret itself)",
     handler: async (req) => {
-      const rows = await db.select({ id: apikey.id, name: apikey.name, start: apikey.start, createdAt: apikey.createdAt, expiresAt: apikey.expiresAt, lastRequest: apikey.lastRequest, enabled: apikey.enabled })
-        .from(apikey).where(eq(apikey.referenceId, String(req.params.teamId))).orderBy(desc(apikey.createdAt));
+      const rows = await db.select({ id: apikey.id, name: apikey.name, start: apikey.start, createdBy: user.name, createdAt: apikey.createdAt, expiresAt: apikey.expiresAt, lastRequest: apikey.lastRequest, enabled: apikey.enabled })
+        .from(apikey).leftJoin(user, eq(user.id, apikey.createdBy)).where(eq(apikey.referenceId, String(req.params.teamId))).orderBy(desc(apikey.createdAt));
       return { keys: rows };
     },
   });
@@ -78,6 +77,13 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
       const created = await ctx.auth.api.createApiKey({
         body: { name: body.name, organizationId: teamId, userId: req.actor.user.id, expiresIn: Math.round(ttlMs / 1000) },
       });
+      // who made the key: a ban of that person revokes it (admin.ts), and the actor middleware refuses it
+      try {
+        await db.update(apikey).set({ createdBy: req.actor.user.id }).where(eq(apikey.id, created.id));
+      } catch (e) {
+        await db.delete(apikey).where(eq(apikey.id, created.id));
+        throw e;
+      }
       await recordAudit(db, { actor: req.actor, action: 'api-key.create', subjectType: 'team', subjectId: teamId, details: { keyId: created.id, name: body.name } });
       res.status(201);
       return { id: created.id, name: created.name, key: created.key, start: created.start, expiresAt: created.expiresAt };

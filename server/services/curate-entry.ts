@@ -10,11 +10,13 @@ import { entries } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
+import { refuseOwnTeamEntry } from './own-team-guard';
 
 export async function curateEntry(db: Db, p: { entryId: string; featured?: boolean; hidden?: { reason: string } | null; actor: AuditActor; now: Date }) {
   return db.transaction(async (tx) => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
+    await refuseOwnTeamEntry(tx, p.actor, e.teamId, 'feature or hide');
     if (e.state !== 'published' && e.state !== 'superseded') throw conflict(`This entry is ${e.state}; only published entries (and superseded revisions) are curated.`);
     const set: Partial<typeof entries.$inferInsert> = {};
     const changes: string[] = [];

@@ -14,6 +14,7 @@ import type { Mailer } from '../mail/mailer';
 import type { Logger } from '../log';
 import { publishEntry } from './publish-entry';
 import { recordAudit, type AuditActor } from './record-audit';
+import { refuseOwnTeamEntry } from './own-team-guard';
 
 export type Decision = 'publish' | 'return' | 'reject';
 export const DECISIONS: readonly Decision[] = ['publish', 'return', 'reject'];
@@ -29,6 +30,7 @@ export async function decideEntry(db: Db, p: { entryId: string; decision: Decisi
   return db.transaction(async (tx) => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
+    await refuseOwnTeamEntry(tx, p.actor, e.teamId, 'decide on');
     if (e.state !== 'in-review') {
       const [last] = await tx.select({ toState: reviews.toState, at: reviews.createdAt, moderator: user.name }).from(reviews)
         .leftJoin(user, eq(user.id, reviews.moderatorId)).where(eq(reviews.entryId, e.id)).orderBy(desc(reviews.createdAt)).limit(1);

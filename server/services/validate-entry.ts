@@ -142,6 +142,7 @@ function schemaMessage(e: ErrorObject, doc: unknown): FieldProblem {
     case 'pattern': {
       const k = last(path);
       if (k === 'checksum') return { path, message: `must be the SHA-256 checksum of the challenge version: 64 lower-case hex digits, optionally prefixed "sha256:" (GET /api/challenges/<id> shows it); got ${show(v)}` };
+      if (k === 'code' || k === 'preprint') return { path, message: `must be an http:// or https:// address such as "https://github.com/team/code" (no javascript:, data: or other schemes); got ${show(v)}` };
       if (k === 'doi') return { path, message: `must be a DOI such as "10.1103/PhysRevLett.130.010601" (without https://doi.org/); got ${show(v)}` };
       if (path === '/challenge/id') return { path, message: `must be a challenge id: lower-case letters, digits and dashes, e.g. "kicked-chain-60"; got ${show(v)}` };
       return { path, message: `must match the pattern ${String(p.pattern)}; got ${show(v)}` };

@@ -242,8 +242,8 @@ export function Component() {
           </Panel>
           <Panel title="Links and licence" id="entry-links">
             <ul className="space-y-1 text-sm">
-              {doc?.links?.code && <li>Code: <a href={doc.links.code} rel="noopener noreferrer" className="break-all">{doc.links.code}</a></li>}
-              {doc?.links?.preprint && <li>Preprint: <a href={doc.links.preprint} rel="noopener noreferrer" className="break-all">{doc.links.preprint}</a></li>}
+              {doc?.links?.code && <li>Code: <LinkOrText url={doc.links.code} /></li>}
+              {doc?.links?.preprint && <li>Preprint: <LinkOrText url={doc.links.preprint} /></li>}
               {doc?.links?.doi && <li>DOI: <a href={`https://doi.org/${doc.links.doi.replace(/^https?:\/\/doi.org\//, '')}`} rel="noopener noreferrer">{doc.links.doi}</a></li>}
               <li>Licence: {doc?.license ?? 'not stated'}</li>
             </ul>
@@ -344,4 +344,11 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
       ) : null}
     </Panel>
   );
+}
+
+/** A link only for http(s) addresses (entries stored before the schema refused other schemes show as text). */
+function LinkOrText({ url }: { url: string }) {
+  return /^https?:\/\//i.test(url)
+    ? <a href={url} rel="noopener noreferrer" className="break-all">{url}</a>
+    : <span className="break-all">{url}</span>;
 }

@@ -326,6 +326,7 @@ describe('log and mail hygiene', () => {
     await evil.post('/api/auth/organization/invite-member', { email: 'invitee@abuse.test', role: 'member', organizationId: tid });
     // an authorisation failure by this user: logged with the actor
     await evil.get(`/api/teams/${teamId}/api-keys`);
+    await t.ctx.mailQueue.idle();
     const mails = await t.database.db.select().from(mailMessages);
     for (const m of mails) {
       expect(m.subject ?? '').not.toMatch(/[\r\n]/);

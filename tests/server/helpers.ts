@@ -90,8 +90,9 @@ export async function appOnDatabase(database: Database, env: Record<string, stri
   };
 }
 
-/** The newest message to an address, or throws. */
+/** The newest message to an address, or throws (after the queued mail has gone out: server/mail/queue.ts). */
 export async function lastMailTo(t: TestApp, to: string) {
+  await t.ctx.mailQueue.idle();
   const rows = await t.database.db.select().from(mailMessages).where(eq(mailMessages.to, to)).orderBy(desc(mailMessages.receivedAt)).limit(1);
   if (!rows.length) throw new Error(`no mail to ${to}`);
   return rows[0];

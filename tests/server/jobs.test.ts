@@ -51,13 +51,19 @@ describe('reference jobs', () => {
     expect(progress.body).toMatchObject({ state: 'done', progress: 1 });
   });
 
-  it('a failed job keeps its error, and the API shows it', async () => {
-    registerJobHandler('explode-test' as JobKind, async () => { throw new Error('the compute thread ran out of memory (test)'); });
+  it('a failed job keeps its raw error for the log and admins; the API shows a clean public message (issue 12 item 7)', async () => {
+    // the raw error of a failed insert names the statement and its parameters
+    const raw = 'Failed query: insert into "entries" ("id", "team_id") values ($1, $2) params: 3f1c,parallax-house';
+    registerJobHandler('explode-test' as JobKind, async () => { throw new Error(raw); });
     const id = await enqueueJob(t.database.db, 'explode-test' as JobKind, { versionId: 'none' });
     const w = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
     await drain(w);
     await w.stop();
     const r = await agent(t).get(`/api/jobs/${id}`);
-    expect(r.body).toMatchObject({ state: 'failed', error: 'the compute thread ran out of memory (test)' });
+    expect(r.body).toMatchObject({ state: 'failed', error: `This job failed on the server; the operators have the details (job ${id}).` });
+    expect(JSON.stringify(r.body)).not.toMatch(/insert into|params|parallax-house/);
+    const [row] = await t.database.db.select().from(jobs).where(eq(jobs.id, id));
+    expect(row.errorDetail).toContain(raw);
+    expect(t.logs.some((l) => l.includes('job.failed') && l.includes('insert into'))).toBe(true);
   });
 });
