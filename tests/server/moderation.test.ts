@@ -130,6 +130,28 @@ describe('review queue and decisions', () => {
   }, 60_000);
 });
 
+describe("a moderator's own team (issue 12 item 10)", () => {
+  it("refuses a decision and curation on an entry of the moderator's own team with 403; another moderator decides", async () => {
+    const own = await signUpVerified(w.t, 'mod-own@mo.test', 'Owen Own');
+    await setRole(w.t, 'mod-own@mo.test', 'moderator');
+    const [u] = await w.t.database.db.execute(sql`select id from "user" where email = 'mod-own@mo.test'`).then((r) => (r as unknown as { rows: { id: string }[] }).rows);
+    await w.t.database.db.execute(sql`insert into member (id, organization_id, user_id, role) values ('own-member', ${w.teamA}, ${u.id}, 'member')`);
+    const id = await submitted('own team sweep');
+    // before the fix: 200, the moderator published their own team's entry
+    const r = await own.post(`/api/entries/${id}/decision`, { decision: 'publish', reason: 'Looks fine to me.' });
+    expect(r.status, r.text).toBe(403);
+    expect(r.body.error.message).toBe(`You are a member of the team "Team A mo" that made this entry, so you cannot decide on it; another moderator must.`);
+    expect((await w.t.database.db.select({ n: count() }).from(reviews).where(eq(reviews.entryId, id)))[0].n).toBe(0);
+    const ok = await mod2.post(`/api/entries/${id}/decision`, { decision: 'publish', reason: 'Checks pass.' });
+    expect(ok.status, ok.text).toBe(200);
+    const c = await own.post(`/api/entries/${id}/curation`, { featured: true });
+    expect(c.status, c.text).toBe(403);
+    expect(c.body.error.message).toMatch(/cannot feature or hide it/);
+    const [e] = await w.t.database.db.select({ featured: entries.featured }).from(entries).where(eq(entries.id, id));
+    expect(e.featured).toBe(false);
+  });
+});
+
 describe('curation, disputes and settings', () => {
   let pub = '';
   beforeAll(async () => {
