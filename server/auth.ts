@@ -18,7 +18,7 @@ import * as schema from './db/schema';
 import type { Mailer } from './mail/mailer';
 import type { MailQueue } from './mail/queue';
 import { recordSignInOutcome } from './middleware/sign-in-throttle';
-import { invitationRefusal, recordInvitationMail, teamProblems, teamsLedBy } from './services/team-rules';
+import { invitationRefusal, nameForMail, recordInvitationMail, teamProblems, teamsLedBy } from './services/team-rules';
 import { hashPassword, verifyPassword } from './password';
 import type { Logger } from './log';
 import { escapeHtml } from './util/html';
@@ -90,7 +90,7 @@ export function createAuth({ db, config, mailer, mailQueue, log, now = () => new
       autoSignInAfterVerification: false,
       expiresIn: 24 * 60 * 60,
       sendVerificationEmail: async ({ user, url }) => {
-        await send(user.email, 'Confirm your e-mail address for Parallax', `Welcome to Parallax, ${user.name.replace(/[\r\n]+/g, ' ')}. Confirm your address to finish signing up (the link works for 24 hours).`, url);
+        await send(user.email, 'Confirm your e-mail address for Parallax', `Welcome to Parallax, ${nameForMail(user.name, 'new member')}. Confirm your address to finish signing up (the link works for 24 hours).`, url);
       },
     },
     verification: { storeIdentifier: 'hashed' },
@@ -172,7 +172,7 @@ export function createAuth({ db, config, mailer, mailQueue, log, now = () => new
           await send(
             data.email,
             `Join the team ${data.organization.name} on Parallax`,
-            `${data.inviter.user.name.replace(/[\r\n]+/g, ' ').slice(0, 80)} invites you to the team "${data.organization.name}" on Parallax as ${data.role === 'member' ? 'a member' : 'a team lead'}. Sign in (or sign up with this address) and accept:`,
+            `${nameForMail(data.inviter.user.name, 'A team lead')} invites you to the team "${data.organization.name}" on Parallax as ${data.role === 'member' ? 'a member' : 'a team lead'}. Sign in (or sign up with this address) and accept:`,
             link,
           );
         },

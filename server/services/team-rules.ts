@@ -119,6 +119,16 @@ export async function teamProblems(db: Db, p: { name?: unknown; slug?: unknown; 
   return out;
 }
 
+/**
+ * A user's name as a mail quotes it (the invitation, the welcome): one line, at most 60 characters,
+ * and no web or e-mail address, else the fallback. A name is free text at sign-up, and a mail the
+ * server sends to someone else's address must not carry the sender's link.
+ */
+export function nameForMail(name: string, fallback: string): string {
+  const one = name.replace(/[\r\n\t]+/g, ' ').trim().slice(0, 60);
+  return one && !WEB_ADDRESS.test(one) ? one : fallback;
+}
+
 /** How many teams the user leads (owner role). */
 export async function teamsLedBy(db: Db, userId: string): Promise<number> {
   const [r] = await db.select({ n: count() }).from(member).where(and(eq(member.userId, userId), eq(member.role, 'owner')));

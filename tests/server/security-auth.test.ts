@@ -173,6 +173,19 @@ describe('item 6: invitation mails, teams per user, team names', () => {
     expect((await lead.post('/api/auth/organization/invite-member', { email: 'spam21@sec.test', role: 'member', organizationId: teamId })).status).toBe(200);
   });
 
+  it("a user's name that carries a link is not quoted in the invitation or welcome mail", async () => {
+    const lead = await signUpVerified(t, 'linky@sec.test', 'Prizes at https://evil.test/win');
+    const welcome = await lastMailTo(t, 'linky@sec.test');
+    expect(welcome.text).toContain('Welcome to Parallax, new member.');
+    expect(welcome.text).not.toContain('evil.test');
+    const teamId = (await makeTeam(lead, 'Plain Name Team', 'plain-name-team')).body.id;
+    expect((await lead.post('/api/auth/organization/invite-member', { email: 'linky-target@sec.test', role: 'member', organizationId: teamId })).status).toBe(200);
+    const mail = await lastMailTo(t, 'linky-target@sec.test');
+    // before the fix: "Prizes at https://evil.test/win invites you ..."
+    expect(mail.text).toMatch(/^A team lead invites you to the team "Plain Name Team"/);
+    expect(mail.text).not.toContain('evil.test');
+  });
+
   it('a user leads at most 5 teams', async () => {
     const a = await signUpVerified(t, 'collector@sec.test');
     const codes: number[] = [];
