@@ -16,7 +16,7 @@
  * server/auth.ts (recordSignInOutcome), before the response leaves, so the next attempt sees it.
  */
 import type { NextFunction, Request, Response } from 'express';
-import { eq, inArray, sql } from 'drizzle-orm';
+import { and, eq, inArray, isNull, lt, or, sql } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { signInFailures } from '../db/schema';
 import { AppError } from '../errors';
@@ -74,6 +74,9 @@ export async function recordSignInOutcome(db: Db, opts: ThrottleOptions, p: { em
     return;
   }
   const forget = opts.forgetAfterMs ?? 86_400_000;
+  // counters idle past forgetAfterMs and no longer blocking are dropped (the table stays small)
+  await db.delete(signInFailures).where(and(lt(signInFailures.lastFailureAt, new Date(p.now.getTime() - forget)),
+    or(isNull(signInFailures.blockedUntil), lt(signInFailures.blockedUntil, p.now))));
   const limits = [
     ...(email ? [{ key: pairKey(email, p.ip), free: opts.maxFailures }] : []),
     { key: ipKey(p.ip), free: opts.perAddressFailures ?? 30 },

@@ -15,7 +15,7 @@
  *
  * better-auth's organization endpoints call these from a before-hook in server/auth.ts.
  */
-import { and, count, eq, gt, ne } from 'drizzle-orm';
+import { and, count, eq, gt, lt, ne } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db/client';
 import { mailQuota, member, organization } from '../db/schema';
@@ -156,5 +156,7 @@ export async function invitationRefusal(db: Db, limits: TeamLimits, p: { senderI
 
 /** Counts one invitation mail (called where the mail is queued). */
 export async function recordInvitationMail(db: Db, p: { senderId: string; recipient: string; now: Date }): Promise<void> {
+  // rows older than the longest window count for nothing any more
+  await db.delete(mailQuota).where(lt(mailQuota.at, new Date(p.now.getTime() - 86_400_000)));
   await db.insert(mailQuota).values({ kind: 'invitation', senderId: p.senderId, recipient: p.recipient.trim().toLowerCase(), at: p.now });
 }

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { and, count, eq } from 'drizzle-orm';
 import { agent, lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, TEST_PASSWORD, type Agent, type TestApp } from './helpers';
-import { auditLog, apikey, mailMessages, member, organization, user } from '../../server/db/schema';
+import { auditLog, apikey, mailMessages, member, organization, signInFailures, user } from '../../server/db/schema';
 import { HOUSE_TEAM } from '../../server/jobs/worker';
 import { createApp } from '../../server/app';
 import { createLogger } from '../../server/log';
@@ -265,6 +265,19 @@ describe('item 9: sign-in throttle per (account, address), in the database', () 
     const r = await request(second.app).post('/api/auth/sign-in/email').set('Origin', ORIGIN).set('X-Forwarded-For', '198.51.100.9')
       .send({ email: 'shared9@sec.test', password: TEST_PASSWORD });
     expect(r.status).toBe(429);
+  });
+
+  it('a counter idle for 24 hours starts again from zero, and its row is dropped', async () => {
+    await signUpVerified(t, 'idle9@sec.test');
+    for (let i = 0; i < 3; i++) await signIn('198.51.100.11', 'idle9@sec.test', 'wrong-password-1');
+    expect((await signIn('198.51.100.11', 'idle9@sec.test', 'wrong-password-1')).status).toBe(429);
+    t.clock.advance(86_400_000 + 1000);
+    // three free failures again (a counter that carried on would block after the first)
+    const codes: number[] = [];
+    for (let i = 0; i < 3; i++) codes.push((await signIn('198.51.100.11', 'idle9@sec.test', 'wrong-password-1')).status);
+    expect(codes).toEqual([401, 401, 401]);
+    const rows = await t.database.db.select().from(signInFailures);
+    expect(rows.every((r) => r.lastFailureAt.getTime() >= t.clock.now.getTime() - 86_400_000)).toBe(true);
   });
 
   it('spraying many accounts from one address is slowed after 30 failures', async () => {
