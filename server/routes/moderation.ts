@@ -71,7 +71,7 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
 
   routes.add({
     method: 'post', path: '/entries/:entryId/decision', access: 'moderator',
-    summary: 'Decide an entry in review: {"decision": "publish" | "return" | "reject", "reason": "..."}; 409 when it was already decided; the team is e-mailed the decision and the reason',
+    summary: 'Decide an entry in review: {"decision": "publish" | "return" | "reject", "reason": "..."}; 409 when it was already decided, 403 on an entry of a team the moderator belongs to; the team is e-mailed the decision and the reason',
     handler: async (req) => {
       const body = parseBody(decisionBody, req.body);
       const e = await loadEntry(req);
@@ -85,7 +85,7 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
 
   routes.add({
     method: 'post', path: '/entries/:entryId/curation', access: 'moderator',
-    summary: 'Curate a published entry: {"featured": true|false} and/or {"hidden": {"reason": "..."}} (public reason; the entry leaves the standings) or {"hidden": null} to show it again',
+    summary: 'Curate a published entry: {"featured": true|false} and/or {"hidden": {"reason": "..."}} (public reason; the entry leaves the standings) or {"hidden": null} to show it again; 403 on an entry of a team the moderator belongs to',
     handler: async (req) => {
       const body = parseBody(curationBody, req.body);
       const e = await loadEntry(req);
