@@ -12,7 +12,7 @@ import { CONSENSUS_ESTIMATORS } from '@shared/scoring';
 import type { AppContext } from '../context';
 import { entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
-import { isPublicEntry } from '../presenters/entry';
+import { isPublicEntry } from '../queries/entries';
 import { QueueChecksCache, reviewQueue } from '../services/check-entries';
 import { decideEntry, DECISIONS, notifyDecision, type Decision } from '../services/decide-entry';
 import { curateEntry } from '../services/curate-entry';
@@ -21,7 +21,7 @@ import { updateChallengeSettings } from '../services/update-challenge-settings';
 import { sealReferences } from '../services/seal-references';
 import { COMMITMENT_RECIPE, registerCommitment, storedEstimatesHash } from '../services/register-commitment';
 import { parseBody } from '../validate';
-import { loadChallengeVersion } from './challenges';
+import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 import { entryAccess } from './entry-access';
 
