@@ -5,7 +5,7 @@
  */
 import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../db/client';
-import { challengeVersions, entries, organization, targets } from '../db/schema';
+import { challengeVersions, entries, organization } from '../db/schema';
 
 export type EntryRow = typeof entries.$inferSelect;
 
@@ -42,7 +42,7 @@ export async function entryListContext(db: DbOrTx, rows: readonly EntryRow[]): P
   const entryIds = rows.map((e) => e.id);
   const [teams, versions, stats] = await Promise.all([
     teamIds.length ? db.select({ id: organization.id, name: organization.name, slug: organization.slug }).from(organization).where(inArray(organization.id, teamIds)) : [],
-    versionIds.length ? db.select({ id: challengeVersions.id, version: challengeVersions.version, checksum: challengeVersions.checksum, targets: sql<number>`(select count(*)::int from ${targets} where ${targets.versionId} = ${challengeVersions.id})` })
+    versionIds.length ? db.select({ id: challengeVersions.id, version: challengeVersions.version, checksum: challengeVersions.checksum, targets: sql<number>`(select count(*)::int from targets t where t.version_id = "challenge_versions"."id")` })
       .from(challengeVersions).where(inArray(challengeVersions.id, versionIds)) : [],
     entryIds.length
       ? (db.execute(sql`select entry_id as "entryId", count(*)::int as n, (array_agg(uncertainty order by uncertainty))[count(*) / 2 + 1] as median
