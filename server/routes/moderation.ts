@@ -161,8 +161,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
       return {
         entryId: e.id, sha256: c.sha256, registeredAt: c.registeredAt, result: c.result, checkedAt: c.checkedAt, computedSha256: c.computedSha256,
         revealAt: seals.filter((s) => !s.revealedAt).map((s) => s.until).sort((x, y) => y.getTime() - x.getTime())[0] ?? null,
-        // the team's own check before the reveal: the hash of the estimates as stored now
-        currentSha256: priv ? await storedEstimatesHash(db, e.id) : undefined,
+        // the hash of the estimates as stored now: the team's own check before the reveal, public after
+        // it (estimates are frozen once checked, services/update-entry.ts; this shows that they held)
+        currentSha256: priv || revealed ? await storedEstimatesHash(db, e.id) : undefined,
         recipe: COMMITMENT_RECIPE,
       };
     },

@@ -4,7 +4,9 @@
  * physical bounds), coverage of the grid, scores against the public exact references, outliers
  * against the consensus of the published entries (|d| > U with the latest standings' per-target
  * consensus), claims outside physical bounds, estimates identical to another entry's (same value
- * to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps.
+ * to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps, and the
+ * blind-round commitment (checked at the reveal; 'altered-after-reveal' when the estimates no longer
+ * hash to what was checked, which the freeze in update-entry.ts should make impossible).
  *
  * Computing them reads every estimate of every non-draft entry of the version, so the results are
  * kept per challenge version (QueueChecksCache) under a fingerprint of everything they depend on,
@@ -16,10 +18,11 @@
  * so a cached result is never stale: a new reference, an unsealing (also by the clock), a
  * recomputed standings, an entry submitted, published, returned or withdrawn.
  */
-import { and, asc, eq, ne, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { degreesOfEquivalence, scoreSweep, type SweepItem } from '@shared/scoring';
 import type { Db } from '../db/client';
-import { challengeVersions, entries, observables, organization, standings, targets } from '../db/schema';
+import { challengeVersions, entries, entryCommitments, observables, organization, standings, targets } from '../db/schema';
+import { commitmentHash } from './register-commitment';
 import type { StandingsPayload } from './recompute-standings';
 import { isVisibleNow, PUBLIC_VIEWER, visibleReferences } from '../queries/visibility';
 
@@ -46,6 +49,8 @@ function emptyChecks() {
     outliers: { consensusComputedAt: null as string | null, compared: 0, count: 0, targets: [] as { target: string; value: number; uncertainty: number; consensus: number; d: number; U: number }[] },
     bounds: { count: 0, targets: [] as { target: string; value: number; uncertainty: number; bound: number; beyondThreeSigma: boolean }[] },
     identical: [] as { entryId: string; label: string; team: string; state: string; isBaseline: boolean; targets: number; examples: string[] }[],
+    /** the blind-round commitment: after the reveal, whether the estimates still hash to what was checked */
+    commitment: null as null | { result: string; checkedAt: Date | null; unchangedSinceCheck: boolean | null },
   };
 }
 
@@ -169,6 +174,7 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
     }
   }
   const otherById = new Map(others.map((o) => [o.id, o]));
+  const commitments = new Map((await db.select().from(entryCommitments).where(inArray(entryCommitments.entryId, group.map((q) => q.e.id)))).map((c) => [c.entryId, c]));
   const result = new Map<string, EntryChecks>();
   for (const { e, version } of group) {
     const checks = emptyChecks();
@@ -223,6 +229,11 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
       checks.identical.push({ entryId: id, label: o.label, team: o.team, state: o.state, isBaseline: o.isBaseline, targets: keys.length, examples: keys.slice(0, 5) });
     }
     checks.identical.sort((a, b) => b.targets - a.targets);
+    const cm = commitments.get(e.id);
+    if (cm) {
+      const checked = cm.result !== 'pending';
+      checks.commitment = { result: cm.result, checkedAt: cm.checkedAt, unchangedSinceCheck: checked ? commitmentHash(est.map((x) => ({ target: x.key, value: x.value, uncertainty: x.u }))) === cm.computedSha256 : null };
+    }
     const flags: string[] = [];
     if (!checks.schema.ok) flags.push('schema');
     if (checks.coverage.partial) flags.push('partial-sweep');
@@ -230,6 +241,7 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
     if (checks.outliers.count) flags.push('outliers');
     if (checks.identical.length) flags.push('identical-to-another-entry');
     if (!s.scored) flags.push('no-exact-reference-to-score');
+    if (checks.commitment?.unchangedSinceCheck === false) flags.push('altered-after-reveal');
     result.set(e.id, { flags, checks });
   }
   return result;
