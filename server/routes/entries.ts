@@ -28,7 +28,7 @@ import { reviseEntry } from '../services/revise-entry';
 import { parseBody } from '../validate';
 import { documentBody as readDocumentBody } from '../util/document-body';
 import type { RouteTable } from './registry';
-import { entryAccess } from './entry-access';
+import { entryAccess } from '../queries/entry-access';
 
 /** The routes whose body is an entry document, read as raw text by the route itself. */
 export function takesEntryDocument(method: string, path: string): boolean {

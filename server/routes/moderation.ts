@@ -23,7 +23,7 @@ import { COMMITMENT_RECIPE, registerCommitment, storedEstimatesHash } from '../s
 import { parseBody } from '../validate';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
-import { entryAccess } from './entry-access';
+import { entryAccess } from '../queries/entry-access';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
