@@ -76,6 +76,7 @@ describe('entry lists', () => {
     const small = await count();
     for (let i = 0; i < 4; i++) await publish(w.memberA, `A extra ${i}`);
     const large = await count();
+    console.info(`GET /api/challenges/chain-12/entries: ${small.entries} entries ${small.queries} queries, ${large.entries} entries ${large.queries} queries`);
     expect(large.entries).toBe(small.entries + 4);
     expect(large.queries).toBe(small.queries);
     expect(large.queries).toBeLessThanOrEqual(8);
