@@ -14,18 +14,18 @@ export function isPublicEntry(e: Pick<EntryRow, 'state' | 'publishedAt'>): boole
   return e.state === 'published' || e.state === 'superseded' || (e.state === 'withdrawn' && e.publishedAt !== null);
 }
 
-/** Entries the public lists, plots, ranks and exports: published and not hidden by a moderator. */
-export function isListedEntry(e: Pick<EntryRow, 'state' | 'hiddenReason'>): boolean {
-  return e.state === 'published' && e.hiddenReason === null;
-}
-/** isListedEntry as a SQL condition */
-const listed = and(eq(entries.state, 'published'), isNull(entries.hiddenReason));
+/**
+ * Entries the public lists, plots, ranks and exports: published and not hidden by a moderator (a
+ * hidden entry keeps its page, with the reason). As a SQL condition, since every reader filters in
+ * its query.
+ */
+export const listedEntry = () => and(eq(entries.state, 'published'), isNull(entries.hiddenReason));
 
 /** Listed entries of a version, with their team's name. */
 export async function publicEntries(db: DbOrTx, versionId: string) {
   return db.select({ id: entries.id, label: entries.label, teamId: entries.teamId, teamName: organization.name, track: entries.track, methodFamily: entries.methodFamily, isBaseline: entries.isBaseline, featured: entries.featured, submittedAt: entries.submittedAt, publishedAt: entries.publishedAt, revision: entries.revision, document: entries.document })
     .from(entries).innerJoin(organization, eq(organization.id, entries.teamId))
-    .where(and(eq(entries.versionId, versionId), listed)).orderBy(asc(entries.publishedAt));
+    .where(and(eq(entries.versionId, versionId), listedEntry())).orderBy(asc(entries.publishedAt));
 }
 
 /** What an entry summary needs beyond its row, for many entries at once: 3 queries whatever their number. */
@@ -58,5 +58,5 @@ export async function entryListContext(db: DbOrTx, rows: readonly EntryRow[]): P
 
 /** Entries of a version for a list: the listed ones, or (moderators) every published one, hidden ones marked. */
 export async function versionEntries(db: DbOrTx, versionId: string, withHidden: boolean): Promise<EntryRow[]> {
-  return db.select().from(entries).where(and(eq(entries.versionId, versionId), withHidden ? eq(entries.state, 'published') : listed)).orderBy(sql`${entries.publishedAt} desc`);
+  return db.select().from(entries).where(and(eq(entries.versionId, versionId), withHidden ? eq(entries.state, 'published') : listedEntry())).orderBy(sql`${entries.publishedAt} desc`);
 }

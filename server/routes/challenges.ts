@@ -2,7 +2,7 @@
  * Challenges: the public catalogue and challenge data (spec, versions, instances, targets with
  * their references, downloads), and the moderators' draft and publish actions.
  */
-import { and, asc, count, desc, eq, inArray, isNull, ne, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { buildLattice } from '@shared/physics/lattices';
 import { compileInstance } from '@shared/physics/compile';
@@ -12,6 +12,7 @@ import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../context';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
 import { isModeratorActor, loadChallengeVersion } from '../queries/challenge-version';
+import { listedEntry } from '../queries/entries';
 import { isVisibleNow, PUBLIC_VIEWER, viewerOf } from '../queries/visibility';
 import { presentReference } from '../presenters/reference';
 import { AppError, badRequest, notFound } from '../errors';
@@ -106,7 +107,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
       const sealedCount = (versionId: string | null) => sealDates.filter((d) => d.versionId === versionId && !isVisibleNow(d, PUBLIC_VIEWER, now)).reduce((a, d) => a + Number(d.n), 0);
       // hidden entries are not counted (they left the standings)
       const ecounts = await db.select({ slug: entries.challengeSlug, track: entries.track, n: count(), last: sql<string>`max(${entries.publishedAt})` }).from(entries)
-        .where(and(eq(entries.state, 'published'), isNull(entries.hiddenReason))).groupBy(entries.challengeSlug, entries.track);
+        .where(listedEntry()).groupBy(entries.challengeSlug, entries.track);
       return {
         challenges: rows.map((c) => {
           const v = versions.find((x) => x.id === c.currentVersionId);
