@@ -8,10 +8,11 @@
  * The job needs the mailer and the base URL: the app that queued it registers its context here
  * (by database handle); a worker without an app in its process reveals but sends no mail.
  */
-import { and, isNull, lte } from 'drizzle-orm';
+import { isNull } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import type { Db } from '../db/client';
 import { referenceSeals } from '../db/schema';
+import { isSealInForce } from '../queries/visibility';
 import { recomputeStandings } from '../services/recompute-standings';
 import { revealSeal } from '../services/reveal-references';
 import { sendAll, teamEmails } from '../services/decide-entry';
@@ -25,7 +26,8 @@ const contexts = new WeakMap<Db, AppContext>();
 /** Queues a reveal job for every seal whose date has passed at ctx.now(); returns how many. */
 export async function enqueueDueReveals(ctx: Pick<AppContext, 'db' | 'now' | 'jobs'>): Promise<number> {
   const now = ctx.now();
-  const due = await ctx.db.select({ id: referenceSeals.id }).from(referenceSeals).where(and(isNull(referenceSeals.revealedAt), lte(referenceSeals.sealedUntil, now)));
+  const open = await ctx.db.select({ id: referenceSeals.id, sealedUntil: referenceSeals.sealedUntil, revealedAt: referenceSeals.revealedAt }).from(referenceSeals).where(isNull(referenceSeals.revealedAt));
+  const due = open.filter((s) => !isSealInForce(s, now));
   for (const s of due) await enqueueJob(ctx.db, 'reveal', { sealId: s.id, now: now.toISOString() }, `reveal:${s.id}`);
   if (due.length) ctx.jobs.kick();
   return due.length;

@@ -1,32 +1,35 @@
 /**
  * An entry as the API shows it: metadata, state, revision chain, history (from the audit log) and,
  * when asked, the full document as submitted (metadata + estimates in their original order), so
- * that a download round-trips to the upload.
+ * that a download round-trips to the upload. The house baseline's estimates of targets whose
+ * reference the caller may not see are withheld (server/queries/visibility.ts) and counted in
+ * `withheld`; a hidden entry carries `hidden: { reason }`.
  */
-import { and, asc, count, eq } from 'drizzle-orm';
+import { and, asc, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
-import { auditLog, challengeVersions, entries, estimates, organization, references, targets } from '../db/schema';
+import { auditLog, entries, estimates } from '../db/schema';
 import type { EntryDocument, EntryEstimate } from '../services/validate-entry';
 import { degreesOfEquivalence, scoreAgainstReference } from '@shared/scoring';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+import { entryListContext, isPublicEntry, type EntryListContext, type EntryRow } from '../queries/entries';
+import { isEstimateWithheld, PUBLIC_VIEWER, visibleReferences, type VisibleReferences, type Viewer } from '../queries/visibility';
+
+export { isPublicEntry, type EntryRow };
 
 /** Reasons the public may read in an entry's history (returns and rejections are for the team). */
 const PUBLIC_REASON_ACTIONS = new Set(['entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide']);
 
 /**
- * Scores of each estimate: against the exact reference where it is public (error, z, covered by
- * +/- 2u), and the degree of equivalence with the consensus (d, U with k = 2; u^2(d) = u^2 + tau^2
- * -/+ u^2(y) for an entry inside/outside the consensus) from the latest public standings.
+ * Scores of each estimate: against the exact reference where the caller may see it (error, z,
+ * covered by +/- 2u), and the degree of equivalence with the consensus (d, U with k = 2; u^2(d) =
+ * u^2 + tau^2 -/+ u^2(y) for an entry inside/outside the consensus) from the latest public standings.
  */
-export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[], now: Date) {
-  const refs = await db.select({ key: targets.key, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil })
-    .from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, e.versionId));
-  const refOf = new Map(refs.filter((r) => r.value !== null && !(r.sealedUntil && r.sealedUntil > now)).map((r) => [r.key, { value: r.value as number, uncertainty: r.unc }]));
+export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[], refs: VisibleReferences) {
   const st = await latestStandings(db, e.versionId);
   const cons = new Map(((st?.payload as StandingsPayload | undefined)?.public.targets ?? []).map((t) => [t.key, t]));
-  const inStandings = e.state === 'published';
+  const inStandings = e.state === 'published' && e.hiddenReason === null;
   return ests.map((x) => {
-    const r = refOf.get(x.target);
+    const r = refs.exact.get(x.target);
     const s = r ? scoreAgainstReference({ value: x.value, uncertainty: x.uncertainty }, r) : null;
     const c = cons.get(x.target);
     let doe: { d: number; U: number; included: boolean } | null = null;
@@ -39,48 +42,57 @@ export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[],
   });
 }
 
-export type EntryRow = typeof entries.$inferSelect;
-
-/** States a visitor may see: published, superseded, and withdrawn after publication. */
-export function isPublicEntry(e: Pick<EntryRow, 'state' | 'publishedAt'>): boolean {
-  return e.state === 'published' || e.state === 'superseded' || (e.state === 'withdrawn' && e.publishedAt !== null);
-}
-
-export async function entryDocument(db: Db, e: EntryRow): Promise<EntryDocument> {
+/** The document as stored, without the estimates the caller may not see (`sealed`: from visibleReferences). */
+export async function entryDocument(db: Db, e: EntryRow, sealed: ReadonlySet<string> = new Set()): Promise<EntryDocument & { withheld: number }> {
   const rows = await db.select({ t: estimates.targetKey, v: estimates.value, u: estimates.uncertainty, k: estimates.kind, raw: estimates.raw })
     .from(estimates).where(eq(estimates.entryId, e.id)).orderBy(asc(estimates.id));
-  const ests: EntryEstimate[] = rows.map((r) => ({ target: r.t, value: r.v, uncertainty: r.u, uncertaintyKind: r.k as EntryEstimate['uncertaintyKind'], ...((r.raw as object | null) ?? {}) }));
-  return { ...(e.document as Omit<EntryDocument, 'estimates'>), estimates: ests };
+  const shown = rows.filter((r) => !isEstimateWithheld({ isBaseline: e.isBaseline, target: r.t }, sealed));
+  const ests: EntryEstimate[] = shown.map((r) => ({ target: r.t, value: r.v, uncertainty: r.u, uncertaintyKind: r.k as EntryEstimate['uncertaintyKind'], ...((r.raw as object | null) ?? {}) }));
+  return { ...(e.document as Omit<EntryDocument, 'estimates'>), estimates: ests, withheld: rows.length - shown.length };
 }
 
-/** opts.now: the app's clock (whether a sealed reference is public yet is decided at this time) */
-export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean; now?: Date } = {}) {
-  const [team] = await db.select({ id: organization.id, name: organization.name, slug: organization.slug }).from(organization).where(eq(organization.id, e.teamId));
-  const [v] = await db.select({ version: challengeVersions.version, checksum: challengeVersions.checksum }).from(challengeVersions).where(eq(challengeVersions.id, e.versionId));
-  const [{ n }] = await db.select({ n: count() }).from(estimates).where(eq(estimates.entryId, e.id));
-  const [{ total }] = await db.select({ total: count() }).from(targets).where(eq(targets.versionId, e.versionId));
-  const lineage = e.lineageId
-    ? await db.select({ id: entries.id, revision: entries.revision, state: entries.state, publishedAt: entries.publishedAt, supersedesId: entries.supersedesId }).from(entries).where(eq(entries.lineageId, e.lineageId)).orderBy(asc(entries.revision))
-    : [];
-  const doc = opts.document ? await entryDocument(db, e) : undefined;
-  const history = await db.select({ at: auditLog.at, action: auditLog.action, actor: auditLog.actorLabel, details: auditLog.details }).from(auditLog)
-    .where(and(eq(auditLog.subjectType, 'entry'), eq(auditLog.subjectId, e.id))).orderBy(asc(auditLog.id));
+/** The fields every view of an entry shares (pages and lists), from a batch context (queries/entries.ts). */
+export function entrySummary(e: EntryRow, c: EntryListContext) {
+  const v = c.version.get(e.versionId);
+  const n = c.stats.get(e.id)?.estimates ?? 0;
+  const total = v?.targets ?? 0;
   return {
     id: e.id,
     challenge: { slug: e.challengeSlug, version: v?.version ?? null, checksum: v?.checksum ?? null },
-    team: team ?? { id: e.teamId, name: null, slug: null },
-    state: e.state, track: e.track, methodFamily: e.methodFamily, label: e.label,
+    team: c.team.get(e.teamId) ?? { id: e.teamId, name: null, slug: null },
+    state: e.state, track: e.track, methodFamily: e.methodFamily, label: e.label, featured: e.featured,
     revision: e.revision, lineageId: e.lineageId, supersedesId: e.supersedesId, isBaseline: e.isBaseline,
     createdAt: e.createdAt, updatedAt: e.updatedAt, submittedAt: e.submittedAt, publishedAt: e.publishedAt,
-    estimates: Number(n),
-    coverage: { targets: Number(total), covered: Number(n), fraction: Number(total) ? Number(n) / Number(total) : 0 },
+    /** set when a moderator hid the entry: the public reason; it is out of the standings and lists */
+    hidden: e.hiddenReason !== null ? { reason: e.hiddenReason } : null,
+    estimates: n,
+    coverage: { targets: total, covered: n, fraction: total ? n / total : 0 },
+  };
+}
+
+/** opts.now: the app's clock; opts.viewer: whether sealed values are visible is decided for this caller (queries/visibility.ts) */
+export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean; now: Date; viewer?: Viewer }) {
+  const viewer = opts.viewer ?? PUBLIC_VIEWER;
+  const ctx = await entryListContext(db, [e]);
+  const lineage = e.lineageId
+    ? await db.select({ id: entries.id, revision: entries.revision, state: entries.state, publishedAt: entries.publishedAt, supersedesId: entries.supersedesId }).from(entries).where(eq(entries.lineageId, e.lineageId)).orderBy(asc(entries.revision))
+    : [];
+  const refs = opts.document ? await visibleReferences(db, e.versionId, viewer, opts.now) : null;
+  const doc = refs ? await entryDocument(db, e, refs.sealed) : undefined;
+  const history = await db.select({ at: auditLog.at, action: auditLog.action, actor: auditLog.actorLabel, details: auditLog.details }).from(auditLog)
+    .where(and(eq(auditLog.subjectType, 'entry'), eq(auditLog.subjectId, e.id))).orderBy(asc(auditLog.id));
+  const { withheld, ...document } = doc ?? { withheld: 0 };
+  return {
+    ...entrySummary(e, ctx),
     revisions: lineage.filter((r) => opts.privileged || isPublicEntry({ state: r.state, publishedAt: r.publishedAt })),
     history: history.map((h) => ({
       at: h.at, action: h.action, actor: opts.privileged ? h.actor : undefined,
       reason: opts.privileged || PUBLIC_REASON_ACTIONS.has(h.action) || (h.details as { decision?: string }).decision === 'publish' ? (h.details as { reason?: string }).reason : undefined,
       warnings: opts.privileged ? (h.details as { warnings?: unknown }).warnings : undefined,
     })),
-    document: doc,
-    scores: doc ? await estimateScores(db, e, doc.estimates, opts.now ?? new Date()) : undefined,
+    document: doc ? document as EntryDocument : undefined,
+    /** house-baseline estimates of sealed targets left out of the document until the reveal */
+    withheld: doc && withheld ? { estimates: withheld, reason: 'the house baseline is exact here: its estimates of sealed targets are as sealed as the references until their date', until: refs!.rows.filter((r) => refs!.sealed.has(r.key)).map((r) => r.sealedUntil!).sort((a, b) => b.getTime() - a.getTime())[0]?.toISOString() ?? null } : null,
+    scores: doc && refs ? await estimateScores(db, e, doc.estimates, refs) : undefined,
   };
 }

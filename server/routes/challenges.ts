@@ -2,7 +2,7 @@
  * Challenges: the public catalogue and challenge data (spec, versions, instances, targets with
  * their references, downloads), and the moderators' draft and publish actions.
  */
-import { asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { buildLattice } from '@shared/physics/lattices';
 import { compileInstance } from '@shared/physics/compile';
@@ -10,8 +10,11 @@ import { toQasm3 } from '@shared/physics/qasm';
 import { planChallenge } from '@shared/physics/planner';
 import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../context';
-import type { Db } from '../db/client';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
+import { isModeratorActor, loadChallengeVersion } from '../queries/challenge-version';
+import { listedEntry } from '../queries/entries';
+import { isVisibleNow, PUBLIC_VIEWER, viewerOf } from '../queries/visibility';
+import { presentReference } from '../presenters/reference';
 import { AppError, badRequest, notFound } from '../errors';
 import { createChallengeVersion, instanceShapes, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
@@ -23,23 +26,6 @@ import type { Request, Response } from 'express';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
 import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';
-
-const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
-
-/** The challenge and the version asked for (?version=N, default the current one). Drafts are for moderators only. */
-export async function loadChallengeVersion(db: Db, req: Request) {
-  const slug = String(req.params.slug);
-  const [c] = await db.select().from(challenges).where(eq(challenges.slug, slug)).limit(1);
-  const mod = isModerator(req);
-  if (!c || (c.state === 'draft' && !mod)) throw notFound(`The challenge "${slug}"`);
-  const wanted = req.query.version ? Number(req.query.version) : null;
-  if (wanted !== null && !Number.isInteger(wanted)) throw badRequest('version must be a whole number, e.g. ?version=2');
-  const versions = await db.select().from(challengeVersions).where(eq(challengeVersions.challengeSlug, slug)).orderBy(desc(challengeVersions.version));
-  const visible = versions.filter((v) => v.state !== 'draft' || mod);
-  const v = wanted !== null ? visible.find((x) => x.version === wanted) : visible.find((x) => x.id === c.currentVersionId) ?? visible[0];
-  if (!v) throw notFound(wanted !== null ? `Version ${wanted} of "${slug}"` : `A version of "${slug}"`);
-  return { challenge: c, version: v, versions: visible };
-}
 
 /** a moment as the short reasons say it, in UTC: "2026-12-24 00:00 UTC" (seconds only when there are any) */
 const utcText = (d: Date) => {
@@ -109,14 +95,19 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
   routes.add({
     method: 'get', path: '/challenges', access: 'public', summary: 'The catalogue: every published challenge with its size, depth range, targets, exact share, entries per track and whether it takes entries now',
     handler: async (req) => {
-      const rows = await db.select().from(challenges).where(isModerator(req) ? undefined : ne(challenges.state, 'draft')).orderBy(asc(challenges.title));
+      const rows = await db.select().from(challenges).where(isModeratorActor(req.actor) ? undefined : ne(challenges.state, 'draft')).orderBy(asc(challenges.title));
       const versionIds = rows.map((r) => r.currentVersionId).filter((x): x is string => Boolean(x));
       const versions = versionIds.length ? await db.select({ id: challengeVersions.id, version: challengeVersions.version, checksum: challengeVersions.checksum, spec: challengeVersions.spec, publishedAt: challengeVersions.publishedAt }).from(challengeVersions).where(inArray(challengeVersions.id, versionIds)) : [];
-      const tcounts = versionIds.length ? await db.select({ versionId: targets.versionId, n: count(), exact: sql<number>`count(${references.value})::int`, sealed: sql<number>`count(*) filter (where ${references.sealedUntil} > now())::int` })
+      const tcounts = versionIds.length ? await db.select({ versionId: targets.versionId, n: count(), exact: sql<number>`count(${references.value})::int` })
         .from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(inArray(targets.versionId, versionIds)).groupBy(targets.versionId) : [];
+      // sealed counts: one row per (version, seal date); whether a date has passed is isVisibleNow's question
+      const sealDates = versionIds.length ? await db.select({ versionId: targets.versionId, sealedUntil: references.sealedUntil, n: count() })
+        .from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(and(inArray(targets.versionId, versionIds), sql`${references.sealedUntil} is not null`)).groupBy(targets.versionId, references.sealedUntil) : [];
       const now = ctx.now();
+      const sealedCount = (versionId: string | null) => sealDates.filter((d) => d.versionId === versionId && !isVisibleNow(d, PUBLIC_VIEWER, now)).reduce((a, d) => a + Number(d.n), 0);
+      // hidden entries are not counted (they left the standings)
       const ecounts = await db.select({ slug: entries.challengeSlug, track: entries.track, n: count(), last: sql<string>`max(${entries.publishedAt})` }).from(entries)
-        .where(eq(entries.state, 'published')).groupBy(entries.challengeSlug, entries.track);
+        .where(listedEntry()).groupBy(entries.challengeSlug, entries.track);
       return {
         challenges: rows.map((c) => {
           const v = versions.find((x) => x.id === c.currentVersionId);
@@ -132,7 +123,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
             qubits: spec ? buildLatticeSize(spec) : null,
             family: spec?.circuit.family ?? null,
             steps: steps ? { min: Math.min(...steps), max: Math.max(...steps) } : null,
-            targets: Number(tc?.n ?? 0), exactTargets: Number(tc?.exact ?? 0), sealedTargets: Number(tc?.sealed ?? 0),
+            targets: Number(tc?.n ?? 0), exactTargets: Number(tc?.exact ?? 0), sealedTargets: sealedCount(c.currentVersionId),
             entries: { hardware: Number(ec.find((x) => x.track === 'hardware')?.n ?? 0), classical: Number(ec.find((x) => x.track === 'classical')?.n ?? 0) },
             lastActivity: [lastEntry, v?.publishedAt?.toISOString(), c.updatedAt.toISOString()].filter(Boolean).sort().pop(),
             submissions: submissionsStatus(c, now),
@@ -174,6 +165,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
         .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))
         .leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, v.id)).orderBy(asc(targets.key));
       const now = ctx.now();
+      const viewer = await viewerOf(db, req.actor);
       const st = await latestStandings(db, v.id);
       const cons = new Map(((st?.payload as StandingsPayload | undefined)?.public.targets ?? []).map((x) => [x.key, x]));
       return {
@@ -183,7 +175,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
           return {
             key: r.key, instance: r.instance, params: r.params, observable: r.observable,
             disputed: r.disputed || Boolean(k?.disputed), disputeNote: r.disputeNote,
-            reference: presentReference(r.ref, now),
+            reference: presentReference(r.ref, now, viewer),
             consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed } : null,
           };
         }),
@@ -275,13 +267,3 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
 function buildLatticeSize(spec: ChallengeSpec): number {
   return buildLattice(spec.lattice).n;
 }
-
-type RefRow = typeof references.$inferSelect | null;
-/** A reference as the public sees it: sealed values are withheld until their date. */
-export function presentReference(ref: RefRow, now: Date) {
-  if (!ref) return { status: 'pending' as const };
-  if (ref.sealedUntil && ref.sealedUntil > now) return { status: 'sealed' as const, sealedUntil: ref.sealedUntil };
-  if (ref.value === null) return { status: 'none' as const, reason: ref.reason, engineVersion: ref.engineVersion };
-  return { status: 'exact' as const, value: ref.value, uncertainty: ref.uncertainty, method: ref.method, size: ref.size, wallMs: ref.wallMs, engineVersion: ref.engineVersion, createdAt: ref.createdAt };
-}
-

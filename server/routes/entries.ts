@@ -13,9 +13,12 @@ import { type Request, type Response } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
-import { entries, estimates, member, organization } from '../db/schema';
+import { entries, member, organization } from '../db/schema';
 import { AppError, badRequest, forbidden, notFound } from '../errors';
-import { isPublicEntry, presentEntry } from '../presenters/entry';
+import { entrySummary, presentEntry } from '../presenters/entry';
+import { entryListContext, isPublicEntry, versionEntries } from '../queries/entries';
+import { isModeratorActor, loadChallengeVersion } from '../queries/challenge-version';
+import { viewerOf } from '../queries/visibility';
 import { validateEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
 import { createEntry } from '../services/create-entry';
 import { updateEntry } from '../services/update-entry';
@@ -24,9 +27,8 @@ import { withdrawEntry } from '../services/withdraw-entry';
 import { reviseEntry } from '../services/revise-entry';
 import { parseBody } from '../validate';
 import { documentBody as readDocumentBody } from '../util/document-body';
-import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
-import { entryAccess } from './entry-access';
+import { entryAccess } from '../queries/entry-access';
 
 /** The routes whose body is an entry document, read as raw text by the route itself. */
 export function takesEntryDocument(method: string, path: string): boolean {
@@ -108,7 +110,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
       const e = await loadEntry(req);
       const priv = await privileged(req, e.teamId);
       if (!priv && !isPublicEntry(e)) throw notFound('The entry');
-      return presentEntry(db, e, { document: true, privileged: priv, now: ctx.now() });
+      return presentEntry(db, e, { document: true, privileged: priv, now: ctx.now(), viewer: await viewerOf(db, req.actor) });
     },
   });
 
@@ -162,23 +164,23 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
       const rows = await db.select().from(entries)
         .where(priv ? eq(entries.teamId, teamId) : and(eq(entries.teamId, teamId), inArray(entries.state, ['published', 'superseded'])))
         .orderBy(desc(entries.updatedAt)).limit(500);
-      return { entries: await Promise.all(rows.map((e) => presentEntry(db, e, { privileged: priv, now: ctx.now() }).then(({ history: _h, ...rest }) => rest))) };
+      const list = await entryListContext(db, rows);
+      return { entries: rows.map((e) => entrySummary(e, list)) };
     },
   });
 
   routes.add({
     method: 'get', path: '/challenges/:slug/entries', access: 'public',
-    summary: 'The published entries of a challenge version (?version=N) with a summary of their estimates',
+    summary: 'The published entries of a challenge version (?version=N) with a summary of their estimates; entries hidden by the moderators are left out (moderators see them, marked hidden with the reason)',
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const rows = await db.select().from(entries).where(and(eq(entries.versionId, v.id), eq(entries.state, 'published'))).orderBy(desc(entries.publishedAt));
-      const out = [];
-      for (const e of rows) {
-        const { history: _h, revisions: _r, ...rest } = await presentEntry(db, e, { now: ctx.now() });
-        const ests = await db.select({ u: estimates.uncertainty }).from(estimates).where(eq(estimates.entryId, e.id));
-        const us = ests.map((x) => x.u).sort((a, b) => a - b);
-        out.push({ ...rest, summary: { estimates: us.length, medianUncertainty: us.length ? us[Math.floor(us.length / 2)] : null, resources: (e.document as { resources?: unknown }).resources ?? null } });
-      }
+      // a fixed number of queries whatever the number of entries: the rows, then teams, versions and estimate statistics in one batch
+      const rows = await versionEntries(db, v.id, isModeratorActor(req.actor));
+      const list = await entryListContext(db, rows);
+      const out = rows.map((e) => {
+        const st = list.stats.get(e.id);
+        return { ...entrySummary(e, list), summary: { estimates: st?.estimates ?? 0, medianUncertainty: st?.medianUncertainty ?? null, resources: (e.document as { resources?: unknown }).resources ?? null } };
+      });
       return { challenge: v.challengeSlug, version: v.version, checksum: v.checksum, entries: out };
     },
   });

@@ -10,9 +10,11 @@ import type { StandingsResult } from '@shared/scoring/standings';
 import type { AppContext } from '../context';
 import { entries, estimates, organization, references, targets } from '../db/schema';
 import { notFound } from '../errors';
-import { latestStandings, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';
-import { loadChallengeVersion, presentReference } from './challenges';
-import { publicEntries } from './public-data';
+import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+import { loadChallengeVersion } from '../queries/challenge-version';
+import { publicEntries } from '../queries/entries';
+import { PUBLIC_VIEWER, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
+import { presentReference } from '../presenters/reference';
 import type { RouteTable } from './registry';
 
 /** A CSV cell. Text that a spreadsheet would run as a formula (= + - @, tab, CR) gets a leading '. */
@@ -38,13 +40,13 @@ async function challengeData(ctx: AppContext, req: Request) {
   const result = (st?.payload as StandingsPayload | undefined)?.public as StandingsResult | undefined;
   const refs = await ctx.db.select({ key: targets.key, ref: references }).from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, v.id)).orderBy(asc(targets.key));
   const now = ctx.now();
-  const refOf = new Map(refs.map((r) => [r.key, presentReference(r.ref, now)]));
+  // exports are public files whoever downloads them (the package's hashes must not depend on the caller)
+  const refOf = new Map(refs.map((r) => [r.key, presentReference(r.ref, now, PUBLIC_VIEWER)]));
   const est = es.length ? await ctx.db.select({ entryId: estimates.entryId, target: estimates.targetKey, value: estimates.value, uncertainty: estimates.uncertainty, kind: estimates.kind })
     .from(estimates).where(inArray(estimates.entryId, es.map((e) => e.id))).orderBy(asc(estimates.targetKey)) : [];
   const license = (c.settings as { license?: string }).license ?? 'CC-BY-4.0';
-  const sealed = await sealedTargetKeys(ctx.db, v.id, now);
-  const baseline = new Set(es.filter((e) => e.isBaseline).map((e) => e.id));
-  const visible = sealed.size ? est.filter((x) => !(baseline.has(x.entryId) && sealed.has(x.target))) : est;
+  const { sealed } = await visibleReferences(ctx.db, v.id, PUBLIC_VIEWER, now);
+  const visible = withoutSealedBaseline(est, new Set(es.filter((e) => e.isBaseline).map((e) => e.id)), sealed);
   return { c, v, es, result, st, refOf, est: visible, license };
 }
 

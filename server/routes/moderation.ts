@@ -12,7 +12,7 @@ import { CONSENSUS_ESTIMATORS } from '@shared/scoring';
 import type { AppContext } from '../context';
 import { entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
-import { isPublicEntry } from '../presenters/entry';
+import { isPublicEntry } from '../queries/entries';
 import { QueueChecksCache, reviewQueue } from '../services/check-entries';
 import { decideEntry, DECISIONS, notifyDecision, type Decision } from '../services/decide-entry';
 import { curateEntry } from '../services/curate-entry';
@@ -21,9 +21,9 @@ import { updateChallengeSettings } from '../services/update-challenge-settings';
 import { sealReferences } from '../services/seal-references';
 import { COMMITMENT_RECIPE, registerCommitment, storedEstimatesHash } from '../services/register-commitment';
 import { parseBody } from '../validate';
-import { loadChallengeVersion } from './challenges';
+import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
-import { entryAccess } from './entry-access';
+import { entryAccess } from '../queries/entry-access';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
@@ -161,8 +161,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
       return {
         entryId: e.id, sha256: c.sha256, registeredAt: c.registeredAt, result: c.result, checkedAt: c.checkedAt, computedSha256: c.computedSha256,
         revealAt: seals.filter((s) => !s.revealedAt).map((s) => s.until).sort((x, y) => y.getTime() - x.getTime())[0] ?? null,
-        // the team's own check before the reveal: the hash of the estimates as stored now
-        currentSha256: priv ? await storedEstimatesHash(db, e.id) : undefined,
+        // the hash of the estimates as stored now: the team's own check before the reveal, public after
+        // it (estimates are frozen once checked, services/update-entry.ts; this shows that they held)
+        currentSha256: priv || revealed ? await storedEstimatesHash(db, e.id) : undefined,
         recipe: COMMITMENT_RECIPE,
       };
     },

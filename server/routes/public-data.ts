@@ -3,20 +3,13 @@ import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm';
 import { lightCone } from '@shared/physics/light-cone';
 import { compileInstance } from '@shared/physics/compile';
 import type { AppContext } from '../context';
-import type { Db } from '../db/client';
 import { auditLog, challengeVersions, entries, estimates, jobs, organization, standings } from '../db/schema';
 import { badRequest, notFound } from '../errors';
 import { validateSpecOrThrow } from '../services/create-challenge-version';
-import { loadChallengeVersion } from './challenges';
-import { sealedTargetKeys } from '../services/recompute-standings';
+import { loadChallengeVersion } from '../queries/challenge-version';
+import { publicEntries } from '../queries/entries';
+import { PUBLIC_VIEWER, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
 import type { RouteTable } from './registry';
-
-/** Published entries of a version that the public may see (not hidden by a moderator). */
-export async function publicEntries(db: Db, versionId: string) {
-  return db.select({ id: entries.id, label: entries.label, teamId: entries.teamId, teamName: organization.name, track: entries.track, methodFamily: entries.methodFamily, isBaseline: entries.isBaseline, featured: entries.featured, submittedAt: entries.submittedAt, publishedAt: entries.publishedAt, revision: entries.revision, document: entries.document })
-    .from(entries).innerJoin(organization, eq(organization.id, entries.teamId))
-    .where(and(eq(entries.versionId, versionId), eq(entries.state, 'published'), sql`${entries.hiddenReason} is null`)).orderBy(asc(entries.publishedAt));
-}
 
 export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
@@ -35,13 +28,14 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
       const withRaw = req.query.raw !== '0';
       const rows = await db.select({ entryId: estimates.entryId, target: estimates.targetKey, value: estimates.value, uncertainty: estimates.uncertainty, kind: estimates.kind, ...(withRaw ? { raw: estimates.raw } : {}) })
         .from(estimates).where(and(...conds)).orderBy(asc(estimates.targetKey)).limit(200_000);
-      const sealed = await sealedTargetKeys(db, v.id, ctx.now());
+      // the public plots: house-baseline estimates of sealed targets are withheld (queries/visibility.ts)
+      const { sealed } = await visibleReferences(db, v.id, PUBLIC_VIEWER, ctx.now());
       const baseline = new Set(es.filter((e) => e.isBaseline).map((e) => e.id));
       return {
         version: v.version,
         sealedTargets: [...sealed],
         entries: es.map((e) => ({ id: e.id, label: e.label, teamId: e.teamId, teamName: e.teamName, track: e.track, methodFamily: e.methodFamily, isBaseline: e.isBaseline, featured: e.featured })),
-        estimates: sealed.size ? rows.filter((r) => !(baseline.has(r.entryId) && sealed.has(r.target))) : rows,
+        estimates: withoutSealedBaseline(rows, baseline, sealed),
       };
     },
   });

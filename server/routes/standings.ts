@@ -7,15 +7,15 @@ import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
 import type { AppContext } from '../context';
 import { entries, estimates, organization } from '../db/schema';
 import { badRequest } from '../errors';
-import { latestStandings, privateView, sealedTargetKeys, type StandingsPayload } from '../services/recompute-standings';
-import { loadChallengeVersion } from './challenges';
+import { latestStandings, privateView, type StandingsPayload } from '../services/recompute-standings';
+import { loadChallengeVersion } from '../queries/challenge-version';
+import { isEstimateWithheld, PUBLIC_VIEWER, seesSealedValues, viewerOf, visibleReferences, type Viewer } from '../queries/visibility';
 import type { RouteTable } from './registry';
 import { standingsCache } from '../services/standings-cache';
 
 const TRACKS = ['all', 'hardware', 'classical'] as const;
-const isModerator = (req: Request) => req.actor.kind === 'user' && (req.actor.user.role === 'moderator' || req.actor.user.role === 'admin');
 
-function parseQuery(req: Request, settings: { primaryMetric?: string }) {
+function parseQuery(req: Request, settings: { primaryMetric?: string }, viewer: Viewer) {
   const metric = (typeof req.query.metric === 'string' ? req.query.metric : settings.primaryMetric ?? 'rmse-verifiable') as PrimaryMetric;
   if (!PRIMARY_METRICS.includes(metric)) throw badRequest(`metric must be one of ${PRIMARY_METRICS.join(', ')}`, [{ path: '/query/metric', message: `unknown metric "${metric}"` }]);
   const track = (typeof req.query.track === 'string' && req.query.track ? req.query.track : 'all') as (typeof TRACKS)[number];
@@ -25,7 +25,8 @@ function parseQuery(req: Request, settings: { primaryMetric?: string }) {
     asOf = new Date(req.query.asOf);
     if (Number.isNaN(asOf.getTime())) throw badRequest('asOf must be a date, e.g. 2026-11-30 or 2026-11-30T12:00:00Z', [{ path: '/query/asOf', message: 'not a date' }]);
   }
-  const view: 'public' | 'private' = req.query.view === 'private' && isModerator(req) ? 'private' : 'public';
+  // the private view (sealed references used) for a caller who may see sealed values (queries/visibility.ts)
+  const view: 'public' | 'private' = req.query.view === 'private' && seesSealedValues(viewer) ? 'private' : 'public';
   return { metric, track, asOf, view };
 }
 
@@ -44,11 +45,12 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
     method: 'get', path: '/challenges/:slug/standings', access: 'public', summary: 'Ranked standings (?track=hardware|classical, ?metric=, ?asOf= a past date, ?version=)',
     handler: async (req, res) => {
       // the cache is consulted before any database work: a hit costs no query at all
-      const rawKey = `${String(req.params.slug)}|${isModerator(req) ? 'm' : 'p'}|${new URLSearchParams(req.query as Record<string, string>).toString()}`;
+      const viewer = await viewerOf(db, req.actor);
+      const rawKey = `${String(req.params.slug)}|${viewer.kind}|${new URLSearchParams(req.query as Record<string, string>).toString()}`;
       const early = req.query.asOf ? undefined : standingsCache.get(rawKey);
       if (early) return send(req, res, early.body, early.etag);
       const { challenge: c, version: v } = await loadChallengeVersion(db, req);
-      const q = parseQuery(req, c.settings as { primaryMetric?: string });
+      const q = parseQuery(req, c.settings as { primaryMetric?: string }, viewer);
       const row = await latestStandings(db, v.id, q.asOf);
       const payload = row?.payload as StandingsPayload | undefined;
       const result = payload ? (q.view === 'private' ? privateView(payload) : payload.public) : undefined;
@@ -84,8 +86,9 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
           incompatible: result?.agreement.incompatible ?? (result?.agreement.targets ?? []).map((r) => r.map(() => 0)),
         };
       }
-      const hideBaseline = (await sealedTargetKeys(db, v.id, ctx.now())).has(target);
-      const ids = (result?.entries ?? []).filter((e) => !(hideBaseline && e.isBaseline)).map((e) => e.id);
+      // the public standings' agreement: a house-baseline estimate of a sealed target stays withheld
+      const { sealed } = await visibleReferences(db, v.id, PUBLIC_VIEWER, ctx.now());
+      const ids = (result?.entries ?? []).filter((e) => !isEstimateWithheld({ isBaseline: e.isBaseline, target }, sealed)).map((e) => e.id);
       const est = ids.length ? await db.select({ entryId: estimates.entryId, value: estimates.value, u: estimates.uncertainty })
         .from(estimates).innerJoin(entries, eq(entries.id, estimates.entryId))
         .innerJoin(organization, eq(organization.id, entries.teamId))

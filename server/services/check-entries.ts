@@ -4,22 +4,27 @@
  * physical bounds), coverage of the grid, scores against the public exact references, outliers
  * against the consensus of the published entries (|d| > U with the latest standings' per-target
  * consensus), claims outside physical bounds, estimates identical to another entry's (same value
- * to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps.
+ * to 12 significant digits on >= 3 targets or >= 10% of the targets), partial sweeps, and the
+ * blind-round commitment (checked at the reveal; 'altered-after-reveal' when the estimates no longer
+ * hash to what was checked, which the freeze in update-entry.ts should make impossible).
  *
  * Computing them reads every estimate of every non-draft entry of the version, so the results are
  * kept per challenge version (QueueChecksCache) under a fingerprint of everything they depend on,
- * read in one cheap query on every request (versionFingerprints): the reference rows and whether
- * each is public at this moment, the latest standings row (the consensus), and every non-draft
+ * read in one cheap query on every request (versionFingerprints): the reference rows, which of
+ * their seal dates have passed at this moment (decided by isVisibleNow, queries/visibility.ts), the
+ * entries' commitments, the latest standings row (the consensus), and every non-draft
  * entry of the version (the "identical to another entry" check compares with all of them, and the
  * entries in review are among them). Anything that changes a check changes the fingerprint,
  * so a cached result is never stale: a new reference, an unsealing (also by the clock), a
  * recomputed standings, an entry submitted, published, returned or withdrawn.
  */
-import { and, asc, eq, ne, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { degreesOfEquivalence, scoreSweep, type SweepItem } from '@shared/scoring';
 import type { Db } from '../db/client';
-import { challengeVersions, entries, observables, organization, references, standings, targets } from '../db/schema';
+import { challengeVersions, entries, entryCommitments, observables, organization, standings, targets } from '../db/schema';
+import { commitmentHash } from './register-commitment';
 import type { StandingsPayload } from './recompute-standings';
+import { isVisibleNow, PUBLIC_VIEWER, visibleReferences } from '../queries/visibility';
 
 const fin = (x: number | null | undefined): number | null => (typeof x === 'number' && Number.isFinite(x) ? x : null);
 const LIST = 50;
@@ -44,6 +49,8 @@ function emptyChecks() {
     outliers: { consensusComputedAt: null as string | null, compared: 0, count: 0, targets: [] as { target: string; value: number; uncertainty: number; consensus: number; d: number; U: number }[] },
     bounds: { count: 0, targets: [] as { target: string; value: number; uncertainty: number; bound: number; beyondThreeSigma: boolean }[] },
     identical: [] as { entryId: string; label: string; team: string; state: string; isBaseline: boolean; targets: number; examples: string[] }[],
+    /** the blind-round commitment: after the reveal, whether the estimates still hash to what was checked */
+    commitment: null as null | { result: string; checkedAt: Date | null; unchangedSinceCheck: boolean | null },
   };
 }
 
@@ -75,16 +82,23 @@ interface VersionState { fingerprint: string; standingsId: string | null }
 export async function versionFingerprints(db: Db, versionIds: string[], now: Date): Promise<Map<string, VersionState>> {
   const out = new Map<string, VersionState>();
   if (!versionIds.length) return out;
-  const at = now.toISOString();
   const r = (await db.execute(sql`
     select v.id as "versionId",
-      (select md5(coalesce(string_agg(format('%s|%s|%s', r.id, r.xmin, r.sealed_until is not null and r.sealed_until > ${at}::timestamptz), ',' order by r.id), ''))
+      (select md5(coalesce(string_agg(format('%s|%s', r.id, r.xmin), ',' order by r.id), ''))
          from targets t join "references" r on r.target_id = t.id where t.version_id = v.id) as refs,
+      (select coalesce(string_agg(distinct (extract(epoch from r.sealed_until) * 1000)::bigint::text, ',' order by (extract(epoch from r.sealed_until) * 1000)::bigint::text), '')
+         from targets t join "references" r on r.target_id = t.id where t.version_id = v.id and r.sealed_until is not null) as "sealDates",
       (select s.id from standings s where s.version_id = v.id order by s.computed_at desc, s.id desc limit 1) as "standingsId",
       (select md5(coalesce(string_agg(format('%s|%s|%s|%s', e.id, e.xmin, e.state, o.name), ',' order by e.id), ''))
-         from entries e join organization o on o.id = e.team_id where e.version_id = v.id and e.state <> 'draft') as others
-    from challenge_versions v where v.id in (${sql.join(versionIds.map((id) => sql`${id}::uuid`), sql`, `)})`)) as unknown as { rows: { versionId: string; refs: string; standingsId: string | null; others: string }[] };
-  for (const row of r.rows) out.set(row.versionId, { fingerprint: `${row.refs}|${row.standingsId ?? '-'}|${row.others}`, standingsId: row.standingsId });
+         from entries e join organization o on o.id = e.team_id where e.version_id = v.id and e.state <> 'draft') as others,
+      (select md5(coalesce(string_agg(format('%s|%s', c.entry_id, c.xmin), ',' order by c.entry_id), ''))
+         from entry_commitments c join entries e on e.id = c.entry_id where e.version_id = v.id) as commitments
+    from challenge_versions v where v.id in (${sql.join(versionIds.map((id) => sql`${id}::uuid`), sql`, `)})`)) as unknown as { rows: { versionId: string; refs: string; sealDates: string; standingsId: string | null; others: string; commitments: string }[] };
+  for (const row of r.rows) {
+    // which seal dates have passed at `now`: an unsealing by the clock alone changes the fingerprint
+    const passed = row.sealDates ? row.sealDates.split(',').map((ms) => (isVisibleNow({ sealedUntil: new Date(Number(ms)) }, PUBLIC_VIEWER, now) ? '1' : '0')).join('') : '';
+    out.set(row.versionId, { fingerprint: `${row.refs}|${passed}|${row.standingsId ?? '-'}|${row.others}|${row.commitments}`, standingsId: row.standingsId });
+  }
   return out;
 }
 
@@ -131,12 +145,14 @@ async function versionEstimates(db: Db, versionId: string) {
 }
 
 async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: Date, standingsId: string | null): Promise<Map<string, EntryChecks>> {
-  const tRows = await db.select({ key: targets.key, bound: observables.bound, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil })
-    .from(targets).innerJoin(observables, eq(observables.id, targets.observableId)).leftJoin(references, eq(references.targetId, targets.id))
-    .where(eq(targets.versionId, versionId));
+  const tRows = await db.select({ key: targets.key, bound: observables.bound })
+    .from(targets).innerJoin(observables, eq(observables.id, targets.observableId)).where(eq(targets.versionId, versionId));
   const tMap = new Map(tRows.map((t) => [t.key, t]));
-  const publicRef = (t: (typeof tRows)[number]) => (t.value === null || t.value === undefined || (t.sealedUntil && t.sealedUntil > now) ? undefined : { value: t.value, uncertainty: t.unc ?? 0 });
-  const exactCount = tRows.filter((t) => publicRef(t)).length;
+  // the queue scores against the references the public sees now (the same checks for every
+  // moderator, cached per version; a moderator who competes sees nothing sealed here)
+  const refs = await visibleReferences(db, versionId, PUBLIC_VIEWER, now);
+  const publicRef = (t: { key: string }) => refs.exact.get(t.key);
+  const exactCount = refs.exact.size;
   // the standings row the fingerprint names (the latest one when the fingerprint was read)
   const [st] = standingsId ? await db.select().from(standings).where(eq(standings.id, standingsId)).limit(1) : [];
   const consensusOf = new Map<string, { value: number; uncertainty: number; tau2: number }>();
@@ -158,6 +174,7 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
     }
   }
   const otherById = new Map(others.map((o) => [o.id, o]));
+  const commitments = new Map((await db.select().from(entryCommitments).where(inArray(entryCommitments.entryId, group.map((q) => q.e.id)))).map((c) => [c.entryId, c]));
   const result = new Map<string, EntryChecks>();
   for (const { e, version } of group) {
     const checks = emptyChecks();
@@ -212,6 +229,11 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
       checks.identical.push({ entryId: id, label: o.label, team: o.team, state: o.state, isBaseline: o.isBaseline, targets: keys.length, examples: keys.slice(0, 5) });
     }
     checks.identical.sort((a, b) => b.targets - a.targets);
+    const cm = commitments.get(e.id);
+    if (cm) {
+      const checked = cm.result !== 'pending';
+      checks.commitment = { result: cm.result, checkedAt: cm.checkedAt, unchangedSinceCheck: checked ? commitmentHash(est.map((x) => ({ target: x.key, value: x.value, uncertainty: x.u }))) === cm.computedSha256 : null };
+    }
     const flags: string[] = [];
     if (!checks.schema.ok) flags.push('schema');
     if (checks.coverage.partial) flags.push('partial-sweep');
@@ -219,6 +241,7 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
     if (checks.outliers.count) flags.push('outliers');
     if (checks.identical.length) flags.push('identical-to-another-entry');
     if (!s.scored) flags.push('no-exact-reference-to-score');
+    if (checks.commitment?.unchangedSinceCheck === false) flags.push('altered-after-reveal');
     result.set(e.id, { flags, checks });
   }
   return result;

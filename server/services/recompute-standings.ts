@@ -13,6 +13,7 @@ import type { ConsensusEstimator } from '@shared/scoring';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db, DbOrTx } from '../db/client';
 import { standingsCache } from './standings-cache';
+import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys } from '../queries/visibility';
 import { challengeVersions, challenges, entries, organization, references, standings, targets } from '../db/schema';
 
 /** `private` is null when nothing is sealed (it would equal `public`); use privateView(). */
@@ -51,25 +52,17 @@ function recomputeInTransaction(db: Db, versionId: string, now: Date) {
     }).filter((x) => !eRows.find((r) => r.e.id === x.id)!.e.hiddenReason);
     const t1 = performance.now();
     const exact = (t: (typeof tRows)[number]) => (t.value === null || t.value === undefined ? null : { value: t.value, uncertainty: t.unc ?? 0 });
-    const sealed = new Set(tRows.filter((t) => t.sealedUntil && t.sealedUntil > now).map((t) => t.key));
-    const publicInputs = sealed.size ? entryInputs.map((e) => (e.isBaseline ? { ...e, estimates: new Map([...e.estimates].filter(([k]) => !sealed.has(k))) } : e)) : entryInputs;
-    const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, reference: t.sealedUntil && t.sealedUntil > now ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
+    // the public view: what the public may see now (queries/visibility.ts); sealed references and the
+    // house baseline's estimates of them are left out
+    const sealed = sealedKeys(tRows, PUBLIC_VIEWER, now);
+    const publicInputs = sealed.size ? entryInputs.map((e) => (e.isBaseline ? { ...e, estimates: new Map([...e.estimates].filter(([target]) => !isEstimateWithheld({ isBaseline: true, target }, sealed))) } : e)) : entryInputs;
+    const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, reference: sealed.has(t.key) ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
     const priv = sealed.size ? computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) }) : null;
     const payload: StandingsPayload = { public: pub, private: priv, computedAt: now.toISOString(), versionId, estimator };
     const t2 = performance.now();
     const [row] = await tx.insert(standings).values({ versionId, computedAt: now, engineVersion: ENGINE_VERSION, payload }).returning({ id: standings.id, computedAt: standings.computedAt });
     return { ...row, timings: { readMs: t1 - t0, computeMs: t2 - t1, storeMs: performance.now() - t2 } };
   });
-}
-
-/**
- * Targets whose reference is sealed at `now`. The house baseline is usually exact on small
- * circuits, so its estimates for these targets are withheld from every public view too
- * (otherwise the baseline would reveal the sealed value).
- */
-export async function sealedTargetKeys(db: DbOrTx, versionId: string, now: Date): Promise<Set<string>> {
-  const rows = await db.select({ key: targets.key, until: references.sealedUntil }).from(targets).innerJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, versionId));
-  return new Set(rows.filter((r) => r.until && r.until > now).map((r) => r.key));
 }
 
 /**

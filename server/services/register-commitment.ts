@@ -18,6 +18,7 @@ import type { Db, DbOrTx } from '../db/client';
 import { entries, entryCommitments, estimates, referenceSeals } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
+import { isSealInForce } from '../queries/visibility';
 
 export const COMMITMENT_RECIPE = 'sha256 (lowercase hex) of the JSON array [[target, value, uncertainty], ...] of the entry\'s estimates sorted by target, no whitespace, numbers as JSON.stringify writes them, no trailing newline; e.g. printf \'%s\' \'[["t1-h0.300000:z2",0.4,0.01]]\' | sha256sum';
 
@@ -45,7 +46,7 @@ export async function registerCommitment(db: Db, p: { entryId: string; sha256: s
     // the seal rows are share-locked: a reveal (which locks its seal for update) either ran before
     // (no open seal: 409) or runs after this commit (and checks this commitment)
     const seals = await tx.select().from(referenceSeals).where(eq(referenceSeals.versionId, e.versionId)).for('share');
-    const open = seals.filter((s) => !s.revealedAt && s.sealedUntil > p.now);
+    const open = seals.filter((s) => isSealInForce(s, p.now));
     if (!open.length) throw conflict('This entry\'s challenge version has no sealed round open: a commitment is registered before a reveal, while reference values are sealed.');
     const [have] = await tx.select().from(entryCommitments).where(eq(entryCommitments.entryId, e.id)).for('update');
     if (have && have.result !== 'pending') throw conflict(`This commitment was already checked at the reveal (${have.result}); it cannot change.`);

@@ -2,14 +2,15 @@
  * The reveal of a seal once its date has passed (run by the 'reveal' job): the seal is marked
  * revealed (so the trigger no longer seals new rows), every pending commitment of the version is
  * checked against the entry's stored estimates (match / mismatch), audit 'references.unseal'.
- * The values themselves become public by the date alone (every public read compares
- * sealed_until with now); the job then recomputes the standings and e-mails the teams.
+ * The values themselves become public by the date alone (every read asks isVisibleNow,
+ * server/queries/visibility.ts, on the injected clock); the job then recomputes the standings and e-mails the teams.
  * Idempotent: the seal row is locked and a revealed seal is skipped.
  */
 import { and, eq, inArray, isNull } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { entries, entryCommitments, referenceSeals, references, targets } from '../db/schema';
 import { recordAudit } from './record-audit';
+import { isSealInForce, isVisibleNow, PUBLIC_VIEWER } from '../queries/visibility';
 import { storedEstimatesHash } from './register-commitment';
 
 export interface RevealOutcome {
@@ -28,12 +29,12 @@ export async function revealSeal(db: Db, sealId: string, now: Date): Promise<Rev
     const [s] = await tx.select().from(referenceSeals).where(eq(referenceSeals.id, sealId)).for('update');
     if (!s) return { revealed: false, skipped: 'no such seal', sealId };
     if (s.revealedAt) return { revealed: false, skipped: 'already revealed', sealId };
-    if (s.sealedUntil > now) return { revealed: false, skipped: 'not due', sealId };
+    if (isSealInForce(s, now)) return { revealed: false, skipped: 'not due', sealId };
     await tx.update(referenceSeals).set({ revealedAt: now }).where(eq(referenceSeals.id, s.id));
     const tg = await tx.select({ key: targets.key, until: references.sealedUntil }).from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, s.versionId));
     const keys = new Set(s.allTargets ? tg.map((t) => t.key) : (s.targetKeys as string[]));
     const covered = tg.filter((t) => keys.has(t.key));
-    const nowPublic = covered.filter((t) => !t.until || t.until <= now).length;
+    const nowPublic = covered.filter((t) => isVisibleNow({ sealedUntil: t.until }, PUBLIC_VIEWER, now)).length;
     // a later seal of the same targets moved the date: nothing is revealed by this one
     if (covered.length && !nowPublic) return { revealed: false, skipped: 'superseded by a later seal', sealId };
     const later = await tx.select({ id: referenceSeals.id }).from(referenceSeals).where(and(eq(referenceSeals.versionId, s.versionId), isNull(referenceSeals.revealedAt)));

@@ -6,7 +6,7 @@
  *   (drizzle/0003_reference_seal_trigger.sql), in the same INSERT, so a value is never stored
  *   unsealed even when the seal comes before the computation (seal a draft version with
  *   ?version=N before publishing it: nothing is public in between);
- * - the public API withholds a sealed value (presentReference, sealedTargetKeys, the public
+ * - every read withholds a sealed value through isVisibleNow (server/queries/visibility.ts: the public
  *   standings view); the reveal job (server/jobs/reveal-job.ts) runs once the date has passed.
  * Sealing again replaces the date for the targets named. Audit 'references.seal'.
  */

@@ -1,17 +1,19 @@
 /**
  * Replacing the document of a draft (or returned) entry: metadata and every estimate, in one
- * transaction. A submitted entry is frozen; a published one changes only through a revision.
+ * transaction. A submitted entry is frozen; a published one changes only through a revision. The
+ * estimates of an entry whose commitment was checked at a reveal are frozen too (409 on a change).
  * A draft is editable before the submission window opens, and stays editable when its track, the
  * submission window or the challenge closes (its submission is what the settings refuse, see
  * validate-entry.ts), but an edit never moves an entry into a closed track (409).
  */
 import { eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
-import { entries, estimates } from '../db/schema';
-import { conflict, invalid, notFound } from '../errors';
+import { entries, entryCommitments, estimates } from '../db/schema';
+import { AppError, conflict, invalid, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
 import { entryMetadata, insertEstimates } from './create-entry';
 import { closedTrackProblem, loadGate, refuse, type EntryCheck } from './validate-entry';
+import { commitmentHash } from './register-commitment';
 
 export const EDITABLE_STATES = ['draft', 'returned'];
 
@@ -27,6 +29,12 @@ export async function updateEntry(db: Db, p: { entryId: string; check: EntryChec
     }
     if (e.challengeSlug !== p.check.version.slug) {
       throw invalid([{ path: '/challenge/id', message: `this entry answers ${e.challengeSlug}; an entry for ${p.check.version.slug} is a new entry (POST /api/challenges/${p.check.version.slug}/entries)` }]);
+    }
+    // a commitment checked at the reveal freezes the estimates it was checked against: otherwise a
+    // team could copy the revealed values into a "matching" entry (metadata may still change)
+    const [cm] = await tx.select({ result: entryCommitments.result, checked: entryCommitments.computedSha256, at: entryCommitments.checkedAt }).from(entryCommitments).where(eq(entryCommitments.entryId, e.id));
+    if (cm && cm.result !== 'pending' && commitmentHash(doc.estimates) !== cm.checked) {
+      throw new AppError('conflict', `This entry's estimates were checked against its commitment at the reveal (${cm.result}${cm.at ? `, ${cm.at.toISOString()}` : ''}) and are frozen: change the metadata only, or withdraw it and create a new entry (which has no commitment).`, [{ path: '/estimates', message: 'frozen since the commitment check at the reveal: send the same estimates (target, value, uncertainty)' }]);
     }
     if (doc.track !== e.track) {
       const move = closedTrackProblem(await loadGate(tx, e.challengeSlug), doc.track, 'move', e.track);

@@ -6,14 +6,15 @@
  * writes to the database.
  */
 import { readFileSync } from 'node:fs';
-import { and, asc, eq, isNotNull, lte, or, isNull } from 'drizzle-orm';
+import { asc, eq } from 'drizzle-orm';
 import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
 import addFormatsModule from 'ajv-formats';
 import { scoreAgainstReference, scoreSweep, type SweepItem } from '@shared/scoring';
 import type { Db, DbOrTx } from '../db/client';
-import { challengeVersions, challenges, observables, references, targets } from '../db/schema';
+import { challengeVersions, challenges, observables, targets } from '../db/schema';
 import { AppError, invalid, notFound, type FieldProblem } from '../errors';
 import { parseStrictJson, DEFAULT_MAX_DEPTH } from '../util/strict-json';
+import { PUBLIC_VIEWER, visibleReferences } from '../queries/visibility';
 
 export const ENTRY_SCHEMA = JSON.parse(readFileSync(new URL('../../schemas/entry.schema.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 export const MAX_ESTIMATES = 100_000;
@@ -621,10 +622,8 @@ async function inspect(db: Db, doc: unknown, schema: FieldProblem[], opts: Check
 // ------------------------------------------------------------------ dry-run score preview
 /** Scores against the references the public can see (exact and not sealed), as the dry run shows them. */
 export async function previewScores(db: Db, check: EntryCheck, now: Date, listLimit = 1000) {
-  const refs = await db.select({ key: targets.key, value: references.value, uncertainty: references.uncertainty })
-    .from(references).innerJoin(targets, eq(targets.id, references.targetId))
-    .where(and(eq(targets.versionId, check.version.versionId), isNotNull(references.value), or(isNull(references.sealedUntil), lte(references.sealedUntil, now))));
-  const refMap = new Map(refs.map((r) => [r.key, r.uncertainty > 0 ? { value: r.value!, uncertainty: r.uncertainty } : { value: r.value! }]));
+  const refs = await visibleReferences(db, check.version.versionId, PUBLIC_VIEWER, now);
+  const refMap = new Map([...refs.exact].map(([key, r]) => [key, r.uncertainty > 0 ? r : { value: r.value }]));
   const est = new Map(check.document.estimates.map((e) => [e.target, e]));
   const items: SweepItem[] = [];
   for (const key of check.version.targets.keys()) {

@@ -91,7 +91,7 @@ export function Component() {
         <div className="flex flex-wrap items-center gap-2">
           <TrackBadge track={en.track} />
           {en.isBaseline && <Badge tone="exact">house baseline</Badge>}
-          <Badge tone={en.state === 'published' ? 'ok' : 'neutral'}>{en.state}</Badge>
+          {en.hidden ? <span className="rounded border border-danger/30 bg-danger-soft px-1.5 py-px text-xs font-medium text-danger-ink" data-testid="entry-hidden">hidden by the moderators: {en.hidden.reason}</span> : <Badge tone={en.state === 'published' ? 'ok' : 'neutral'}>{en.state}</Badge>}
           <span className="text-sm">by {en.team.name ? <Link to={`/teams/${encodeURIComponent(en.team.id)}`}>{en.team.name}</Link> : 'a team'}</span>
           <span className="num text-sm">· revision {en.revision} · published {formatDate(en.publishedAt)}</span>
         </div>
@@ -123,7 +123,7 @@ export function Component() {
           <Panel
             title="Estimates"
             id="entry-estimates"
-            description={<span className="num">{rows.length} estimates · {formatPercent(en.coverage.fraction)} of the grid{hasZne ? ' · choose one for the zero-noise re-analysis' : hasTrace ? ' · choose one for its convergence trace' : ''}</span>}
+            description={<span className="num">{rows.length} estimates · {formatPercent(en.coverage.fraction)} of the grid{en.withheld ? ` · ${en.withheld.estimates} withheld until ${formatDate(en.withheld.until)} (sealed references)` : ''}{hasZne ? ' · choose one for the zero-noise re-analysis' : hasTrace ? ' · choose one for its convergence trace' : ''}</span>}
           >
             <div className="mb-3 flex flex-wrap items-center gap-2 text-sm">
               <label className="grow sm:grow-0">

@@ -185,6 +185,16 @@ describe('the public pages in the browser', () => {
     await expect.poll(() => p.getByTestId('submissions-status').textContent()).toMatch(/Closed for entries/);
     await shots(p, '16-closed');
 
+    // an entry hidden by the moderators: its page says so, with the reason, instead of "published"
+    const listed = (await (await fetch(`${server.url}/api/challenges/${SLUG}/entries`)).json()) as { entries: { id: string; isBaseline: boolean }[] };
+    const victim = listed.entries.find((e) => !e.isBaseline)!;
+    const hide = await mod.request.post(`/api/entries/${victim.id}/curation`, { data: { hidden: { reason: 'values copied from another entry' } }, headers: origin });
+    expect(hide.ok(), await hide.text()).toBe(true);
+    await p.goto(`/entries/${victim.id}`);
+    await expect.poll(() => p.getByTestId('entry-hidden').textContent()).toBe('hidden by the moderators: values copied from another entry');
+    await shots(p, '16b-hidden-entry');
+    expect((await mod.request.post(`/api/entries/${victim.id}/curation`, { data: { hidden: null }, headers: origin })).ok()).toBe(true);
+
     // the home page lists the challenges as cards
     await p.goto('/');
     await p.getByTestId('challenge-list').waitFor();

@@ -36,6 +36,9 @@ export interface Entry {
   state: string; track: 'hardware' | 'classical'; methodFamily: string; label: string;
   revision: number; lineageId: string | null; supersedesId: string | null; isBaseline: boolean;
   createdAt: string; updatedAt: string; submittedAt: string | null; publishedAt: string | null;
+  featured: boolean;
+  /** set when a moderator hid the entry (out of the standings and lists): the public reason */
+  hidden: { reason: string } | null;
   estimates: number;
   coverage: { targets: number; covered: number; fraction: number };
   revisions: EntryRevision[];
@@ -43,6 +46,8 @@ export interface Entry {
   document?: EntryDocument;
   /** one per estimate of the document (sent with the document) */
   scores?: EstimateScore[];
+  /** house-baseline estimates of sealed targets left out of the document until the reveal */
+  withheld?: { estimates: number; reason: string; until: string | null } | null;
 }
 
 export const getEntry = (entryId: string, signal?: AbortSignal) => api.get<Entry>(`/entries/${encodeURIComponent(entryId)}`, { signal });

@@ -2,8 +2,8 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import type { TeamEntry } from '@/features/entries/api/get-team-entries';
 
-/** The published entries of a challenge's current version (for curation). */
-export type PublishedEntry = Omit<TeamEntry, 'revisions'> & { featured?: boolean; hiddenReason?: string | null };
+/** The published entries of a challenge's current version (for curation: moderators also get the hidden ones, marked). */
+export type PublishedEntry = TeamEntry;
 export const getChallengeEntries = (slug: string, signal?: AbortSignal) =>
   api.get<{ entries: PublishedEntry[] }>(`/challenges/${encodeURIComponent(slug)}/entries`, { signal });
 

@@ -8,6 +8,8 @@ export interface QueueChecks {
   outliers: { consensusComputedAt: string | null; compared: number; count: number; targets: { target: string; value: number; uncertainty: number; consensus: number; d: number; U: number }[] };
   bounds: { count: number; targets: { target: string; value: number; uncertainty: number; bound: number; beyondThreeSigma: boolean }[] };
   identical: { entryId: string; label: string; team: string; state: string; isBaseline: boolean; targets: number; examples: string[] }[];
+  /** the blind-round commitment; unchangedSinceCheck: whether the estimates still hash to what the reveal checked */
+  commitment: { result: 'pending' | 'match' | 'mismatch'; checkedAt: string | null; unchangedSinceCheck: boolean | null } | null;
 }
 export interface QueueItem {
   id: string;

@@ -165,7 +165,7 @@ export function Disputes({ slug }: { slug: string }) {
 export function Curation({ slug }: { slug: string }) {
   const q = useChallengeEntries(slug);
   const m = useCurateEntry(slug);
-  // the entries list does not say which are featured or hidden: what we set here is remembered
+  // the list says which are featured or hidden; what we set here is remembered until it is read again
   const [known, setKnown] = useState<Record<string, CurationResult>>({});
   const [hiding, setHiding] = useState<string | null>(null);
   const [reason, setReason] = useState('');
@@ -177,7 +177,7 @@ export function Curation({ slug }: { slug: string }) {
           {q.data.entries.map((e) => {
             const k = known[e.id];
             const featured = k?.featured ?? e.featured ?? false;
-            const hidden = k ? k.hiddenReason : e.hiddenReason ?? null;
+            const hidden = k ? k.hiddenReason : e.hidden?.reason ?? null;
             return (
               <li key={e.id} className="flex flex-wrap items-center justify-between gap-2 py-2">
                 <span className="min-w-0">

@@ -10,6 +10,8 @@ export function CheckBadges({ item }: { item: QueueItem }) {
   if (c.bounds.count) out.push({ tone: 'danger', text: `${c.bounds.count} outside bounds`, title: '|value| beyond the physical bound of the observable' });
   if (c.outliers.count) out.push({ tone: 'disputed', text: `${c.outliers.count} outliers vs consensus`, title: '|d| > U against the consensus of published entries' });
   if (c.identical.length) out.push({ tone: 'danger', text: `identical to ${c.identical.length} other entr${c.identical.length === 1 ? 'y' : 'ies'}`, title: 'the same values (12 significant digits) as another entry on several targets' });
+  if (c.commitment?.unchangedSinceCheck === false) out.push({ tone: 'danger', text: `altered after reveal (commitment: ${c.commitment.result})`, title: 'the estimates changed after the reveal checked them against the commitment: the check no longer holds' });
+  else if (c.commitment && c.commitment.result !== 'pending') out.push({ tone: c.commitment.result === 'match' ? 'ok' : 'danger', text: `commitment ${c.commitment.result}`, title: 'checked at the reveal against the hash registered before it; the estimates are frozen since' });
   if (c.coverage.partial) out.push({ tone: 'neutral', text: `partial: ${formatPercent(c.coverage.fraction)} of targets`, title: `${c.coverage.answered} of ${c.coverage.targets} targets answered` });
   if (!c.scores.scored) out.push({ tone: 'neutral', text: 'no exact reference to score', title: 'none of its targets has a public exact reference' });
   if (!out.length) out.push({ tone: 'ok', text: 'checks clear', title: 'no automatic check raised anything' });

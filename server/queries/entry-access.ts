@@ -8,7 +8,7 @@ import type { Db } from '../db/client';
 import { entries } from '../db/schema';
 import { notFound } from '../errors';
 import { teamRole } from '../middleware/actor';
-import type { EntryRow } from '../presenters/entry';
+import type { EntryRow } from './entries';
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
