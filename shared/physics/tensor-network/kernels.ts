@@ -5,7 +5,7 @@
  * [re0, im0, re1, im1, ...], row-major with legs[0] the most significant bit of the offset.
  *
  * A pairwise contraction is a permute plus a batched matrix product (the usual reduction of
- * tensordot / einsum to GEMM): A is laid out as [batch][left][sum], B as [batch][sum][right], and
+ * tensordot / einsum to GEMM): A is laid out as [batch][left][sum], B as [batch][right][sum], and
  * C[batch][left][right] = sum A B. The permute also splits real and imaginary parts into separate
  * arrays, so the GEMM inner loop runs on two plain real arrays (no strided complex loads); the
  * result is written back interleaved.
@@ -91,68 +91,66 @@ export function sliceTensor(t: Tensor, fixed: ReadonlyMap<number, number>): Tens
 }
 
 /**
- * C[m x n] = A[m x k] B[k x n] on split real/imaginary arrays, with offsets (one batch).
- * Blocked over k and n so that a block of B stays in cache while every row of A passes over it;
- * the inner loop updates one row of C from one row of B (two rows of B per pass, so C is loaded
- * and stored half as often).
+ * C[m x n] = A[m x k] B^T (B stored as n x k) on split real/imaginary arrays, one batch at the
+ * given offsets. Both operands are read along contiguous rows (the permute lays B out transposed
+ * for free). Register-blocked 2 x 2 (four complex accumulators), blocked over k (256) and n (32)
+ * so the rows of B in use stay in cache while the rows of A pass over them.
  */
-export function gemmSplit(
-  m: number, k: number, n: number,
-  ar: Float64Array, ai: Float64Array, aOff: number,
-  br: Float64Array, bi: Float64Array, bOff: number,
-  cr: Float64Array, ci: Float64Array, cOff: number,
-): void {
+export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, cr: Float64Array, ci: Float64Array, cOff: number): void {
   for (let i = cOff, e = cOff + m * n; i < e; i++) { cr[i] = 0; ci[i] = 0; }
-  if (n === 1) {
-    // matrix-vector: dot products along k
-    for (let i = 0; i < m; i++) {
-      const a0 = aOff + i * k;
-      let sr = 0, si = 0;
-      for (let p = 0; p < k; p++) {
-        const xr = ar[a0 + p], xi = ai[a0 + p], yr = br[bOff + p], yi = bi[bOff + p];
-        sr += xr * yr - xi * yi;
-        si += xr * yi + xi * yr;
-      }
-      cr[cOff + i] = sr;
-      ci[cOff + i] = si;
-    }
-    return;
-  }
-  const KB = 64;
-  const NB = 256;
-  for (let j0 = 0; j0 < n; j0 += NB) {
-    const j1 = Math.min(n, j0 + NB);
-    for (let p0 = 0; p0 < k; p0 += KB) {
-      const p1 = Math.min(k, p0 + KB);
-      for (let i = 0; i < m; i++) {
-        const aRow = aOff + i * k;
-        const cRow = cOff + i * n;
-        let p = p0;
-        for (; p + 1 < p1; p += 2) {
-          const xr = ar[aRow + p], xi = ai[aRow + p];
-          const yr = ar[aRow + p + 1], yi = ai[aRow + p + 1];
-          const b0 = bOff + p * n;
-          const b1 = b0 + n;
-          for (let j = j0; j < j1; j++) {
-            const u0 = br[b0 + j], v0 = bi[b0 + j], u1 = br[b1 + j], v1 = bi[b1 + j];
-            cr[cRow + j] += xr * u0 - xi * v0 + yr * u1 - yi * v1;
-            ci[cRow + j] += xr * v0 + xi * u0 + yr * v1 + yi * u1;
+  const KB = 256, JB = 32;
+  for (let p0 = 0; p0 < k; p0 += KB) {
+    const p1 = Math.min(k, p0 + KB);
+    for (let j0 = 0; j0 < n; j0 += JB) {
+      const j1 = Math.min(n, j0 + JB);
+      let i = 0;
+      for (; i + 1 < m; i += 2) {
+        const a0 = aOff + i * k, a1 = a0 + k;
+        let j = j0;
+        for (; j + 1 < j1; j += 2) {
+          const b0 = bOff + j * k, b1 = b0 + k;
+          let r00 = 0, i00 = 0, r01 = 0, i01 = 0, r10 = 0, i10 = 0, r11 = 0, i11 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], x1r = ar[a1 + p], x1i = ai[a1 + p];
+            const y0r = br[b0 + p], y0i = bi[b0 + p], y1r = br[b1 + p], y1i = bi[b1 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+            r01 += x0r * y1r - x0i * y1i; i01 += x0r * y1i + x0i * y1r;
+            r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
+            r11 += x1r * y1r - x1i * y1i; i11 += x1r * y1i + x1i * y1r;
           }
+          const c0 = cOff + i * n + j, c1 = c0 + n;
+          cr[c0] += r00; ci[c0] += i00; cr[c0 + 1] += r01; ci[c0 + 1] += i01;
+          cr[c1] += r10; ci[c1] += i10; cr[c1 + 1] += r11; ci[c1 + 1] += i11;
         }
-        if (p < p1) {
-          const xr = ar[aRow + p], xi = ai[aRow + p];
-          const b0 = bOff + p * n;
-          for (let j = j0; j < j1; j++) {
-            const u0 = br[b0 + j], v0 = bi[b0 + j];
-            cr[cRow + j] += xr * u0 - xi * v0;
-            ci[cRow + j] += xr * v0 + xi * u0;
+        for (; j < j1; j++) {
+          const b0 = bOff + j * k;
+          let r00 = 0, i00 = 0, r10 = 0, i10 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], x1r = ar[a1 + p], x1i = ai[a1 + p];
+            const y0r = br[b0 + p], y0i = bi[b0 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+            r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
           }
+          const c0 = cOff + i * n + j, c1 = c0 + n;
+          cr[c0] += r00; ci[c0] += i00; cr[c1] += r10; ci[c1] += i10;
+        }
+      }
+      for (; i < m; i++) {
+        const a0 = aOff + i * k;
+        for (let j = j0; j < j1; j++) {
+          const b0 = bOff + j * k;
+          let r00 = 0, i00 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], y0r = br[b0 + p], y0i = bi[b0 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+          }
+          const c0 = cOff + i * n + j;
+          cr[c0] += r00; ci[c0] += i00;
         }
       }
     }
   }
 }
-
 /** How the legs of a pairwise contraction split (all lists in output order). */
 export interface PairLayout {
   batch: number[];
@@ -201,7 +199,7 @@ export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const br = scratch.get(2, bSize), bi = scratch.get(3, bSize);
   const cr = scratch.get(4, cSize), ci = scratch.get(5, cSize);
   permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], ar, ai);
-  permuteSplit(B.data, B.legs, [...L.batch, ...L.sum, ...L.right], br, bi);
+  permuteSplit(B.data, B.legs, [...L.batch, ...L.right, ...L.sum], br, bi);
   for (let t = 0; t < nb; t++) gemmSplit(m, k, n, ar, ai, t * m * k, br, bi, t * k * n, cr, ci, t * m * n);
   const out = new Float64Array(2 * cSize);
   for (let i = 0; i < cSize; i++) {
