@@ -24,6 +24,9 @@ export { contractPair, gemmSplit, pairLayout, permuteSplit, type Tensor } from '
 export { buildNetwork, simplifyNetwork, type Network } from './network';
 export { greedyTree, reconfigure, rng, searchOrder, treeCost, chooseSlices, type ContractionTree, type TreeCost } from './path';
 
+/** Most indices sliced in one plan (2^16 slices). */
+export const MAX_SLICED = 16;
+
 /** Default memory budget for one contraction: 2 GiB (width about 26 after the scratch copies). */
 export const DEFAULT_TN_MEMORY_BYTES = 2 * 1024 ** 3;
 
@@ -78,10 +81,14 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
   let sliced: number[] = [];
   let greedyWidth = 0;
   if (leaves.length > 1) {
-    const s = searchOrder(legs, net.nLegs, { targetWidth: maxWidth, ...opts });
+    // restarts: 64 on small networks, fewer on large ones (the search is about linear in both)
+    const restarts = opts.restarts ?? Math.max(8, Math.min(64, Math.round(40000 / leaves.length)));
+    const s = searchOrder(legs, net.nLegs, { targetWidth: maxWidth, ...opts, restarts });
     pairs = s.tree.pairs;
     greedyWidth = s.bestRestartWidth;
-    sliced = chooseSlices(legs, net.nLegs, s.tree, maxWidth);
+    // slicing past MAX_SLICED indices is hopeless (each doubles the work): leave such plans wide,
+    // their memory estimate then exceeds the budget and the planner refuses them
+    if (s.cost.width - maxWidth <= MAX_SLICED) sliced = chooseSlices(legs, net.nLegs, s.tree, maxWidth, MAX_SLICED);
     cost = sliced.length ? treeCost(legs, net.nLegs, s.tree, sliced) : s.cost;
   } else if (leaves.length === 1) {
     cost = { width: leaves[0].legs.length, flops: 0, memoryBytes: 16 * 2 ** leaves[0].legs.length };
@@ -107,12 +114,18 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
 }
 
 /** Contract slice i of plan.slices; returns [re, im] (the scalar factor included). */
-export function contractSlice(plan: TnTermPlan, i: number): [number, number] {
+export interface ContractOptions {
+  /** called before every pairwise step (throw from it to stop the contraction) */
+  onStep?: () => void;
+}
+
+export function contractSlice(plan: TnTermPlan, i: number, opts: ContractOptions = {}): [number, number] {
   if (!Number.isInteger(i) || i < 0 || i >= plan.slices) throw new RangeError(`slice ${i} out of range 0..${plan.slices - 1}`);
   const fixed = new Map<number, number>();
   plan.sliced.forEach((leg, j) => fixed.set(leg, (i >> j) & 1));
   const ts: (Tensor | null)[] = plan.leaves.map((t) => (fixed.size ? sliceTensor(t, fixed) : t));
   plan.pairs.forEach(([a, b], s) => {
+    opts.onStep?.();
     const A = ts[a] as Tensor, B = ts[b] as Tensor;
     const sum = new Set(plan.sumLegs[s]);
     ts[a] = null;
@@ -130,11 +143,11 @@ export function contractSlice(plan: TnTermPlan, i: number): [number, number] {
 }
 
 /** Contract every slice of a plan and sum. */
-export function contractPlan(plan: TnTermPlan): [number, number] {
+export function contractPlan(plan: TnTermPlan, opts: ContractOptions = {}): [number, number] {
   if (plan.leaves.length === 0) return [plan.scalar[0], plan.scalar[1]];
   let re = 0, im = 0;
   for (let i = 0; i < plan.slices; i++) {
-    const [a, b] = contractSlice(plan, i);
+    const [a, b] = contractSlice(plan, i, opts);
     re += a;
     im += b;
   }
