@@ -216,8 +216,8 @@ describe('slicing', () => {
     for (let i = small.slices - 1; i >= 0; i--) re += contractSlice(small, i)[0]; // any order
     const want = contractPlan(full)[0];
     expect(Math.abs(re - want)).toBeLessThan(TOL);
-    const obs = { id: 'o', terms: [{ coef: 1, factors }] };
-    expect(Math.abs(want - statevectorExpectation(c, obs).value)).toBeLessThan(TOL);
+    const lc = lightCone(c, { id: 'o', terms: [{ coef: 1, factors }] });
+    expect(Math.abs(want - lightConeStatevectorValue(lc.circuit, lc.observable as ObservableSpec).value)).toBeLessThan(TOL);
     expect(() => contractSlice(small, small.slices)).toThrow(/out of range/);
   });
 });
