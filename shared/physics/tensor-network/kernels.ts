@@ -8,7 +8,7 @@
  * tensordot / einsum to GEMM): A is laid out as [batch][left][sum], B as [batch][right][sum], and
  * C[batch][left][right] = sum A B. The permute also splits real and imaginary parts into separate
  * arrays, so the GEMM inner loop runs on two plain real arrays (no strided complex loads); the
- * result is written back interleaved.
+ * GEMM writes the interleaved result directly. k <= 4 (one or two summed legs) has its own loops.
  *
  * No framework or node: imports.
  */
@@ -92,12 +92,17 @@ export function sliceTensor(t: Tensor, fixed: ReadonlyMap<number, number>): Tens
 
 /**
  * C[m x n] = A[m x k] B^T (B stored as n x k) on split real/imaginary arrays, one batch at the
- * given offsets. Both operands are read along contiguous rows (the permute lays B out transposed
+ * given offsets, into interleaved C (written directly: no split copy of the result). Both operands are read along contiguous rows (the permute lays B out transposed
  * for free). Register-blocked 2 x 2 (four complex accumulators), blocked over k (256) and n (32)
  * so the rows of B in use stay in cache while the rows of A pass over them.
  */
-export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, cr: Float64Array, ci: Float64Array, cOff: number): void {
-  for (let i = cOff, e = cOff + m * n; i < e; i++) { cr[i] = 0; ci[i] = 0; }
+export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
+  // c is interleaved complex; cOff counts complex elements
+  if (k <= 4) {
+    smallK(m, k, n, ar, ai, aOff, br, bi, bOff, c, cOff);
+    return;
+  }
+  for (let i = 2 * cOff, e = 2 * (cOff + m * n); i < e; i++) c[i] = 0;
   const KB = 256, JB = 32;
   for (let p0 = 0; p0 < k; p0 += KB) {
     const p1 = Math.min(k, p0 + KB);
@@ -118,9 +123,9 @@ export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai:
             r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
             r11 += x1r * y1r - x1i * y1i; i11 += x1r * y1i + x1i * y1r;
           }
-          const c0 = cOff + i * n + j, c1 = c0 + n;
-          cr[c0] += r00; ci[c0] += i00; cr[c0 + 1] += r01; ci[c0 + 1] += i01;
-          cr[c1] += r10; ci[c1] += i10; cr[c1 + 1] += r11; ci[c1 + 1] += i11;
+          const c0 = 2 * (cOff + i * n + j), c1 = c0 + 2 * n;
+          c[c0] += r00; c[c0 + 1] += i00; c[c0 + 2] += r01; c[c0 + 3] += i01;
+          c[c1] += r10; c[c1 + 1] += i10; c[c1 + 2] += r11; c[c1 + 3] += i11;
         }
         for (; j < j1; j++) {
           const b0 = bOff + j * k;
@@ -131,8 +136,8 @@ export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai:
             r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
             r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
           }
-          const c0 = cOff + i * n + j, c1 = c0 + n;
-          cr[c0] += r00; ci[c0] += i00; cr[c1] += r10; ci[c1] += i10;
+          const c0 = 2 * (cOff + i * n + j), c1 = c0 + 2 * n;
+          c[c0] += r00; c[c0 + 1] += i00; c[c1] += r10; c[c1 + 1] += i10;
         }
       }
       for (; i < m; i++) {
@@ -144,13 +149,51 @@ export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai:
             const x0r = ar[a0 + p], x0i = ai[a0 + p], y0r = br[b0 + p], y0i = bi[b0 + p];
             r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
           }
-          const c0 = cOff + i * n + j;
-          cr[c0] += r00; ci[c0] += i00;
+          const c0 = 2 * (cOff + i * n + j);
+          c[c0] += r00; c[c0 + 1] += i00;
         }
       }
     }
   }
 }
+
+/** k = 1, 2 or 4: the row of A sits in locals, one pass over the rows of B per row of A. */
+function smallK(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
+  let o = 2 * cOff;
+  if (k === 1) {
+    for (let i = 0; i < m; i++) {
+      const xr = ar[aOff + i], xi = ai[aOff + i];
+      for (let j = 0; j < n; j++) {
+        const yr = br[bOff + j], yi = bi[bOff + j];
+        c[o++] = xr * yr - xi * yi;
+        c[o++] = xr * yi + xi * yr;
+      }
+    }
+  } else if (k === 2) {
+    for (let i = 0; i < m; i++) {
+      const a = aOff + 2 * i;
+      const x0r = ar[a], x0i = ai[a], x1r = ar[a + 1], x1i = ai[a + 1];
+      for (let j = 0, b = bOff; j < n; j++, b += 2) {
+        const y0r = br[b], y0i = bi[b], y1r = br[b + 1], y1i = bi[b + 1];
+        c[o++] = x0r * y0r - x0i * y0i + x1r * y1r - x1i * y1i;
+        c[o++] = x0r * y0i + x0i * y0r + x1r * y1i + x1i * y1r;
+      }
+    }
+  } else {
+    for (let i = 0; i < m; i++) {
+      const a = aOff + 4 * i;
+      const x0r = ar[a], x0i = ai[a], x1r = ar[a + 1], x1i = ai[a + 1];
+      const x2r = ar[a + 2], x2i = ai[a + 2], x3r = ar[a + 3], x3i = ai[a + 3];
+      for (let j = 0, b = bOff; j < n; j++, b += 4) {
+        const y0r = br[b], y0i = bi[b], y1r = br[b + 1], y1i = bi[b + 1];
+        const y2r = br[b + 2], y2i = bi[b + 2], y3r = br[b + 3], y3i = bi[b + 3];
+        c[o++] = x0r * y0r - x0i * y0i + x1r * y1r - x1i * y1i + x2r * y2r - x2i * y2i + x3r * y3r - x3i * y3i;
+        c[o++] = x0r * y0i + x0i * y0r + x1r * y1i + x1i * y1r + x2r * y2i + x2i * y2r + x3r * y3i + x3i * y3r;
+      }
+    }
+  }
+}
+
 /** How the legs of a pairwise contraction split (all lists in output order). */
 export interface PairLayout {
   batch: number[];
@@ -197,15 +240,10 @@ export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const cSize = nb * m * n;
   const ar = scratch.get(0, aSize), ai = scratch.get(1, aSize);
   const br = scratch.get(2, bSize), bi = scratch.get(3, bSize);
-  const cr = scratch.get(4, cSize), ci = scratch.get(5, cSize);
   permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], ar, ai);
   permuteSplit(B.data, B.legs, [...L.batch, ...L.right, ...L.sum], br, bi);
-  for (let t = 0; t < nb; t++) gemmSplit(m, k, n, ar, ai, t * m * k, br, bi, t * k * n, cr, ci, t * m * n);
   const out = new Float64Array(2 * cSize);
-  for (let i = 0; i < cSize; i++) {
-    out[2 * i] = cr[i];
-    out[2 * i + 1] = ci[i];
-  }
+  for (let t = 0; t < nb; t++) gemmSplit(m, k, n, ar, ai, t * m * k, br, bi, t * k * n, out, t * m * n);
   return { legs: [...L.batch, ...L.left, ...L.right], data: out };
 }
 
