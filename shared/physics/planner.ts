@@ -62,7 +62,8 @@ export interface PlannerOptions {
  * amplitude-gate updates/s at 26 qubits on an idle core (PHYSICS.md, measured); measured here
  * 5.1e8 at 24 qubits and 2.4e8 at 20 qubits with the machine's 2 cores at load 15; 1e9 sits between.
  * TN_RATE: real flops/s of the tensor-network kernels (8 per complex multiply-add), measured by
- * bench/tensor-network.bench.ts: 0.5 to 1.1 GFlop/s on the large steps at that load.
+ * bench/tensor-network.bench.ts: 0.8 to 1.4 GFlop/s on its networks at that load (numpy with
+ * OpenBLAS: 1 to 2.4 GFlop/s on the same networks and paths, one thread).
  */
 export const PROPAGATION_RATE = 1e7; // term-gate updates per second
 export const STATEVECTOR_RATE = 1e9; // amplitude-gate updates per second
@@ -561,7 +562,7 @@ export class Planner {
   /**
    * Tensor-network cost of an observable, term by term: the order search runs on each term's
    * light-cone network (the structure does not depend on the angles, so the result is cached per
-   * (steps, term)); seconds = search time x 40 (the runner's fuller search) + flops / TN_RATE.
+   * (steps, term)); seconds = search time + flops / TN_RATE.
    */
   tnCost(inst: Instance, obs: ObservableSpec): { width: number; flops: number; slices: number; memoryBytes: number; seconds: number; terms: (TnTermCost & { index: number })[] } {
     const terms: (TnTermCost & { index: number })[] = [];
@@ -574,18 +575,18 @@ export class Planner {
       if (!c) {
         const sub = this.restrict(inst, { id: `${obs.id}#${index}`, terms: [{ coef: 1, factors: t.factors }] });
         const t0 = nowMs();
-        // the estimate uses one greedy run refined by subtree reconfiguration (a fraction of the
-        // runner's full search, whose result is usually narrower and cheaper: an upper estimate)
-        // (a plain greedy run alone first: a network 100 times over the time budget stops there)
+        // one plain greedy run first: a network 1000 times over the time budget (or over the memory
+        // budget even after slicing) stops there; otherwise the runner's own full search, so the
+        // estimate is the plan that will run (same seed, same options)
         const quick = planTerm(sub.circuit, sub.observable.terms[0].factors, { ...tnOptions(this.options), restarts: 1, reconfigureK: 0 });
-        const hopeless = quick.flops / TN_RATE > 100 * this.options.secondsBudget || quick.memoryBytes > this.options.tnMemoryBytes;
-        const plan = hopeless ? quick : planTerm(sub.circuit, sub.observable.terms[0].factors, { ...tnOptions(this.options), restarts: 1, reconfigureK: 6 });
+        const hopeless = quick.flops / TN_RATE > 1000 * this.options.secondsBudget || quick.memoryBytes > this.options.tnMemoryBytes;
+        const plan = hopeless ? quick : planTerm(sub.circuit, sub.observable.terms[0].factors, tnOptions(this.options));
         c = { width: plan.width, flops: plan.flops, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
         if (this.tnCache.size > 4096) this.tnCache.clear();
         this.tnCache.set(key, c);
       }
       terms.push({ ...c, index });
-      seconds += OTHER_OVERHEAD_S + 40 * c.searchSeconds + c.flops / TN_RATE;
+      seconds += OTHER_OVERHEAD_S + c.searchSeconds + c.flops / TN_RATE;
       width = Math.max(width, c.width);
       flops += c.flops;
       slices = Math.max(slices, c.slices);
