@@ -82,7 +82,7 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
   let greedyWidth = 0;
   if (leaves.length > 1) {
     // restarts: 64 on small networks, fewer on large ones (the search is about linear in both)
-    const restarts = opts.restarts ?? Math.max(8, Math.min(64, Math.round(40000 / leaves.length)));
+    const restarts = opts.restarts ?? Math.max(8, Math.min(64, Math.round(20000 / leaves.length)));
     const s = searchOrder(legs, net.nLegs, { targetWidth: maxWidth, ...opts, restarts });
     pairs = s.tree.pairs;
     greedyWidth = s.bestRestartWidth;
