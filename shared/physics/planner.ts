@@ -52,6 +52,12 @@ export interface PlannerOptions {
   statevectorQubitLimit?: number;
   /** largest estimated peak memory of one tensor-network slice in bytes (default 2 GiB); wider contractions are sliced */
   tnMemoryBytes?: number;
+  /**
+   * Run the contraction-order search to cost the tensor network (milliseconds to seconds per
+   * distinct term and step count). Off by default, so a plan on a request path stays fast; the
+   * ReferenceRunner (worker threads, npm run reference) turns it on.
+   */
+  tnSearch?: boolean;
   /** largest estimated time per target in seconds (default 600) */
   secondsBudget?: number;
 }
@@ -86,6 +92,7 @@ export const DEFAULT_PLANNER_OPTIONS: Required<PlannerOptions> = {
   coneQubitLimit: WASM_MAX_QUBITS,
   statevectorQubitLimit: WASM_MAX_QUBITS,
   tnMemoryBytes: DEFAULT_TN_MEMORY_BYTES,
+  tnSearch: false,
   secondsBudget: 600,
 };
 
@@ -170,6 +177,7 @@ export type Reason =
   | { code: 'cone-limit'; qubits: number; limit: number; nonClifford: number; widestTerm?: { qubits: number; index: number } }
   | { code: 'register-limit'; qubits: number; limit: number }
   | { code: 'tn-not-needed'; seconds: number }
+  | { code: 'tn-not-searched' }
   | { code: 'tn-network-too-large'; gates: number; limit: number }
   | { code: 'tn-over-memory'; width: number; bytes: number; budget: number; term: number; terms: number }
   | { code: 'tn-over-time'; seconds: number; budget: number; width: number; log2Flops: number; slices: number; term: number; terms: number };
@@ -201,6 +209,8 @@ export function reasonText(r: Reason): string {
       return `the register has ${fmtInt(r.qubits)} qubits (statevector limit ${r.limit})`;
     case 'tn-not-needed':
       return `tensor network not costed: a method known to finish in about ${fmtSeconds(r.seconds)} is cheaper`;
+    case 'tn-not-searched':
+      return 'tensor-network contraction not costed here: its order search runs with the reference computation';
     case 'tn-network-too-large':
       return `tensor network not searched: a term's light cone holds ${fmtInt(r.gates)} gates (limit ${fmtInt(r.limit)})`;
     case 'tn-over-memory':
@@ -422,6 +432,8 @@ export class Planner {
       for (const t of obs.terms) if (t.factors.length) gates = Math.max(gates, this.coneStats(inst, [t], termKey(t)).gates);
       if (cheapest <= TN_CONSIDER_SECONDS) {
         estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-not-needed', seconds: cheapest }));
+      } else if (!o.tnSearch) {
+        estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-not-searched' }));
       } else if (gates > TN_MAX_CONE_GATES) {
         estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-network-too-large', gates, limit: TN_MAX_CONE_GATES }));
       } else {

@@ -87,7 +87,8 @@ export class ReferenceRunner {
     readonly challenge: ValidatedChallenge,
     private readonly options: ReferenceOptions = {},
   ) {
-    this.planner = new Planner(challenge, options);
+    // the runner costs the tensor network with the order search (off by default in the planner)
+    this.planner = new Planner(challenge, { tnSearch: true, ...options });
   }
 
   plan(target: Target): TargetPlan {
