@@ -429,7 +429,9 @@ export class Planner {
       let cheapest = Infinity;
       for (const e of estimates) if (e.feasible) cheapest = Math.min(cheapest, e.seconds);
       let gates = 0;
-      for (const t of obs.terms) if (t.factors.length) gates = Math.max(gates, this.coneStats(inst, [t], termKey(t)).gates);
+      if (o.tnSearch && cheapest > TN_CONSIDER_SECONDS) {
+        for (const t of obs.terms) if (t.factors.length) gates = Math.max(gates, this.coneStats(inst, [t], termKey(t)).gates);
+      }
       if (cheapest <= TN_CONSIDER_SECONDS) {
         estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-not-needed', seconds: cheapest }));
       } else if (!o.tnSearch) {
