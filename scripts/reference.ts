@@ -1,10 +1,11 @@
 /**
  * `npm run reference -- path/to/challenge.json [--out results.json] [--term-budget N]
- *   [--cone-limit Q] [--seconds-budget S]`
+ *   [--cone-limit Q] [--seconds-budget S] [--tn-memory-gb G]`
  *
  * Validates the challenge, plans every target (shared/physics/planner.ts), computes the exact
  * references (shared/physics/reference.ts) and writes a JSON array, one entry per target:
- *   { targetId, instanceId, params, observableId, value, method, size, unit, wallMs, engineVersion, detail }
+ *   { targetId, instanceId, params, observableId, value, method, size, unit, wallMs, engineVersion, detail,
+ *     width?, flops?, slices? (tensor network), crossCheck?: { method, absDiff } }
  * with value null and a reason where no exact method is feasible. Progress goes to stderr; the
  * JSON goes to --out, or to stdout without it (use `npm run -s reference` so npm's banner stays out
  * of the JSON). Validation errors are printed and exit with 1.
@@ -16,7 +17,7 @@ import type { PlannerOptions } from '../shared/physics/planner';
 
 function usage(msg?: string): never {
   if (msg) console.error(`reference: ${msg}`);
-  console.error('usage: npm run reference -- path/to/challenge.json [--out results.json] [--term-budget N] [--cone-limit Q] [--seconds-budget S]');
+  console.error('usage: npm run reference -- path/to/challenge.json [--out results.json] [--term-budget N] [--cone-limit Q] [--seconds-budget S] [--tn-memory-gb G]');
   process.exit(1);
 }
 
@@ -35,6 +36,7 @@ for (let i = 0; i < args.length; i++) {
   else if (a === '--term-budget') opts.termBudget = num(a);
   else if (a === '--cone-limit') opts.coneQubitLimit = num(a);
   else if (a === '--seconds-budget') opts.secondsBudget = num(a);
+  else if (a === '--tn-memory-gb') opts.tnMemoryBytes = num(a) * 1024 ** 3;
   else if (a === '-h' || a === '--help') usage();
   else if (a.startsWith('--')) usage(`unknown option ${a}`);
   else if (file) usage('give one challenge file');
@@ -77,7 +79,9 @@ plans.forEach((plan, k) => {
     counts.none = (counts.none ?? 0) + 1;
     console.error(`[${k + 1}/${plans.length}] ${target.id}: no exact value (${r.reason})`);
   } else {
-    results.push({ ...base, value: r.value, method: r.method, size: r.size, unit: r.unit, wallMs: Math.round(r.wallMs * 1000) / 1000, engineVersion: r.engineVersion, detail: r.detail });
+    const tn = r.method === 'tensor-network' ? { width: r.width, flops: r.flops, slices: r.slices } : {};
+    const cc = r.crossCheck ? { crossCheck: { method: r.crossCheck.method, absDiff: r.crossCheck.absDiff } } : {};
+    results.push({ ...base, value: r.value, method: r.method, size: r.size, unit: r.unit, wallMs: Math.round(r.wallMs * 1000) / 1000, engineVersion: r.engineVersion, detail: r.detail, ...tn, ...cc });
     counts[r.method] = (counts[r.method] ?? 0) + 1;
     console.error(`[${k + 1}/${plans.length}] ${target.id}: ${r.value} (${r.method}, ${r.size} ${r.unit}, ${r.wallMs.toFixed(1)} ms)`);
   }

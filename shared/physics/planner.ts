@@ -35,34 +35,64 @@ import { compileInstance, compileLattice, type CompiledLattice, type Instance, t
 import { freeFermionCost, freeFermionUnsupportedReason } from './free-fermion';
 import { lightCone } from './light-cone';
 import { cliffordQuarterTurns } from './pauli-propagation';
+import { WASM_MAX_QUBITS } from './statevector';
+import { planTerm, DEFAULT_TN_MEMORY_BYTES } from './tensor-network/index';
 
-export type ExactMethod = 'pauli-propagation' | 'free-fermion' | 'light-cone-statevector' | 'statevector';
+export type ExactMethod = 'pauli-propagation' | 'free-fermion' | 'light-cone-statevector' | 'tensor-network' | 'statevector';
 
 /** Preference order when estimated costs tie. */
-export const METHOD_ORDER: readonly ExactMethod[] = ['pauli-propagation', 'free-fermion', 'light-cone-statevector', 'statevector'];
+export const METHOD_ORDER: readonly ExactMethod[] = ['pauli-propagation', 'free-fermion', 'light-cone-statevector', 'tensor-network', 'statevector'];
 
 export interface PlannerOptions {
   /** largest Pauli-term count accepted for exact propagation (default 1,000,000, ~100 MB) */
   termBudget?: number;
-  /** largest light cone for the light-cone statevector (default 26 qubits = 1 GiB) */
+  /** largest light cone for the light-cone statevector (default 27 qubits = 2 GiB, where the WebAssembly kernel ends) */
   coneQubitLimit?: number;
-  /** largest register for the full statevector (default 26) */
+  /** largest register for the full statevector (default 27) */
   statevectorQubitLimit?: number;
+  /** largest estimated peak memory of one tensor-network slice in bytes (default 2 GiB); wider contractions are sliced */
+  tnMemoryBytes?: number;
+  /**
+   * Run the contraction-order search to cost the tensor network (milliseconds to seconds per
+   * distinct term and step count). Off by default, so a plan on a request path stays fast; the
+   * ReferenceRunner (worker threads, npm run reference) turns it on.
+   */
+  tnSearch?: boolean;
   /** largest estimated time per target in seconds (default 600) */
   secondsBudget?: number;
 }
 
-/** Estimated throughputs of the engines in this repository (single core, JavaScript). */
+/**
+ * Estimated throughputs of the engines in this repository (single core).
+ * STATEVECTOR_RATE: the light-cone statevector on the WebAssembly kernel reaches 3.4e9
+ * amplitude-gate updates/s at 26 qubits on an idle core (PHYSICS.md, measured); measured here
+ * 5.1e8 at 24 qubits and 2.4e8 at 20 qubits with the machine's 2 cores at load 15; 1e9 sits between.
+ * TN_RATE: real flops/s of the tensor-network kernels (8 per complex multiply-add), measured by
+ * bench/tensor-network.bench.ts: 0.8 to 1.4 GFlop/s on its networks at that load (numpy with
+ * OpenBLAS: 1 to 2.4 GFlop/s on the same networks and paths, one thread).
+ */
 export const PROPAGATION_RATE = 1e7; // term-gate updates per second
-export const STATEVECTOR_RATE = 2e8; // amplitude-gate updates per second
+export const STATEVECTOR_RATE = 1e9; // amplitude-gate updates per second
+export const TN_RATE = 7e8; // real flops per second
+/** Tensor-network estimates are computed only when no cheaper method is known to finish within this. */
+export const TN_CONSIDER_SECONDS = 0.5;
+/**
+ * Largest light cone (gates of one term) whose network the order search takes on: the search costs
+ * about a second per thousand tensors, and cones this deep have widths far past any memory budget.
+ */
+export const TN_MAX_CONE_GATES = 1000;
+/** A propagation attempt past its term bound gets this share of the next method's time (at least 1 s). */
+export const ATTEMPT_SHARE = 0.1;
 /** Fixed start-up cost per run (restriction, allocation): statevector methods, the others. */
 export const STATEVECTOR_OVERHEAD_S = 1e-3;
 export const OTHER_OVERHEAD_S = 1e-4;
 
 export const DEFAULT_PLANNER_OPTIONS: Required<PlannerOptions> = {
   termBudget: 1_000_000,
-  coneQubitLimit: 26,
-  statevectorQubitLimit: 26,
+  coneQubitLimit: WASM_MAX_QUBITS,
+  statevectorQubitLimit: WASM_MAX_QUBITS,
+  tnMemoryBytes: DEFAULT_TN_MEMORY_BYTES,
+  tnSearch: false,
   secondsBudget: 600,
 };
 
@@ -70,13 +100,22 @@ export interface MethodEstimate {
   method: ExactMethod;
   /** the method applies and its estimate is within every limit and the time budget */
   feasible: boolean;
-  /** estimated size: Pauli terms, cone qubits, chain sites or register qubits (see unit) */
+  /** estimated size: Pauli terms, cone qubits, chain sites, register qubits or contraction width (see unit) */
   size: number;
-  unit: 'terms' | 'qubits' | 'sites';
+  unit: 'terms' | 'qubits' | 'sites' | 'width';
   /** estimated wall time in seconds (Infinity when not applicable) */
   seconds: number;
-  /** why not feasible (absent when feasible) */
+  /** why not feasible (absent when feasible), as a sentence made by reasonText(why) */
   reason?: string;
+  /** the same, structured: a code and its numbers */
+  why?: Reason;
+  /**
+   * Not known to finish, but worth trying under a cap (exact Pauli propagation past its loose term
+   * bound: run with the term budget and a time cap, abandoned when it overruns)
+   */
+  attempt?: boolean;
+  /** tensor network: width (after slicing), total flops, slices, peak bytes, per term */
+  tn?: { width: number; flops: number; slices: number; memoryBytes: number; terms: { index: number; width: number; flops: number; slices: number; coneQubits: number }[] };
   /** light-cone statevector: one run per term (size is then the widest term cone) */
   perTerm?: boolean;
 }
@@ -106,6 +145,79 @@ export interface TargetPlan {
   clifford: boolean;
   /** every method's estimate, in METHOD_ORDER */
   estimates: MethodEstimate[];
+}
+
+/** Tensor-network cost of one term (from the order search, before any contraction). */
+export interface TnTermCost {
+  width: number;
+  flops: number;
+  slices: number;
+  memoryBytes: number;
+  coneQubits: number;
+  searchSeconds: number;
+}
+
+/** Options of the order search shared by the planner's estimate and the runner (same plan both times). */
+export function tnOptions(o: Required<PlannerOptions>): { memoryBytes: number } {
+  return { memoryBytes: o.tnMemoryBytes };
+}
+
+const nowMs = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
+
+/**
+ * Why a method is not (known to be) feasible: a code and its numbers. reasonText turns one into a
+ * sentence and infeasibleSentence joins them; no other place writes these sentences.
+ */
+export type Reason =
+  | { code: 'term-bound'; log2Terms: number; budget: number; nonClifford: number }
+  | { code: 'over-time'; method: ExactMethod; seconds: number; budget: number; qubits?: number; terms?: number }
+  | { code: 'not-chain'; lattice: string }
+  | { code: 'not-kicked-ising' }
+  | { code: 'free-fermion-unsupported'; text: string }
+  | { code: 'cone-limit'; qubits: number; limit: number; nonClifford: number; widestTerm?: { qubits: number; index: number } }
+  | { code: 'register-limit'; qubits: number; limit: number }
+  | { code: 'tn-not-needed'; seconds: number }
+  | { code: 'tn-not-searched' }
+  | { code: 'tn-network-too-large'; gates: number; limit: number }
+  | { code: 'tn-over-memory'; width: number; bytes: number; budget: number; term: number; terms: number }
+  | { code: 'tn-over-time'; seconds: number; budget: number; width: number; log2Flops: number; slices: number; term: number; terms: number };
+
+export const METHOD_NAMES: Record<ExactMethod, string> = {
+  'pauli-propagation': 'Pauli propagation',
+  'free-fermion': 'free-fermion',
+  'light-cone-statevector': 'light-cone statevector',
+  'tensor-network': 'tensor-network contraction',
+  statevector: 'statevector',
+};
+
+/** The one place where reasons become sentences. */
+export function reasonText(r: Reason): string {
+  switch (r.code) {
+    case 'term-bound':
+      return `Pauli propagation could need up to ${fmtPow2(r.log2Terms)} terms (budget ${fmtInt(r.budget)}) from ${fmtInt(r.nonClifford)} non-Clifford rotations in the light cone`;
+    case 'over-time':
+      return `${METHOD_NAMES[r.method]}${r.qubits !== undefined ? ` on ${fmtInt(r.qubits)} qubits` : ''}${r.terms ? ` per term (${r.terms} terms)` : ''} would take about ${fmtSeconds(r.seconds)} (budget ${fmtSeconds(r.budget)})`;
+    case 'not-chain':
+      return `free-fermion needs an open chain (the lattice is ${LATTICE_NAMES[r.lattice] ?? r.lattice})`;
+    case 'not-kicked-ising':
+      return 'free-fermion needs the kicked-ising family';
+    case 'free-fermion-unsupported':
+      return `free-fermion: ${r.text}`;
+    case 'cone-limit':
+      return `light cone has ${fmtInt(r.qubits)} qubits (limit ${r.limit}) and ${fmtInt(r.nonClifford)} non-Clifford rotations${r.widestTerm ? `, the widest single-term cone ${fmtInt(r.widestTerm.qubits)} qubits (term ${r.widestTerm.index + 1})` : ''}`;
+    case 'register-limit':
+      return `the register has ${fmtInt(r.qubits)} qubits (statevector limit ${r.limit})`;
+    case 'tn-not-needed':
+      return `tensor network not costed: a method known to finish in about ${fmtSeconds(r.seconds)} is cheaper`;
+    case 'tn-not-searched':
+      return 'tensor-network contraction not costed here: its order search runs with the reference computation';
+    case 'tn-network-too-large':
+      return `tensor network not searched: a term's light cone holds ${fmtInt(r.gates)} gates (limit ${fmtInt(r.limit)})`;
+    case 'tn-over-memory':
+      return `tensor-network contraction${r.term >= 0 ? ` of term ${r.term + 1} of ${r.terms}` : ''} has width ${r.width} even after slicing: about ${fmtBytes(r.bytes)} (budget ${fmtBytes(r.budget)})`;
+    case 'tn-over-time':
+      return `tensor-network contraction${r.term >= 0 ? ` of term ${r.term + 1} of ${r.terms}` : ''} has width ${r.width}${r.slices > 1 ? ` over ${fmtInt(r.slices)} slices` : ''} and 2^${r.log2Flops.toFixed(1)} flops: about ${fmtSeconds(r.seconds)} in all (budget ${fmtSeconds(r.budget)})`;
+  }
 }
 
 interface Csr {
@@ -224,32 +336,38 @@ export class Planner {
     const totalGates = this.totalGates(inst);
     const estimates: MethodEstimate[] = [];
 
-    // Pauli propagation
+    const mk = (method: ExactMethod, size: number, unit: MethodEstimate['unit'], seconds: number, why?: Reason, extra: Partial<MethodEstimate> = {}): MethodEstimate => ({
+      method, feasible: !why, size, unit, seconds, ...extra, ...(why ? { why, reason: reasonText(why) } : {}),
+    });
+
+    // Pauli propagation: known to fit when the term bound is within the budget; otherwise attempted
+    // under the term budget and a time cap (the bound is loose: often 4x to hundreds of times high)
+    let propagation: MethodEstimate;
     {
       // one propagation per term on its own cone (reference.ts does the same), so the bounds add;
       // at a Clifford instance every term stays one string and the work is the cone's gate count
       const { log2Terms, work } = this.observableBound(inst, obs);
       const terms = 2 ** log2Terms;
       const seconds = OTHER_OVERHEAD_S + work / PROPAGATION_RATE;
-      const size = Math.round(terms);
-      let reason: string | undefined;
       if (terms > o.termBudget) {
-        reason = `Pauli propagation could need up to ${fmtPow2(log2Terms)} terms (budget ${fmtInt(o.termBudget)}) from ${fmtInt(union.nonClifford)} non-Clifford rotations in the light cone`;
-      } else if (seconds > o.secondsBudget) reason = `Pauli propagation would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
-      estimates.push({ method: 'pauli-propagation', feasible: !reason, size, unit: 'terms', seconds, ...(reason ? { reason } : {}) });
+        const why: Reason = { code: 'term-bound', log2Terms, budget: o.termBudget, nonClifford: union.nonClifford };
+        propagation = mk('pauli-propagation', o.termBudget, 'terms', seconds, why, { attempt: true });
+      } else if (seconds > o.secondsBudget) propagation = mk('pauli-propagation', Math.round(terms), 'terms', seconds, { code: 'over-time', method: 'pauli-propagation', seconds, budget: o.secondsBudget });
+      else propagation = mk('pauli-propagation', Math.round(terms), 'terms', seconds);
+      estimates.push(propagation);
     }
 
     // free-fermion
     {
       const spec = this.challenge.spec;
-      let reason: string | undefined;
+      let why: Reason | undefined;
       let seconds = Infinity;
       let size = 0;
-      if (spec.lattice.kind !== 'chain') reason = `free-fermion needs an open chain (the lattice is ${LATTICE_NAMES[spec.lattice.kind]})`;
-      else if (spec.circuit.family !== 'kicked-ising' || inst.params.family !== 'kicked-ising') reason = 'free-fermion needs the kicked-ising family';
+      if (spec.lattice.kind !== 'chain') why = { code: 'not-chain', lattice: spec.lattice.kind };
+      else if (spec.circuit.family !== 'kicked-ising' || inst.params.family !== 'kicked-ising') why = { code: 'not-kicked-ising' };
       else {
-        const why = freeFermionUnsupportedReason(n, obs);
-        if (why) reason = `free-fermion: ${why}`;
+        const text = freeFermionUnsupportedReason(n, obs);
+        if (text) why = { code: 'free-fermion-unsupported', text };
         else {
           const p = inst.params;
           // the cost depends on the chain, the steps and the observable, not on the angles
@@ -259,15 +377,15 @@ export class Planner {
             cost = freeFermionCost({ n, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
             this.ffCostCache.set(key, cost);
           }
-          if (!cost) reason = 'free-fermion: not supported for this instance';
+          if (!cost) why = { code: 'free-fermion-unsupported', text: 'not supported for this instance' };
           else {
             seconds = OTHER_OVERHEAD_S + cost.seconds;
             size = freeFermionSites(n, p.steps, obs);
-            if (seconds > o.secondsBudget) reason = `free-fermion would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+            if (seconds > o.secondsBudget) why = { code: 'over-time', method: 'free-fermion', seconds, budget: o.secondsBudget };
           }
         }
       }
-      estimates.push({ method: 'free-fermion', feasible: !reason, size, unit: 'sites', seconds, ...(reason ? { reason } : {}) });
+      estimates.push(mk('free-fermion', size, 'sites', seconds, why));
     }
 
     // light-cone statevector: one run on the union cone, or one run per term when the union is
@@ -277,40 +395,71 @@ export class Planner {
       let seconds = c > o.coneQubitLimit ? Infinity : STATEVECTOR_OVERHEAD_S + (2 ** c * Math.max(1, union.gates + obs.terms.length)) / STATEVECTOR_RATE;
       let size = c;
       let perTerm = false;
-      let widest = c;
+      let widest = { qubits: c, index: -1 };
       if ((c > o.coneQubitLimit || seconds > o.secondsBudget) && obs.terms.length > 1) {
         const pt = this.perTermCones(inst, obs);
-        widest = pt.maxQubits;
+        widest = { qubits: pt.maxQubits, index: pt.widestIndex };
         if (pt.maxQubits <= o.coneQubitLimit && pt.seconds < seconds) {
           seconds = pt.seconds;
           size = pt.maxQubits;
           perTerm = true;
         }
       }
-      let reason: string | undefined;
+      let why: Reason | undefined;
       if (size > o.coneQubitLimit) {
-        reason = `light cone has ${fmtInt(c)} qubits (limit ${o.coneQubitLimit})`;
-        if (obs.terms.length > 1) reason += `, the widest single-term cone ${fmtInt(widest)}`;
+        why = { code: 'cone-limit', qubits: c, limit: o.coneQubitLimit, nonClifford: union.nonClifford, ...(obs.terms.length > 1 ? { widestTerm: widest } : {}) };
       } else if (seconds > o.secondsBudget) {
-        reason = `light-cone statevector on ${size} qubits${perTerm ? ` per term (${obs.terms.length} terms)` : ''} would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
+        why = { code: 'over-time', method: 'light-cone-statevector', seconds, budget: o.secondsBudget, qubits: size, ...(perTerm ? { terms: obs.terms.length } : {}) };
       }
-      estimates.push({ method: 'light-cone-statevector', feasible: !reason, size, unit: 'qubits', seconds, ...(perTerm ? { perTerm } : {}), ...(reason ? { reason } : {}) });
+      estimates.push(mk('light-cone-statevector', size, 'qubits', seconds, why, perTerm ? { perTerm } : {}));
     }
 
     // full statevector
     {
       const seconds = n > o.statevectorQubitLimit ? Infinity : STATEVECTOR_OVERHEAD_S + (2 ** n * Math.max(1, totalGates + obs.terms.length)) / STATEVECTOR_RATE;
-      let reason: string | undefined;
-      if (n > o.statevectorQubitLimit) reason = `the register has ${fmtInt(n)} qubits (statevector limit ${o.statevectorQubitLimit})`;
-      else if (seconds > o.secondsBudget) reason = `statevector on ${n} qubits would take about ${fmtSeconds(seconds)} (budget ${fmtSeconds(o.secondsBudget)})`;
-      estimates.push({ method: 'statevector', feasible: !reason, size: n, unit: 'qubits', seconds, ...(reason ? { reason } : {}) });
+      let why: Reason | undefined;
+      if (n > o.statevectorQubitLimit) why = { code: 'register-limit', qubits: n, limit: o.statevectorQubitLimit };
+      else if (seconds > o.secondsBudget) why = { code: 'over-time', method: 'statevector', seconds, budget: o.secondsBudget, qubits: n };
+      estimates.push(mk('statevector', n, 'qubits', seconds, why));
     }
+
+    // tensor network, term by term: costed from the order search (width, flops) only when nothing
+    // cheaper is known to finish quickly (the search itself takes milliseconds to seconds)
+    {
+      let cheapest = Infinity;
+      for (const e of estimates) if (e.feasible) cheapest = Math.min(cheapest, e.seconds);
+      let gates = 0;
+      if (o.tnSearch && cheapest > TN_CONSIDER_SECONDS) {
+        for (const t of obs.terms) if (t.factors.length) gates = Math.max(gates, this.coneStats(inst, [t], termKey(t)).gates);
+      }
+      if (cheapest <= TN_CONSIDER_SECONDS) {
+        estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-not-needed', seconds: cheapest }));
+      } else if (!o.tnSearch) {
+        estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-not-searched' }));
+      } else if (gates > TN_MAX_CONE_GATES) {
+        estimates.push(mk('tensor-network', 0, 'width', Infinity, { code: 'tn-network-too-large', gates, limit: TN_MAX_CONE_GATES }));
+      } else {
+        const tn = this.tnCost(inst, obs);
+        const seconds = tn.seconds;
+        let why: Reason | undefined;
+        const over = tn.terms.find((t) => t.memoryBytes > o.tnMemoryBytes);
+        if (over) {
+          why = { code: 'tn-over-memory', width: over.width, bytes: over.memoryBytes, budget: o.tnMemoryBytes, term: obs.terms.length > 1 ? over.index : -1, terms: obs.terms.length };
+        } else if (seconds > o.secondsBudget) {
+          const worst = tn.terms.reduce((m, t) => (t.flops > m.flops ? t : m), tn.terms[0]);
+          why = { code: 'tn-over-time', seconds, budget: o.secondsBudget, width: worst.width, log2Flops: Math.log2(worst.flops), slices: worst.slices, term: obs.terms.length > 1 ? worst.index : -1, terms: obs.terms.length };
+        }
+        estimates.push(mk('tensor-network', tn.width, 'width', seconds, why, { tn: { width: tn.width, flops: tn.flops, slices: tn.slices, memoryBytes: tn.memoryBytes, terms: tn.terms } }));
+      }
+    }
+    // keep METHOD_ORDER
+    estimates.sort((x, y) => METHOD_ORDER.indexOf(x.method) - METHOD_ORDER.indexOf(y.method));
 
     // Cheapest feasible method; at a Clifford instance propagation is taken whenever feasible: its
     // value is a signed sum of coefficients, with no rounding from rotations.
     let best: MethodEstimate | null = null;
     for (const e of estimates) if (e.feasible && (!best || e.seconds < best.seconds)) best = e;
-    if (clifford && estimates[0].feasible) best = estimates[0];
+    if (clifford && propagation.feasible) best = propagation;
     const cone: ConeStats = union;
     if (best) {
       return {
@@ -322,7 +471,7 @@ export class Planner {
     return {
       targetId: target.id, instanceId: inst.id, observableId: obs.id,
       method: null, size: null, unit: null, estimatedSeconds: null,
-      reason: infeasibleSentence(estimates, union, clifford, o),
+      reason: infeasibleSentence(estimates),
       cone, clifford, estimates,
     };
   }
@@ -396,26 +545,68 @@ export class Planner {
   private readonly ffCostCache = new Map<string, ReturnType<typeof freeFermionCost>>();
   private readonly boundCache = new Map<string, { log2Terms: number; work: number }>();
 
-  private readonly perTermCache = new Map<string, { maxQubits: number; seconds: number }>();
+  private readonly perTermCache = new Map<string, { maxQubits: number; widestIndex: number; seconds: number }>();
 
-  /** Widest single-term light cone and the estimated time of one statevector run per term. */
-  perTermCones(inst: Instance, obs: ObservableSpec): { maxQubits: number; seconds: number } {
+  /** Widest single-term light cone (and its term index) and the estimated time of one statevector run per term. */
+  perTermCones(inst: Instance, obs: ObservableSpec): { maxQubits: number; widestIndex: number; seconds: number } {
     const p = inst.params;
     const key = p.family === 'kicked-ising' ? `${p.steps}|${obs.id}` : `g|${obs.id}`;
     let r = this.perTermCache.get(key);
     if (!r) {
       let maxQubits = 0;
+      let widestIndex = -1;
       let seconds = 0;
-      for (const t of obs.terms) {
-        if (t.factors.length === 0) continue;
+      obs.terms.forEach((t, k) => {
+        if (t.factors.length === 0) return;
         const cs = this.coneStats(inst, [t], termKey(t));
-        maxQubits = Math.max(maxQubits, cs.qubits);
+        if (cs.qubits > maxQubits) {
+          maxQubits = cs.qubits;
+          widestIndex = k;
+        }
         seconds += STATEVECTOR_OVERHEAD_S + (2 ** cs.qubits * (cs.gates + 1)) / STATEVECTOR_RATE;
-      }
-      r = { maxQubits, seconds };
+      });
+      r = { maxQubits, widestIndex, seconds };
       this.perTermCache.set(key, r);
     }
     return r;
+  }
+
+  private readonly tnCache = new Map<string, TnTermCost>();
+
+  /**
+   * Tensor-network cost of an observable, term by term: the order search runs on each term's
+   * light-cone network (the structure does not depend on the angles, so the result is cached per
+   * (steps, term)); seconds = search time + flops / TN_RATE.
+   */
+  tnCost(inst: Instance, obs: ObservableSpec): { width: number; flops: number; slices: number; memoryBytes: number; seconds: number; terms: (TnTermCost & { index: number })[] } {
+    const terms: (TnTermCost & { index: number })[] = [];
+    let seconds = 0, width = 0, flops = 0, slices = 1, memoryBytes = 0;
+    obs.terms.forEach((t, index) => {
+      if (t.factors.length === 0) return;
+      const p = inst.params;
+      const key = `${p.family === 'kicked-ising' ? p.steps : 'g'}|${termKey(t)}`;
+      let c = this.tnCache.get(key);
+      if (!c) {
+        const sub = this.restrict(inst, { id: `${obs.id}#${index}`, terms: [{ coef: 1, factors: t.factors }] });
+        const t0 = nowMs();
+        // one plain greedy run first: a network 1000 times over the time budget (or over the memory
+        // budget even after slicing) stops there; otherwise the runner's own full search, so the
+        // estimate is the plan that will run (same seed, same options)
+        const quick = planTerm(sub.circuit, sub.observable.terms[0].factors, { ...tnOptions(this.options), restarts: 1, reconfigureK: 0 });
+        const hopeless = quick.flops / TN_RATE > 1000 * this.options.secondsBudget || quick.memoryBytes > this.options.tnMemoryBytes;
+        const plan = hopeless ? quick : planTerm(sub.circuit, sub.observable.terms[0].factors, tnOptions(this.options));
+        c = { width: plan.width, flops: plan.flops, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
+        if (this.tnCache.size > 4096) this.tnCache.clear();
+        this.tnCache.set(key, c);
+      }
+      terms.push({ ...c, index });
+      seconds += OTHER_OVERHEAD_S + c.searchSeconds + c.flops / TN_RATE;
+      width = Math.max(width, c.width);
+      flops += c.flops;
+      slices = Math.max(slices, c.slices);
+      memoryBytes = Math.max(memoryBytes, c.memoryBytes);
+    });
+    return { width, flops, slices, memoryBytes, seconds, terms };
   }
 
   /** Sum of termBound over the observable's terms, cached per (steps, Clifford flags, observable). */
@@ -793,22 +984,22 @@ function termKey(t: PauliTerm): string {
   return s;
 }
 
-function infeasibleSentence(est: MethodEstimate[], cone: ConeStats, clifford: boolean, o: Required<PlannerOptions>): string {
+function infeasibleSentence(est: MethodEstimate[]): string {
   const by = (m: ExactMethod) => est.find((e) => e.method === m) as MethodEstimate;
   const parts: string[] = [];
-  const lc = by('light-cone-statevector');
+  const lc = by('light-cone-statevector').why;
   const pp = by('pauli-propagation');
-  if (cone.qubits > o.coneQubitLimit && !clifford) {
-    parts.push(`light cone has ${fmtInt(cone.qubits)} qubits (limit ${o.coneQubitLimit}) and ${fmtInt(cone.nonClifford)} non-Clifford rotations`);
-    if (pp.reason && !/non-Clifford rotations in the light cone$/.test(pp.reason)) parts.push(pp.reason);
-  } else {
-    if (lc.reason) parts.push(lc.reason);
-    if (pp.reason) parts.push(pp.reason);
-  }
-  const ff = by('free-fermion');
-  if (ff.reason) parts.push(/needs an open chain/.test(ff.reason) ? 'not a chain' : ff.reason);
-  const sv = by('statevector');
-  if (sv.reason && !(cone.qubits > o.coneQubitLimit && /register has/.test(sv.reason))) parts.push(sv.reason);
+  const coneWide = lc?.code === 'cone-limit';
+  if (lc) parts.push(reasonText(lc));
+  // the cone sentence already counts the non-Clifford rotations
+  if (pp.why && !(coneWide && pp.why.code === 'term-bound')) parts.push(reasonText(pp.why));
+  if (pp.attempt) parts.push(`exact Pauli propagation is attempted under the budget of ${fmtInt(pp.size)} terms`);
+  const tn = by('tensor-network').why;
+  if (tn && tn.code !== 'tn-not-needed') parts.push(reasonText(tn));
+  const ff = by('free-fermion').why;
+  if (ff) parts.push(ff.code === 'not-chain' ? 'not a chain' : reasonText(ff));
+  const sv = by('statevector').why;
+  if (sv && !(coneWide && sv.code === 'register-limit')) parts.push(reasonText(sv));
   return parts.join('; ');
 }
 
@@ -837,6 +1028,13 @@ export function fmtInt(x: number): string {
 function fmtPow2(log2: number): string {
   if (log2 <= 20) return fmtInt(2 ** log2);
   return `2^${Math.round(log2)}`;
+}
+
+export function fmtBytes(b: number): string {
+  if (b < 1024 ** 2) return `${(b / 1024).toPrecision(2)} KiB`;
+  if (b < 1024 ** 3) return `${(b / 1024 ** 2).toPrecision(2)} MiB`;
+  if (b < 1024 ** 4) return `${(b / 1024 ** 3).toPrecision(2)} GiB`;
+  return `2^${Math.log2(b).toFixed(0)} bytes`;
 }
 
 export function fmtSeconds(s: number): string {

@@ -11,10 +11,38 @@ import { compileInstance, type Instance, type Target } from './compile';
 import { freeFermionExpectation } from './free-fermion';
 import { lightConeStatevectorValue } from './light-cone-statevector';
 import { propagate } from './pauli-propagation';
-import { freeFermionSites, Planner, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
+import { freeFermionSites, METHOD_NAMES, Planner, tnOptions, ATTEMPT_SHARE, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
 import { statevectorExpectation } from './statevector';
+import { contractPlan, planTerm } from './tensor-network/index';
 
-export const ENGINE_VERSION = 'parallax-engine 0.1.0';
+/** 0.2.0: the tensor-network rung, cross-checks recorded with references, recalibrated planner. */
+export const ENGINE_VERSION = 'parallax-engine 0.2.0';
+
+/** Cross-check with a second exact method when the light cone has at most this many qubits. */
+export const CROSS_CHECK_MAX_QUBITS = 20;
+/** ... or when the second method is estimated to take at most this long (seconds). */
+export const CROSS_CHECK_SECONDS = 5;
+
+/** Thrown from a progress callback to stop a method that overran its time cap. */
+export class OverrunError extends Error {
+  constructor(readonly method: ExactMethod, readonly capSeconds: number) {
+    super(`${METHOD_NAMES[method]} stopped after its cap of ${capSeconds.toPrecision(2)} s`);
+  }
+}
+
+export interface CrossCheck {
+  method: ExactMethod;
+  value: number;
+  absDiff: number;
+  wallMs: number;
+}
+
+/** Run statistics of a method (tensor network: width, flops, slices). */
+export interface RunStats {
+  width?: number;
+  flops?: number;
+  slices?: number;
+}
 
 export interface ReferenceValue {
   value: number;
@@ -26,6 +54,12 @@ export interface ReferenceValue {
   engineVersion: string;
   /** one plain sentence of provenance, e.g. "light-cone statevector on 19 of 1017 qubits" */
   detail: string;
+  /** tensor network: width (log2 of the largest intermediate per slice), total flops, slices */
+  width?: number;
+  flops?: number;
+  slices?: number;
+  /** a second exact method run on the same target, and the agreement */
+  crossCheck?: CrossCheck;
 }
 
 export interface ReferenceMissing {
@@ -53,36 +87,87 @@ export class ReferenceRunner {
     readonly challenge: ValidatedChallenge,
     private readonly options: ReferenceOptions = {},
   ) {
-    this.planner = new Planner(challenge, options);
+    // the runner costs the tensor network with the order search (off by default in the planner)
+    this.planner = new Planner(challenge, { tnSearch: true, ...options });
   }
 
   plan(target: Target): TargetPlan {
     return this.planner.plan(target);
   }
 
-  /** Plan (unless a plan is given) and compute one target. */
+  /**
+   * Plan (unless a plan is given) and compute one target: methods known to finish, cheapest first;
+   * before them, when the cheapest is slow or there is none, exact Pauli propagation past its loose
+   * bound is attempted under the term budget and a time cap. A method that overruns its cap is
+   * stopped and the next one tried. Then, where a second exact method is cheap, it runs too and the
+   * agreement is recorded (crossCheck).
+   */
   run(target: Target, plan: TargetPlan = this.planner.plan(target)): ReferenceResult {
-    const feasible = plan.estimates.filter((e) => e.feasible).sort((a, b) => a.seconds - b.seconds);
-    if (!feasible.length) return { value: null, reason: plan.reason ?? 'no exact method is feasible', engineVersion: ENGINE_VERSION };
+    const o = this.planner.options;
+    const certain = plan.estimates.filter((e) => e.feasible).sort((a, b) => a.seconds - b.seconds);
+    const attempts = plan.estimates.filter((e) => e.attempt);
+    const order: { est: MethodEstimate; cap: number }[] = [];
+    const cheapest = certain.length ? certain[0].seconds : Infinity;
+    for (const est of attempts) {
+      if (cheapest <= 1) continue;
+      order.push({ est, cap: Math.min(o.secondsBudget, Math.max(1, ATTEMPT_SHARE * (Number.isFinite(cheapest) ? cheapest : o.secondsBudget))) });
+    }
+    certain.forEach((est, k) => {
+      // the last method gets the whole budget; others are stopped well past their estimate
+      const last = k === certain.length - 1;
+      order.push({ est, cap: last ? 2 * o.secondsBudget : Math.min(2 * o.secondsBudget, Math.max(10, 4 * est.seconds)) });
+    });
+    if (!order.length) return { value: null, reason: plan.reason ?? 'no exact method is feasible', engineVersion: ENGINE_VERSION };
     const inst = this.planner.instance(target.instanceId);
     const obs = this.planner.observable(target.observableId);
     const failures: string[] = [];
-    for (const est of feasible) {
+    for (const { est, cap } of order) {
       const t0 = now();
       try {
-        const r = this.runMethod(est, inst, obs);
+        const r = this.runMethod(est, inst, obs, cap);
         if (r.ok) {
+          const wallMs = now() - t0;
+          const crossCheck = this.crossCheck(est.method, r.value, plan, inst, obs);
+          const stats: RunStats = r.stats ?? {};
           return {
-            value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION,
-            detail: this.detail(est.method, r, plan, obs),
+            value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs, engineVersion: ENGINE_VERSION,
+            detail: this.detail(est.method, r, plan, obs, crossCheck), ...stats, ...(crossCheck ? { crossCheck } : {}),
           };
         }
-        failures.push(`${est.method}: ${r.reason}`);
+        failures.push(`${METHOD_NAMES[est.method]}: ${r.reason}`);
       } catch (e) {
-        failures.push(`${est.method} failed: ${e instanceof Error ? e.message : String(e)}`);
+        failures.push(`${METHOD_NAMES[est.method]}${e instanceof OverrunError ? ' overran' : ' failed'}: ${e instanceof Error ? e.message : String(e)}`);
       }
     }
-    return { value: null, reason: failures.join('; '), engineVersion: ENGINE_VERSION };
+    const why = plan.reason ? `${plan.reason}; ` : '';
+    return { value: null, reason: `${why}${failures.join('; ')}`, engineVersion: ENGINE_VERSION };
+  }
+
+  /**
+   * A second exact method for the same target, when one is cheap: the tensor network when the
+   * chosen method was another and the cone has at most CROSS_CHECK_MAX_QUBITS qubits; otherwise
+   * the cheapest other method known to finish within CROSS_CHECK_SECONDS; for a tensor-network
+   * reference without one, exact propagation under a short cap (it finishes at Clifford points).
+   */
+  private crossCheck(method: ExactMethod, value: number, plan: TargetPlan, inst: Instance, obs: ObservableSpec): CrossCheck | undefined {
+    const others = plan.estimates.filter((e) => e.feasible && e.method !== method && e.seconds <= CROSS_CHECK_SECONDS).sort((a, b) => a.seconds - b.seconds);
+    let pick: Pick<MethodEstimate, 'method' | 'perTerm'> | undefined;
+    let cap = CROSS_CHECK_SECONDS;
+    if (method !== 'tensor-network' && plan.cone.qubits <= CROSS_CHECK_MAX_QUBITS) pick = { method: 'tensor-network' };
+    else if (others.length) pick = others[0];
+    else if (method === 'tensor-network' && plan.estimates.some((e) => e.method === 'pauli-propagation' && e.attempt)) {
+      pick = { method: 'pauli-propagation' };
+      cap = 2;
+    }
+    if (!pick) return undefined;
+    const t0 = now();
+    try {
+      const r = this.runMethod(pick, inst, obs, cap);
+      if (!r.ok) return undefined;
+      return { method: pick.method, value: r.value, absDiff: Math.abs(r.value - value), wallMs: now() - t0 };
+    } catch {
+      return undefined;
+    }
   }
 
   /**
@@ -94,8 +179,18 @@ export class ReferenceRunner {
     est: Pick<MethodEstimate, 'method' | 'perTerm'>,
     inst: Instance,
     obs: ObservableSpec,
-  ): { ok: true; value: number; size: number; perTerm?: boolean } | { ok: false; reason: string } {
-    const progress = this.options.onProgress;
+    capSeconds = Infinity,
+  ): { ok: true; value: number; size: number; perTerm?: boolean; stats?: RunStats } | { ok: false; reason: string } {
+    const userProgress = this.options.onProgress;
+    const deadline = now() + capSeconds * 1000;
+    const check = () => {
+      if (now() > deadline) throw new OverrunError(est.method, capSeconds);
+    };
+    // every method reports progress often; the cap is checked there
+    const progress = (f: number) => {
+      check();
+      userProgress?.(f);
+    };
     const identityOnly = obs.terms.every((t) => t.factors.length === 0);
     if (identityOnly) {
       let v = 0;
@@ -120,12 +215,12 @@ export class ReferenceRunner {
           const sub = this.planner.restrict(inst, one);
           const r = propagate(sub.circuit, sub.observable, {
             maxTerms: budget,
-            onProgress: progress && obs.terms.length === 1 ? (d, t) => progress(d / t) : undefined,
+            onProgress: (d, t) => (obs.terms.length === 1 ? progress(d / t) : check()),
           });
-          if (!r.exact) return { ok: false, reason: `term ${k} outgrew the term budget of ${budget} terms (value not exact)` };
+          if (!r.exact) return { ok: false, reason: `term ${k + 1} outgrew the term budget of ${budget} terms (value not exact)` };
           value += r.value;
           size += r.peakTerms;
-          if (progress && obs.terms.length > 1) progress((k + 1) / obs.terms.length);
+          if (obs.terms.length > 1) progress((k + 1) / obs.terms.length);
         }
         return { ok: true, value, size };
       }
@@ -143,7 +238,7 @@ export class ReferenceRunner {
         if (sub && (sub.circuit.nQubits <= limit || obs.terms.length === 1)) {
           const r = lightConeStatevectorValue(sub.circuit, sub.observable, {
             maxQubits: limit,
-            onProgress: progress ? (d, t) => progress(d / t) : undefined,
+            onProgress: (d, t) => progress(d / t),
           });
           return { ok: true, value: r.value, size: sub.circuit.nQubits };
         }
@@ -157,8 +252,8 @@ export class ReferenceRunner {
           }
           const one = this.planner.restrict(inst, { id: `${obs.id}#${k}`, terms: [{ coef: 1, factors: term.factors }] });
           widest = Math.max(widest, one.circuit.nQubits);
-          value += term.coef * lightConeStatevectorValue(one.circuit, one.observable, { maxQubits: limit }).value;
-          progress?.((k + 1) / obs.terms.length);
+          value += term.coef * lightConeStatevectorValue(one.circuit, one.observable, { maxQubits: limit, onProgress: () => check() }).value;
+          progress((k + 1) / obs.terms.length);
         });
         return { ok: true, value, size: widest, perTerm: true };
       }
@@ -166,26 +261,54 @@ export class ReferenceRunner {
         const circ = this.circuit(inst);
         const r = statevectorExpectation(circ, obs, {
           maxQubits: this.planner.options.statevectorQubitLimit,
-          onProgress: progress ? (d, t) => progress(d / t) : undefined,
+          onProgress: (d, t) => progress(d / t),
         });
         return { ok: true, value: r.value, size: circ.nQubits };
+      }
+      case 'tensor-network': {
+        // term by term on each term's light cone, with the planner's search options (same plan)
+        let value = 0;
+        const stats = { width: 0, flops: 0, slices: 1 };
+        let widestCone = 0;
+        obs.terms.forEach((term, k) => {
+          if (term.factors.length === 0) {
+            value += term.coef;
+            return;
+          }
+          const one = this.planner.restrict(inst, { id: `${obs.id}#${k}`, terms: [{ coef: 1, factors: term.factors }] });
+          const plan = planTerm(one.circuit, one.observable.terms[0].factors, tnOptions(this.planner.options));
+          check();
+          const [re] = contractPlan(plan, { onStep: check });
+          value += term.coef * re;
+          stats.width = Math.max(stats.width, plan.width);
+          stats.flops += plan.flops;
+          stats.slices = Math.max(stats.slices, plan.slices);
+          widestCone = Math.max(widestCone, plan.coneQubits);
+          progress((k + 1) / obs.terms.length);
+        });
+        return { ok: true, value, size: stats.width, stats, perTerm: obs.terms.length > 1 };
       }
     }
   }
 
-  private detail(method: ExactMethod, r: { size: number; perTerm?: boolean }, plan: TargetPlan, obs: ObservableSpec): string {
+  private detail(method: ExactMethod, r: { size: number; perTerm?: boolean; stats?: RunStats }, plan: TargetPlan, obs: ObservableSpec, cc?: CrossCheck): string {
     const n = this.challenge.nQubits;
     const terms = obs.terms.length;
     const each = terms > 1 ? `, one run per term (${terms} terms)` : '';
+    const check = cc ? `; cross-checked by ${METHOD_NAMES[cc.method]}, |diff| ${cc.absDiff.toExponential(0)}` : '';
     switch (method) {
       case 'pauli-propagation':
-        return `exact Pauli propagation${plan.clifford ? ' at a Clifford point (no branching)' : ''}, no truncation, ${r.size} term${r.size === 1 ? '' : 's'} in all${each}`;
+        return `exact Pauli propagation${plan.clifford ? ' at a Clifford point (no branching)' : ''}, no truncation, ${r.size} term${r.size === 1 ? '' : 's'} in all${each}${check}`;
       case 'free-fermion':
-        return `free-fermion (Majorana covariance) on sub-chains of up to ${r.size} of ${n} sites`;
+        return `free-fermion (Majorana covariance) on sub-chains of up to ${r.size} of ${n} sites${check}`;
       case 'light-cone-statevector':
-        return `light-cone statevector on ${r.size} of ${n} qubits${r.perTerm ? each : ''}`;
+        return `light-cone statevector on ${r.size} of ${n} qubits${r.perTerm ? each : ''}${check}`;
+      case 'tensor-network': {
+        const s = r.stats ?? {};
+        return `tensor-network contraction of the light cone, width ${s.width}, 2^${Math.log2(Math.max(1, s.flops ?? 1)).toFixed(1)} flops${(s.slices ?? 1) > 1 ? `, ${s.slices} slices` : ''}${each}${check}`;
+      }
       case 'statevector':
-        return `full statevector on ${n} qubits`;
+        return `full statevector on ${n} qubits${check}`;
     }
   }
 

@@ -1,0 +1,212 @@
+/**
+ * Exact expectation values <0...0| U^dag O U |0...0> by tensor-network contraction (the third rung
+ * of the exact methods, after the statevector and the light-cone statevector; PHYSICS.md "Exact
+ * tensor-network contraction").
+ *
+ * For each Pauli term of O: restrict the circuit to the term's backward light cone (light-cone.ts),
+ * build the closed network (network.ts: diagonal gates on shared wire indices, rank
+ * simplification), search a contraction order (path.ts: seeded greedy restarts plus subtree
+ * reconfiguration), choose sliced indices so the widest intermediate fits the memory budget, and
+ * contract. Everything about the cost (width, flops, memory, slices) is known from `planTerm`
+ * before any contraction runs. Slices are independent: `contractSlice(plan, i)` computes slice i of
+ * plan.slices and the value is the sum over i, so slices can run on worker threads or as separate
+ * jobs (the plan is plain data: arrays and typed arrays, structured-clone safe).
+ *
+ * No framework or node: imports.
+ */
+import type { CompiledCircuit, ObservableSpec, PauliFactor } from '../circuit';
+import { lightCone } from '../light-cone';
+import { contractPair, pairLayout, sliceTensor, type Tensor } from './kernels';
+import { buildNetwork, simplifyNetwork } from './network';
+import { chooseSlices, searchOrder, treeCost, type SearchOptions, type TreeCost } from './path';
+
+export { contractPair, gemmSplit, pairLayout, permuteSplit, type Tensor } from './kernels';
+export { buildNetwork, simplifyNetwork, type Network } from './network';
+export { greedyTree, reconfigure, rng, searchOrder, treeCost, chooseSlices, type ContractionTree, type TreeCost } from './path';
+
+/** Most indices sliced in one plan (2^16 slices). */
+export const MAX_SLICED = 16;
+
+/** Default memory budget for one contraction: 2 GiB (width about 26 after the scratch copies). */
+export const DEFAULT_TN_MEMORY_BYTES = 2 * 1024 ** 3;
+
+export interface TnOptions extends SearchOptions {
+  /** largest estimated peak bytes of one slice (default DEFAULT_TN_MEMORY_BYTES) */
+  memoryBytes?: number;
+}
+
+export interface TnTermPlan {
+  /** leaf tensors after light-cone restriction and rank simplification */
+  leaves: Tensor[];
+  nLegs: number;
+  /** SSA contraction steps: step s contracts ids [a, b] into id leaves.length + s */
+  pairs: [number, number][];
+  /** legs summed at each step (hyperedges close only when their last holder is reached) */
+  sumLegs: number[][];
+  /** sliced legs; slice i fixes sliced[j] to bit j of i */
+  sliced: number[];
+  slices: number;
+  /** width per slice, total flops over all slices, peak bytes of one slice */
+  width: number;
+  flops: number;
+  memoryBytes: number;
+  /** the scalar collected during simplification */
+  scalar: [number, number];
+  /** light-cone qubits of the term */
+  coneQubits: number;
+  /** best width over the plain greedy restarts (for the bench's order-search check) */
+  greedyWidth: number;
+}
+
+function memoryWidth(bytes: number): number {
+  // a step holds two inputs, the output (interleaved) and split copies: about 6 x 16 x 2^width bytes
+  return Math.max(1, Math.floor(Math.log2(bytes / 96)));
+}
+
+/** Plan one Pauli string on a circuit (the circuit is restricted to its light cone first). */
+export function planTerm(circuit: CompiledCircuit, factors: readonly PauliFactor[], opts: TnOptions = {}): TnTermPlan {
+  const lc = lightCone(circuit, factors);
+  const local = factors.map((f) => ({ qubit: lc.toLocal[f.qubit], op: f.op }));
+  return planNetwork(lc.circuit, local, opts);
+}
+
+/** Plan a Pauli string on a circuit already restricted to its light cone. */
+export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFactor[], opts: TnOptions = {}): TnTermPlan {
+  const net = simplifyNetwork(buildNetwork(circuit, factors));
+  const leaves = net.tensors;
+  const legs = leaves.map((t) => t.legs);
+  const maxWidth = memoryWidth(opts.memoryBytes ?? DEFAULT_TN_MEMORY_BYTES);
+  let pairs: [number, number][] = [];
+  let cost: TreeCost = { width: 0, flops: 0, memoryBytes: 0 };
+  let sliced: number[] = [];
+  let greedyWidth = 0;
+  if (leaves.length > 1) {
+    // restarts: 64 on small networks, fewer on large ones (the search is about linear in both)
+    const restarts = opts.restarts ?? Math.max(8, Math.min(64, Math.round(20000 / leaves.length)));
+    const s = searchOrder(legs, net.nLegs, { targetWidth: maxWidth, ...opts, restarts });
+    pairs = s.tree.pairs;
+    greedyWidth = s.bestRestartWidth;
+    // slicing past MAX_SLICED indices is hopeless (each doubles the work): leave such plans wide,
+    // their memory estimate then exceeds the budget and the planner refuses them
+    if (s.cost.width - maxWidth <= MAX_SLICED) sliced = chooseSlices(legs, net.nLegs, s.tree, maxWidth, MAX_SLICED);
+    cost = sliced.length ? treeCost(legs, net.nLegs, s.tree, sliced) : s.cost;
+  } else if (leaves.length === 1) {
+    cost = { width: leaves[0].legs.length, flops: 0, memoryBytes: 16 * 2 ** leaves[0].legs.length };
+  }
+  // legs summed at each step: count holders inside each subtree
+  const total = new Int32Array(net.nLegs);
+  for (const l of legs) for (const x of l) total[x]++;
+  const counts: Map<number, number>[] = legs.map((l) => new Map(l.map((x) => [x, 1])));
+  const sumLegs: number[][] = [];
+  for (const [a, b] of pairs) {
+    const m = new Map(counts[a]);
+    for (const [x, c] of counts[b]) m.set(x, (m.get(x) ?? 0) + c);
+    const sum: number[] = [];
+    for (const [x, c] of m) if (c === total[x]) { sum.push(x); m.delete(x); }
+    counts.push(m);
+    sumLegs.push(sum);
+  }
+  return {
+    leaves, nLegs: net.nLegs, pairs, sumLegs, sliced, slices: 2 ** sliced.length,
+    width: cost.width, flops: cost.flops, memoryBytes: cost.memoryBytes, scalar: net.scalar,
+    coneQubits: circuit.nQubits, greedyWidth,
+  };
+}
+
+/** Contract slice i of plan.slices; returns [re, im] (the scalar factor included). */
+export interface ContractOptions {
+  /** called before every pairwise step (throw from it to stop the contraction) */
+  onStep?: () => void;
+}
+
+export function contractSlice(plan: TnTermPlan, i: number, opts: ContractOptions = {}): [number, number] {
+  if (!Number.isInteger(i) || i < 0 || i >= plan.slices) throw new RangeError(`slice ${i} out of range 0..${plan.slices - 1}`);
+  const fixed = new Map<number, number>();
+  plan.sliced.forEach((leg, j) => fixed.set(leg, (i >> j) & 1));
+  const ts: (Tensor | null)[] = plan.leaves.map((t) => (fixed.size ? sliceTensor(t, fixed) : t));
+  plan.pairs.forEach(([a, b], s) => {
+    opts.onStep?.();
+    const A = ts[a] as Tensor, B = ts[b] as Tensor;
+    const sum = new Set(plan.sumLegs[s]);
+    ts[a] = null;
+    ts[b] = null;
+    ts.push(contractPair(A, B, pairLayout(A.legs, B.legs, (l) => sum.has(l))));
+  });
+  const last = ts[ts.length - 1] as Tensor | null;
+  if (!last || last.legs.length !== 0) {
+    if (plan.leaves.length === 0) return [plan.scalar[0], plan.scalar[1]];
+    throw new Error('tensor network: the contraction did not close to a scalar');
+  }
+  const [sr, si] = plan.scalar;
+  const r = last.data[0], m = last.data[1];
+  return [sr * r - si * m, sr * m + si * r];
+}
+
+/** Contract every slice of a plan and sum. */
+export function contractPlan(plan: TnTermPlan, opts: ContractOptions = {}): [number, number] {
+  if (plan.leaves.length === 0) return [plan.scalar[0], plan.scalar[1]];
+  let re = 0, im = 0;
+  for (let i = 0; i < plan.slices; i++) {
+    const [a, b] = contractSlice(plan, i, opts);
+    re += a;
+    im += b;
+  }
+  return [re, im];
+}
+
+export interface TnTermResult {
+  value: number;
+  /** imaginary part left over (rounding; a check) */
+  imag: number;
+  width: number;
+  flops: number;
+  slices: number;
+  memoryBytes: number;
+  coneQubits: number;
+  wallMs: number;
+}
+
+export interface TnResult {
+  /** sum_k coef_k <P_k> */
+  value: number;
+  terms: TnTermResult[];
+  /** widest term, total flops, most slices, largest memory, widest cone */
+  width: number;
+  flops: number;
+  slices: number;
+  memoryBytes: number;
+  coneQubits: number;
+  wallMs: number;
+}
+
+const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
+
+/** Plans for every term of an observable (identity terms have no plan). */
+export function planObservable(circuit: CompiledCircuit, obs: ObservableSpec, opts: TnOptions = {}): (TnTermPlan | null)[] {
+  return obs.terms.map((t) => (t.factors.length === 0 ? null : planTerm(circuit, t.factors, opts)));
+}
+
+/** Exact <obs> by contraction, term by term. */
+export function tensorNetworkExpectation(circuit: CompiledCircuit, obs: ObservableSpec, opts: TnOptions = {}, plans?: (TnTermPlan | null)[]): TnResult {
+  const t0 = now();
+  const terms: TnTermResult[] = [];
+  let value = 0;
+  obs.terms.forEach((t, k) => {
+    const s = now();
+    if (t.factors.length === 0) {
+      value += t.coef;
+      terms.push({ value: 1, imag: 0, width: 0, flops: 0, slices: 1, memoryBytes: 0, coneQubits: 0, wallMs: 0 });
+      return;
+    }
+    const plan = plans?.[k] ?? planTerm(circuit, t.factors, opts);
+    const [re, im] = contractPlan(plan);
+    value += t.coef * re;
+    terms.push({ value: re, imag: im, width: plan.width, flops: plan.flops, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, wallMs: now() - s });
+  });
+  const agg = (f: (r: TnTermResult) => number) => terms.reduce((m, r) => Math.max(m, f(r)), 0);
+  return {
+    value, terms,
+    width: agg((r) => r.width), flops: terms.reduce((a, r) => a + r.flops, 0), slices: agg((r) => r.slices),
+    memoryBytes: agg((r) => r.memoryBytes), coneQubits: agg((r) => r.coneQubits), wallMs: now() - t0,
+  };
+}

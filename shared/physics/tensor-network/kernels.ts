@@ -1,0 +1,253 @@
+/**
+ * Tensor kernels for networks whose every index has dimension 2 (qubit wires).
+ *
+ * A tensor is a list of legs (index ids) and complex128 data as an interleaved Float64Array
+ * [re0, im0, re1, im1, ...], row-major with legs[0] the most significant bit of the offset.
+ *
+ * A pairwise contraction is a permute plus a batched matrix product (the usual reduction of
+ * tensordot / einsum to GEMM): A is laid out as [batch][left][sum], B as [batch][right][sum], and
+ * C[batch][left][right] = sum A B. The permute also splits real and imaginary parts into separate
+ * arrays, so the GEMM inner loop runs on two plain real arrays (no strided complex loads); the
+ * GEMM writes the interleaved result directly. k <= 4 (one or two summed legs) has its own loops.
+ *
+ * No framework or node: imports.
+ */
+
+export interface Tensor {
+  legs: number[];
+  data: Float64Array;
+}
+
+/** Lookup tables for a permutation of 2-dim legs: srcOffset(o) = lo[o & loMask] + hi[o >> loBits]. */
+function offsetTables(srcLegs: readonly number[], dstLegs: readonly number[], fixedOffset = 0): { lo: Int32Array; hi: Int32Array; loBits: number } {
+  const rs = srcLegs.length;
+  const rd = dstLegs.length;
+  const strides = new Int32Array(rd);
+  for (let t = 0; t < rd; t++) {
+    const p = srcLegs.indexOf(dstLegs[t]);
+    if (p < 0) throw new Error(`permute: leg ${dstLegs[t]} not in the source tensor`);
+    strides[t] = 1 << (rs - 1 - p);
+  }
+  const loBits = Math.min(rd, Math.max(0, Math.ceil(rd / 2)));
+  const hiBits = rd - loBits;
+  const lo = new Int32Array(1 << loBits);
+  const hi = new Int32Array(1 << hiBits);
+  // target bit b (from the least significant) is target position rd - 1 - b
+  for (let o = 1; o < lo.length; o++) {
+    const b = 31 - Math.clz32(o & -o);
+    lo[o] = lo[o & (o - 1)] + strides[rd - 1 - b];
+  }
+  hi[0] = fixedOffset;
+  for (let o = 1; o < hi.length; o++) {
+    const b = 31 - Math.clz32(o & -o);
+    hi[o] = hi[o & (o - 1)] + strides[rd - 1 - (b + loBits)];
+  }
+  return { lo, hi, loBits };
+}
+
+/** Permute interleaved `src` (legs srcLegs) into split re/im arrays with legs dstLegs. */
+export function permuteSplit(src: Float64Array, srcLegs: readonly number[], dstLegs: readonly number[], re: Float64Array, im: Float64Array): void {
+  const { lo, hi, loBits } = offsetTables(srcLegs, dstLegs);
+  const nl = lo.length;
+  let o = 0;
+  for (let h = 0; h < hi.length; h++) {
+    const base = hi[h];
+    for (let l = 0; l < nl; l++) {
+      const s = (base + lo[l]) << 1;
+      re[o] = src[s];
+      im[o] = src[s + 1];
+      o++;
+    }
+  }
+  void loBits;
+}
+
+/**
+ * The sub-tensor of `t` with the legs in `fixed` set to the given bits (0/1); the remaining legs
+ * keep their order. Used for slicing.
+ */
+export function sliceTensor(t: Tensor, fixed: ReadonlyMap<number, number>): Tensor {
+  let offset = 0;
+  const rest: number[] = [];
+  const r = t.legs.length;
+  t.legs.forEach((leg, p) => {
+    const b = fixed.get(leg);
+    if (b === undefined) rest.push(leg);
+    else if (b) offset += 1 << (r - 1 - p);
+  });
+  if (rest.length === r) return t;
+  const { lo, hi } = offsetTables(t.legs, rest, offset);
+  const out = new Float64Array(2 << rest.length);
+  let o = 0;
+  for (let h = 0; h < hi.length; h++) {
+    const base = hi[h];
+    for (let l = 0; l < lo.length; l++) {
+      const s = (base + lo[l]) << 1;
+      out[o++] = t.data[s];
+      out[o++] = t.data[s + 1];
+    }
+  }
+  return { legs: rest, data: out };
+}
+
+/**
+ * C[m x n] = A[m x k] B^T (B stored as n x k) on split real/imaginary arrays, one batch at the
+ * given offsets, into interleaved C (written directly: no split copy of the result). Both operands are read along contiguous rows (the permute lays B out transposed
+ * for free). Register-blocked 2 x 2 (four complex accumulators), blocked over k (256) and n (32)
+ * so the rows of B in use stay in cache while the rows of A pass over them.
+ */
+export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
+  // c is interleaved complex; cOff counts complex elements
+  if (k <= 4) {
+    smallK(m, k, n, ar, ai, aOff, br, bi, bOff, c, cOff);
+    return;
+  }
+  for (let i = 2 * cOff, e = 2 * (cOff + m * n); i < e; i++) c[i] = 0;
+  const KB = 256, JB = 32;
+  for (let p0 = 0; p0 < k; p0 += KB) {
+    const p1 = Math.min(k, p0 + KB);
+    for (let j0 = 0; j0 < n; j0 += JB) {
+      const j1 = Math.min(n, j0 + JB);
+      let i = 0;
+      for (; i + 1 < m; i += 2) {
+        const a0 = aOff + i * k, a1 = a0 + k;
+        let j = j0;
+        for (; j + 1 < j1; j += 2) {
+          const b0 = bOff + j * k, b1 = b0 + k;
+          let r00 = 0, i00 = 0, r01 = 0, i01 = 0, r10 = 0, i10 = 0, r11 = 0, i11 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], x1r = ar[a1 + p], x1i = ai[a1 + p];
+            const y0r = br[b0 + p], y0i = bi[b0 + p], y1r = br[b1 + p], y1i = bi[b1 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+            r01 += x0r * y1r - x0i * y1i; i01 += x0r * y1i + x0i * y1r;
+            r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
+            r11 += x1r * y1r - x1i * y1i; i11 += x1r * y1i + x1i * y1r;
+          }
+          const c0 = 2 * (cOff + i * n + j), c1 = c0 + 2 * n;
+          c[c0] += r00; c[c0 + 1] += i00; c[c0 + 2] += r01; c[c0 + 3] += i01;
+          c[c1] += r10; c[c1 + 1] += i10; c[c1 + 2] += r11; c[c1 + 3] += i11;
+        }
+        for (; j < j1; j++) {
+          const b0 = bOff + j * k;
+          let r00 = 0, i00 = 0, r10 = 0, i10 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], x1r = ar[a1 + p], x1i = ai[a1 + p];
+            const y0r = br[b0 + p], y0i = bi[b0 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+            r10 += x1r * y0r - x1i * y0i; i10 += x1r * y0i + x1i * y0r;
+          }
+          const c0 = 2 * (cOff + i * n + j), c1 = c0 + 2 * n;
+          c[c0] += r00; c[c0 + 1] += i00; c[c1] += r10; c[c1 + 1] += i10;
+        }
+      }
+      for (; i < m; i++) {
+        const a0 = aOff + i * k;
+        for (let j = j0; j < j1; j++) {
+          const b0 = bOff + j * k;
+          let r00 = 0, i00 = 0;
+          for (let p = p0; p < p1; p++) {
+            const x0r = ar[a0 + p], x0i = ai[a0 + p], y0r = br[b0 + p], y0i = bi[b0 + p];
+            r00 += x0r * y0r - x0i * y0i; i00 += x0r * y0i + x0i * y0r;
+          }
+          const c0 = 2 * (cOff + i * n + j);
+          c[c0] += r00; c[c0 + 1] += i00;
+        }
+      }
+    }
+  }
+}
+
+/** k = 1, 2 or 4: the row of A sits in locals, one pass over the rows of B per row of A. */
+function smallK(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
+  let o = 2 * cOff;
+  if (k === 1) {
+    for (let i = 0; i < m; i++) {
+      const xr = ar[aOff + i], xi = ai[aOff + i];
+      for (let j = 0; j < n; j++) {
+        const yr = br[bOff + j], yi = bi[bOff + j];
+        c[o++] = xr * yr - xi * yi;
+        c[o++] = xr * yi + xi * yr;
+      }
+    }
+  } else if (k === 2) {
+    for (let i = 0; i < m; i++) {
+      const a = aOff + 2 * i;
+      const x0r = ar[a], x0i = ai[a], x1r = ar[a + 1], x1i = ai[a + 1];
+      for (let j = 0, b = bOff; j < n; j++, b += 2) {
+        const y0r = br[b], y0i = bi[b], y1r = br[b + 1], y1i = bi[b + 1];
+        c[o++] = x0r * y0r - x0i * y0i + x1r * y1r - x1i * y1i;
+        c[o++] = x0r * y0i + x0i * y0r + x1r * y1i + x1i * y1r;
+      }
+    }
+  } else {
+    for (let i = 0; i < m; i++) {
+      const a = aOff + 4 * i;
+      const x0r = ar[a], x0i = ai[a], x1r = ar[a + 1], x1i = ai[a + 1];
+      const x2r = ar[a + 2], x2i = ai[a + 2], x3r = ar[a + 3], x3i = ai[a + 3];
+      for (let j = 0, b = bOff; j < n; j++, b += 4) {
+        const y0r = br[b], y0i = bi[b], y1r = br[b + 1], y1i = bi[b + 1];
+        const y2r = br[b + 2], y2i = bi[b + 2], y3r = br[b + 3], y3i = bi[b + 3];
+        c[o++] = x0r * y0r - x0i * y0i + x1r * y1r - x1i * y1i + x2r * y2r - x2i * y2i + x3r * y3r - x3i * y3i;
+        c[o++] = x0r * y0i + x0i * y0r + x1r * y1i + x1i * y1r + x2r * y2i + x2i * y2r + x3r * y3i + x3i * y3r;
+      }
+    }
+  }
+}
+
+/** How the legs of a pairwise contraction split (all lists in output order). */
+export interface PairLayout {
+  batch: number[];
+  left: number[];
+  sum: number[];
+  right: number[];
+}
+
+/** out = [batch, left, right]; `closes(leg)` says whether a shared leg is summed here. */
+export function pairLayout(a: readonly number[], b: readonly number[], closes: (leg: number) => boolean): PairLayout {
+  const inB = new Set(b);
+  const inA = new Set(a);
+  const batch: number[] = [], left: number[] = [], sum: number[] = [], right: number[] = [];
+  for (const l of a) {
+    if (inB.has(l)) (closes(l) ? sum : batch).push(l);
+    else left.push(l);
+  }
+  for (const l of b) if (!inA.has(l)) right.push(l);
+  return { batch, left, sum, right };
+}
+
+/** Scratch buffers reused across contractions (grown on demand). */
+class Scratch {
+  private bufs: Float64Array[] = [];
+  get(i: number, size: number): Float64Array {
+    let b = this.bufs[i];
+    if (!b || b.length < size) {
+      b = new Float64Array(Math.max(size, 16));
+      this.bufs[i] = b;
+    }
+    return b;
+  }
+}
+const scratch = new Scratch();
+
+/** Contract A and B with the given layout; the result has legs [...batch, ...left, ...right]. */
+export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
+  const nb = 1 << L.batch.length;
+  const m = 1 << L.left.length;
+  const k = 1 << L.sum.length;
+  const n = 1 << L.right.length;
+  const aSize = nb * m * k;
+  const bSize = nb * k * n;
+  const cSize = nb * m * n;
+  const ar = scratch.get(0, aSize), ai = scratch.get(1, aSize);
+  const br = scratch.get(2, bSize), bi = scratch.get(3, bSize);
+  permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], ar, ai);
+  permuteSplit(B.data, B.legs, [...L.batch, ...L.right, ...L.sum], br, bi);
+  const out = new Float64Array(2 * cSize);
+  for (let t = 0; t < nb; t++) gemmSplit(m, k, n, ar, ai, t * m * k, br, bi, t * k * n, out, t * m * n);
+  return { legs: [...L.batch, ...L.left, ...L.right], data: out };
+}
+
+/** Real floating-point operations of a pairwise contraction: 8 per complex multiply-add. */
+export function pairFlops(L: PairLayout): number {
+  return 8 * 2 ** (L.batch.length + L.left.length + L.sum.length + L.right.length);
+}

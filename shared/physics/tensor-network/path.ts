@@ -1,0 +1,474 @@
+/**
+ * Contraction-order search for closed networks of dimension-2 indices (hyperedges allowed).
+ *
+ * - Greedy: repeatedly contract the pair of tensors sharing an index with the lowest
+ *   score(size_out - alpha (size_a + size_b)), log-compressed; random restarts draw alpha and a
+ *   temperature and add Gumbel noise to every candidate (a Boltzmann choice), from a seeded
+ *   generator, so the search is deterministic for a given seed (the scheme of Gray and Kourtis 2021,
+ *   "Hyper-optimized tensor network contraction", Quantum 5:410, and of opt_einsum's random greedy).
+ * - Local improvement: subtree reconfiguration. For each internal node, cut its subtree at up to
+ *   `k` frontier subtrees and re-contract them optimally (dynamic programming over the 2^k subsets),
+ *   never widening beyond the tree's width; repeated until a pass gains nothing.
+ * - Slicing: while the width is above the memory budget's, fix the index (taken from the widest
+ *   intermediates) whose removal costs the fewest total flops over all slices.
+ *
+ * Costs (all indices have dimension 2): an intermediate with r legs holds 2^r amplitudes; the width
+ * is the largest r; a pairwise contraction costs 8 x 2^|legs(a) U legs(b)| real flops (one complex
+ * multiply-add per element of the joint index space).
+ *
+ * No framework or node: imports.
+ */
+
+/** A contraction tree in SSA form: leaves 0..T-1; step s contracts ids pairs[s] into id T + s. */
+export interface ContractionTree {
+  nLeaves: number;
+  pairs: [number, number][];
+}
+
+export interface TreeCost {
+  /** log2 of the largest intermediate (or leaf) */
+  width: number;
+  /** total real flops (8 per complex multiply-add), over all slices */
+  flops: number;
+  /** estimated peak bytes: inputs, output and split scratch copies of the largest step */
+  memoryBytes: number;
+}
+
+/** Deterministic 32-bit generator (mulberry32). */
+export function rng(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Sorted leg list with, per leg, how many leaves of the subtree hold it. */
+interface Legs {
+  ids: Int32Array;
+  cnt: Int32Array;
+}
+
+/** Merge two leg lists; legs whose count reaches the total (all holders inside) are summed away. */
+function mergeLegs(a: Legs, b: Legs, total: Int32Array): { out: Legs; union: number } {
+  const ids = new Int32Array(a.ids.length + b.ids.length);
+  const cnt = new Int32Array(ids.length);
+  let i = 0, j = 0, o = 0, union = 0;
+  while (i < a.ids.length || j < b.ids.length) {
+    let id: number, c: number;
+    if (j >= b.ids.length || (i < a.ids.length && a.ids[i] < b.ids[j])) {
+      id = a.ids[i];
+      c = a.cnt[i++];
+    } else if (i >= a.ids.length || b.ids[j] < a.ids[i]) {
+      id = b.ids[j];
+      c = b.cnt[j++];
+    } else {
+      id = a.ids[i];
+      c = a.cnt[i++] + b.cnt[j++];
+    }
+    union++;
+    if (c < total[id]) {
+      ids[o] = id;
+      cnt[o++] = c;
+    }
+  }
+  return { out: { ids: ids.slice(0, o), cnt: cnt.slice(0, o) }, union };
+}
+
+/** Rank of the merge without building it; union size too. */
+function mergeRank(a: Legs, b: Legs, total: Int32Array): { rank: number; union: number } {
+  let i = 0, j = 0, rank = 0, union = 0;
+  const ai = a.ids, bi = b.ids;
+  while (i < ai.length || j < bi.length) {
+    if (j >= bi.length || (i < ai.length && ai[i] < bi[j])) {
+      union++;
+      rank++;
+      i++;
+    } else if (i >= ai.length || bi[j] < ai[i]) {
+      union++;
+      rank++;
+      j++;
+    } else {
+      union++;
+      if (a.cnt[i] + b.cnt[j] < total[ai[i]]) rank++;
+      i++;
+      j++;
+    }
+  }
+  return { rank, union };
+}
+
+function leafLegs(legs: readonly number[]): Legs {
+  const ids = Int32Array.from(legs).sort();
+  return { ids, cnt: new Int32Array(ids.length).fill(1) };
+}
+
+function totals(leaves: readonly (readonly number[])[], nLegs: number): Int32Array {
+  const t = new Int32Array(nLegs);
+  for (const l of leaves) for (const x of l) t[x]++;
+  return t;
+}
+
+/** Binary min-heap of (score, u, v). */
+class Heap {
+  private s: number[] = [];
+  private u: number[] = [];
+  private v: number[] = [];
+  get size(): number {
+    return this.s.length;
+  }
+  push(score: number, u: number, v: number): void {
+    const s = this.s, U = this.u, V = this.v;
+    let i = s.length;
+    s.push(score);
+    U.push(u);
+    V.push(v);
+    while (i > 0) {
+      const p = (i - 1) >> 1;
+      if (s[p] <= score) break;
+      s[i] = s[p]; U[i] = U[p]; V[i] = V[p];
+      i = p;
+    }
+    s[i] = score; U[i] = u; V[i] = v;
+  }
+  pop(): [number, number] {
+    const s = this.s, U = this.u, V = this.v;
+    const ru = U[0], rv = V[0];
+    const ls = s.pop() as number, lu = U.pop() as number, lv = V.pop() as number;
+    const n = s.length;
+    if (n > 0) {
+      let i = 0;
+      for (;;) {
+        let c = 2 * i + 1;
+        if (c >= n) break;
+        if (c + 1 < n && s[c + 1] < s[c]) c++;
+        if (s[c] >= ls) break;
+        s[i] = s[c]; U[i] = U[c]; V[i] = V[c];
+        i = c;
+      }
+      s[i] = ls; U[i] = lu; V[i] = lv;
+    }
+    return [ru, rv];
+  }
+}
+
+export interface GreedyParams {
+  /** weight of the removed input sizes (1: plain greedy) */
+  alpha: number;
+  /** Gumbel noise scale (0: deterministic) */
+  temperature: number;
+}
+
+/** One greedy run. */
+export function greedyTree(leaves: readonly (readonly number[])[], nLegs: number, p: GreedyParams, random: () => number): ContractionTree {
+  const T = leaves.length;
+  const total = totals(leaves, nLegs);
+  const legs: (Legs | null)[] = leaves.map(leafLegs);
+  const holders: Set<number>[] = Array.from({ length: nLegs }, () => new Set<number>());
+  legs.forEach((l, i) => {
+    for (const x of (l as Legs).ids) holders[x].add(i);
+  });
+  const heap = new Heap();
+  const score = (a: Legs, b: Legs): number => {
+    const { rank } = mergeRank(a, b, total);
+    const raw = 2 ** rank - p.alpha * (2 ** a.ids.length + 2 ** b.ids.length);
+    let s = raw >= 0 ? Math.log2(1 + raw) : -Math.log2(1 - raw);
+    if (p.temperature > 0) s -= p.temperature * -Math.log(-Math.log(random() || 1e-300));
+    return s;
+  };
+  const seen = new Set<number>();
+  const pushPairsOf = (u: number) => {
+    seen.clear();
+    const lu = legs[u] as Legs;
+    for (const x of lu.ids) {
+      for (const v of holders[x]) {
+        if (v === u || seen.has(v)) continue;
+        seen.add(v);
+        heap.push(score(lu, legs[v] as Legs), Math.min(u, v), Math.max(u, v));
+      }
+    }
+  };
+  for (let i = 0; i < T; i++) pushPairsOf(i);
+  const pairs: [number, number][] = [];
+  let live = T;
+  const contract = (u: number, v: number) => {
+    const a = legs[u] as Legs, b = legs[v] as Legs;
+    const { out } = mergeLegs(a, b, total);
+    const w = legs.length;
+    legs.push(out);
+    legs[u] = null;
+    legs[v] = null;
+    for (const x of a.ids) holders[x].delete(u);
+    for (const x of b.ids) holders[x].delete(v);
+    for (const x of out.ids) holders[x].add(w);
+    pairs.push([u, v]);
+    live--;
+    pushPairsOf(w);
+  };
+  while (live > 1) {
+    let done = false;
+    while (heap.size) {
+      const [u, v] = heap.pop();
+      if (legs[u] && legs[v]) {
+        contract(u, v);
+        done = true;
+        break;
+      }
+    }
+    if (!done) {
+      // disconnected components left: outer products, smallest first
+      const rest: number[] = [];
+      legs.forEach((l, i) => { if (l) rest.push(i); });
+      rest.sort((x, y) => (legs[x] as Legs).ids.length - (legs[y] as Legs).ids.length);
+      contract(rest[0], rest[1]);
+    }
+  }
+  return { nLeaves: T, pairs };
+}
+
+/** Width, flops and memory of a tree, with the legs in `sliced` fixed (flops over all slices). */
+export function treeCost(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, sliced: readonly number[] = []): TreeCost {
+  const total = totals(leaves, nLegs);
+  const cut = new Uint8Array(nLegs);
+  for (const s of sliced) cut[s] = 1;
+  const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
+  const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
+  let width = 0;
+  for (const l of legs) width = Math.max(width, l.ids.length);
+  let flops = 0;
+  let mem = 0;
+  for (const [u, v] of tree.pairs) {
+    const { out, union } = mergeLegs(legs[u], legs[v], tot);
+    legs.push(out);
+    width = Math.max(width, out.ids.length);
+    flops += 8 * 2 ** union;
+    mem = Math.max(mem, 32 * (2 ** legs[u].ids.length + 2 ** legs[v].ids.length + 2 ** out.ids.length));
+  }
+  return { width, flops: flops * 2 ** sliced.length, memoryBytes: mem };
+}
+
+// ------------------------------------------------------------------------------------------------
+// Subtree reconfiguration
+
+interface Node {
+  left: number;
+  right: number;
+  legs: Legs;
+}
+
+function treeNodes(leaves: readonly (readonly number[])[], tree: ContractionTree, total: Int32Array): Node[] {
+  const nodes: Node[] = leaves.map((l) => ({ left: -1, right: -1, legs: leafLegs(l) }));
+  for (const [u, v] of tree.pairs) nodes.push({ left: u, right: v, legs: mergeLegs(nodes[u].legs, nodes[v].legs, total).out });
+  return nodes;
+}
+
+function unionSize(a: Legs, b: Legs): number {
+  let i = 0, j = 0, u = 0;
+  while (i < a.ids.length && j < b.ids.length) {
+    if (a.ids[i] < b.ids[j]) i++;
+    else if (a.ids[i] > b.ids[j]) j++;
+    else { u++; i++; j++; }
+  }
+  return a.ids.length + b.ids.length - u;
+}
+
+/**
+ * Subtree reconfiguration: returns an improved tree (same leaves), minimising total flops while
+ * keeping every intermediate within `maxWidth` (default: the tree's current width).
+ */
+export function reconfigure(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, opts: { k?: number; passes?: number; maxWidth?: number } = {}): ContractionTree {
+  const k = opts.k ?? 8;
+  const total = totals(leaves, nLegs);
+  const nodes = treeNodes(leaves, tree, total);
+  const T = leaves.length;
+  const cap = opts.maxWidth ?? nodes.reduce((m, nd) => Math.max(m, nd.legs.ids.length), 0);
+  const root = nodes.length - 1;
+  const maxMask = 1 << k;
+  const mLegs: (Legs | null)[] = new Array(maxMask).fill(null);
+  const mCost = new Float64Array(maxMask);
+  const mSplit = new Int32Array(maxMask);
+  for (let pass = 0; pass < (opts.passes ?? 4); pass++) {
+    let improved = false;
+    for (let id = T; id < nodes.length; id++) {
+      const nd = nodes[id];
+      if (nd.left < 0) continue;
+      // frontier: expand the largest internal item until k items
+      const front: number[] = [nd.left, nd.right];
+      const internal: number[] = [id];
+      while (front.length < k) {
+        let best = -1;
+        for (let f = 0; f < front.length; f++) {
+          const x = front[f];
+          if (nodes[x].left >= 0 && (best < 0 || nodes[x].legs.ids.length > nodes[front[best]].legs.ids.length)) best = f;
+        }
+        if (best < 0) break;
+        const x = front[best];
+        front.splice(best, 1, nodes[x].left, nodes[x].right);
+        internal.push(x);
+      }
+      if (front.length < 3) continue;
+      // current cost of the internal nodes
+      let cur = 0;
+      for (const x of internal) cur += 2 ** unionSize(nodes[nodes[x].left].legs, nodes[nodes[x].right].legs);
+      // DP over subsets
+      const m = front.length;
+      const full = (1 << m) - 1;
+      for (let f = 0; f < m; f++) {
+        mLegs[1 << f] = nodes[front[f]].legs;
+        mCost[1 << f] = 0;
+      }
+      for (let mask = 1; mask <= full; mask++) {
+        if ((mask & (mask - 1)) === 0) continue;
+        const low = mask & -mask;
+        mLegs[mask] = mergeLegs(mLegs[mask ^ low] as Legs, mLegs[low] as Legs, total).out;
+        mCost[mask] = Infinity;
+        if (mask !== full && (mLegs[mask] as Legs).ids.length > cap) continue;
+        // splits A | B with the lowest bit in A
+        const rest = mask ^ low;
+        for (let sub = rest; ; sub = (sub - 1) & rest) {
+          const A = sub | low;
+          const B = mask ^ A;
+          if (B !== 0) {
+            const c = mCost[A] + mCost[B];
+            if (c < mCost[mask]) {
+              const cc = c + 2 ** unionSize(mLegs[A] as Legs, mLegs[B] as Legs);
+              if (cc < mCost[mask]) {
+                mCost[mask] = cc;
+                mSplit[mask] = A;
+              }
+            }
+          }
+          if (sub === 0) break;
+        }
+      }
+      if (mCost[full] < cur * (1 - 1e-9)) {
+        // rebuild: reuse the internal node ids (id stays the subtree root)
+        const free = internal.filter((x) => x !== id);
+        const build = (mask: number, target: number): number => {
+          if ((mask & (mask - 1)) === 0) return front[31 - Math.clz32(mask)];
+          const A = mSplit[mask];
+          const l = build(A, -1);
+          const r = build(mask ^ A, -1);
+          const x = target >= 0 ? target : (free.pop() as number);
+          nodes[x].left = l;
+          nodes[x].right = r;
+          nodes[x].legs = mergeLegs(nodes[l].legs, nodes[r].legs, total).out;
+          return x;
+        };
+        build(full, id);
+        improved = true;
+      }
+    }
+    if (!improved) break;
+  }
+  // back to SSA order by a post-order walk from the root
+  const pairs: [number, number][] = [];
+  const ssa = new Int32Array(nodes.length).fill(-1);
+  for (let i = 0; i < T; i++) ssa[i] = i;
+  const stack: [number, boolean][] = [[root, false]];
+  while (stack.length) {
+    const [x, ready] = stack.pop() as [number, boolean];
+    const nd = nodes[x];
+    if (nd.left < 0) continue;
+    if (ready) {
+      ssa[x] = T + pairs.length;
+      pairs.push([ssa[nd.left], ssa[nd.right]]);
+    } else {
+      stack.push([x, true], [nd.right, false], [nd.left, false]);
+    }
+  }
+  return { nLeaves: T, pairs };
+}
+
+// ------------------------------------------------------------------------------------------------
+// Slicing
+
+/** Choose legs to fix until the width is <= maxWidth; each pick minimises the total flops. */
+export function chooseSlices(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, maxWidth: number, maxSliced = 40): number[] {
+  const sliced: number[] = [];
+  const total = totals(leaves, nLegs);
+  for (;;) {
+    const cost = treeCost(leaves, nLegs, tree, sliced);
+    if (cost.width <= maxWidth || sliced.length >= maxSliced) return sliced;
+    // legs of the widest intermediates (sliced legs removed)
+    const cut = new Uint8Array(nLegs);
+    for (const s of sliced) cut[s] = 1;
+    const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
+    const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
+    const cand = new Set<number>();
+    for (const l of legs) if (l.ids.length === cost.width) for (const x of l.ids) cand.add(x);
+    for (const [u, v] of tree.pairs) {
+      const { out } = mergeLegs(legs[u], legs[v], tot);
+      legs.push(out);
+      if (out.ids.length === cost.width) for (const x of out.ids) cand.add(x);
+    }
+    let best = -1;
+    let bestKey = Infinity;
+    for (const x of cand) {
+      const c = treeCost(leaves, nLegs, tree, [...sliced, x]);
+      const key = c.width * 1e3 + Math.log2(c.flops);
+      if (key < bestKey) {
+        bestKey = key;
+        best = x;
+      }
+    }
+    if (best < 0) return sliced;
+    sliced.push(best);
+  }
+}
+
+// ------------------------------------------------------------------------------------------------
+// The search
+
+export interface SearchOptions {
+  /** greedy runs (the first deterministic); default 64 */
+  restarts?: number;
+  /** seed of the random restarts; default 1 */
+  seed?: number;
+  /** subtree size for reconfiguration; default 8 (0: none) */
+  reconfigureK?: number;
+  /** widths above this are penalised when ranking restarts (the memory budget's width) */
+  targetWidth?: number;
+}
+
+export interface SearchResult {
+  tree: ContractionTree;
+  cost: TreeCost;
+  /** width and flops of the best plain greedy restart before reconfiguration */
+  greedy: TreeCost;
+  /** best width seen over the restarts */
+  bestRestartWidth: number;
+}
+
+/** Ranking of a tree: log2 flops, plus a penalty for every unit of width above the target. */
+function rank(c: TreeCost, target: number): number {
+  return Math.log2(c.flops) + 2 * Math.max(0, c.width - target);
+}
+
+export function searchOrder(leaves: readonly (readonly number[])[], nLegs: number, opts: SearchOptions = {}): SearchResult {
+  const restarts = Math.max(1, opts.restarts ?? 64);
+  const random = rng(opts.seed ?? 1);
+  const target = opts.targetWidth ?? 27;
+  let best: ContractionTree | null = null;
+  let bestCost: TreeCost | null = null;
+  let bestRestartWidth = Infinity;
+  for (let r = 0; r < restarts; r++) {
+    const p: GreedyParams = r === 0 ? { alpha: 1, temperature: 0 } : { alpha: 0.5 + 1.5 * random(), temperature: 0.02 + random() };
+    const t = greedyTree(leaves, nLegs, p, random);
+    const c = treeCost(leaves, nLegs, t);
+    bestRestartWidth = Math.min(bestRestartWidth, c.width);
+    if (!bestCost || rank(c, target) < rank(bestCost, target)) {
+      best = t;
+      bestCost = c;
+    }
+  }
+  const greedy = bestCost as TreeCost;
+  let tree = best as ContractionTree;
+  if ((opts.reconfigureK ?? 8) >= 3 && leaves.length > 2) {
+    tree = reconfigure(leaves, nLegs, tree, { k: opts.reconfigureK ?? 8 });
+  }
+  return { tree, cost: treeCost(leaves, nLegs, tree), greedy, bestRestartWidth };
+}

@@ -1,0 +1,274 @@
+/**
+ * The tensor-network rung (shared/physics/tensor-network/) against outside and independent exact
+ * values. Sources, beside each check:
+ * - the npm package quantum-circuit (an outside statevector; qc-reference.ts) and the project's own
+ *   statevector, on random circuits of the whole gate set;
+ * - the light-cone statevector on kicked-Ising circuits on every lattice kind;
+ * - exact Pauli propagation at Clifford points on a 106-qubit heavy-hex patch, and PHYSICS.md's
+ *   closed forms there (<Z_q> = 0 at thetaH = pi/2, (-1)^t at thetaH = pi);
+ * - the free-fermion solver (PHYSICS.md, Valiant / Terhal-DiVincenzo) on long chains;
+ * - known contraction widths: a ring of matrices contracts with 2-leg intermediates, and a chain's
+ *   width is bounded by a constant in its length at fixed depth (common practice: the
+ *   contraction follows the chain like a matrix product).
+ */
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import type { CompiledCircuit, Gate, GateName, ObservableSpec, PauliFactor } from '../../../shared/physics/circuit';
+import { loadChallenge } from '../../../shared/physics/challenge';
+import { freeFermionExpectation } from '../../../shared/physics/free-fermion';
+import { kickedIsing } from '../../../shared/physics/kicked-ising';
+import { buildLattice, edgeColouring, heavyHex, type LatticeSpec } from '../../../shared/physics/lattices';
+import { graphBall, lightCone } from '../../../shared/physics/light-cone';
+import { lightConeStatevectorValue } from '../../../shared/physics/light-cone-statevector';
+import { propagate } from '../../../shared/physics/pauli-propagation';
+import { Planner, reasonText } from '../../../shared/physics/planner';
+import { ReferenceRunner, type ReferenceValue } from '../../../shared/physics/reference';
+import { statevectorExpectation } from '../../../shared/physics/statevector';
+import {
+  contractPlan, contractSlice, greedyTree, planTerm, rng, searchOrder, tensorNetworkExpectation, treeCost,
+} from '../../../shared/physics/tensor-network/index';
+import { qcExpectation } from './qc-reference';
+
+const HALF_PI = Math.PI / 2;
+const TOL = 1e-10;
+const ALL_GATES: GateName[] = ['x', 'y', 'z', 'h', 's', 'sdg', 'sx', 'rx', 'ry', 'rz', 'rzz', 'cx', 'cz'];
+
+function randomCircuit(n: number, nGates: number, seed: number): CompiledCircuit {
+  const r = rng(seed);
+  const gates: Gate[] = [];
+  for (let i = 0; i < nGates; i++) {
+    const name = ALL_GATES[Math.floor(r() * ALL_GATES.length)];
+    const two = name === 'rzz' || name === 'cx' || name === 'cz';
+    if (two && n < 2) continue;
+    const a = Math.floor(r() * n);
+    const b = (a + 1 + Math.floor(r() * (n - 1))) % n;
+    const g: Gate = { name, qubits: two ? [a, b] : [a] };
+    if (name === 'rx' || name === 'ry' || name === 'rz' || name === 'rzz') g.params = [r() * 8 - 4];
+    gates.push(g);
+  }
+  return { nQubits: n, gates, layers: [] };
+}
+
+function randomObservable(n: number, seed: number): ObservableSpec {
+  const r = rng(seed);
+  const ops = ['X', 'Y', 'Z'] as const;
+  const terms = [];
+  for (let k = 0; k < 3; k++) {
+    const qs = new Set<number>();
+    const w = 1 + Math.floor(r() * Math.min(3, n));
+    while (qs.size < w) qs.add(Math.floor(r() * n));
+    terms.push({ coef: [1, -0.5, 2.5][k], factors: [...qs].map((q) => ({ qubit: q, op: ops[Math.floor(r() * 3)] })) });
+  }
+  return { id: 'o', terms };
+}
+
+describe('tensor-network contraction equals statevectors on random circuits of the whole gate set', () => {
+  it('matches quantum-circuit (npm, outside reference) and the project statevector to 1e-10, up to 10 qubits', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 10 }), fc.integer({ min: 1, max: 1e9 }), (n, seed) => {
+        const c = randomCircuit(n, 12 + 3 * n, seed);
+        const obs = randomObservable(n, seed + 1);
+        const tn = tensorNetworkExpectation(c, obs, { restarts: 8 }).value;
+        expect(Math.abs(tn - qcExpectation(n, c.gates, obs))).toBeLessThan(TOL);
+        expect(Math.abs(tn - statevectorExpectation(c, obs).value)).toBeLessThan(TOL);
+      }),
+      { numRuns: 12, seed: 15 },
+    );
+  });
+
+  it('matches the project statevector at 11 and 12 qubits with deep circuits', () => {
+    for (const [n, seed] of [[11, 3], [12, 4], [12, 5]]) {
+      const c = randomCircuit(n, 120, seed);
+      const obs = randomObservable(n, seed * 7);
+      const tn = tensorNetworkExpectation(c, obs, { restarts: 8 });
+      expect(Math.abs(tn.value - statevectorExpectation(c, obs).value)).toBeLessThan(TOL);
+      for (const t of tn.terms) expect(Math.abs(t.imag)).toBeLessThan(1e-12); // Hermitian: real value
+    }
+  });
+});
+
+const kiCircuit = (spec: LatticeSpec, steps: number, thetaH: number, thetaJ = -HALF_PI) => {
+  const g = buildLattice(spec);
+  return { g, c: kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps, thetaH, thetaJ }) };
+};
+
+describe('tensor-network contraction equals the light-cone statevector on every lattice kind', () => {
+  const cases: [LatticeSpec, number, string][] = [
+    [{ kind: 'chain', n: 30 }, 6, 'X10 Z11 Y12'],
+    [{ kind: 'ring', n: 24 }, 5, 'Z0 Z23'],
+    [{ kind: 'square', rows: 5, cols: 5 }, 2, 'X12 Z13'],
+    [{ kind: 'heavy-hex', rows: 2, cols: 3 }, 3, 'Y5 Z30'],
+    [{ kind: 'edges', n: 12, edges: [[0, 1], [1, 2], [2, 3], [3, 4], [4, 5], [5, 6], [6, 7], [7, 8], [8, 9], [9, 10], [10, 11], [0, 6], [3, 9]] }, 3, 'X0 Z6'],
+  ];
+  for (const [spec, steps, pauli] of cases) {
+    it(`${spec.kind}, ${steps} steps, ${pauli}`, () => {
+      const { c } = kiCircuit(spec, steps, 0.83, 0.41);
+      const factors: PauliFactor[] = pauli.split(' ').map((s) => ({ op: s[0] as 'X' | 'Y' | 'Z', qubit: Number(s.slice(1)) }));
+      const obs: ObservableSpec = { id: 'o', terms: [{ coef: 1, factors }] };
+      const lc = lightCone(c, obs);
+      expect(lc.qubits.length).toBeLessThanOrEqual(21);
+      const want = lightConeStatevectorValue(lc.circuit, lc.observable as ObservableSpec).value;
+      const plan = planTerm(c, factors);
+      expect(plan.coneQubits).toBe(lc.qubits.length);
+      const [re, im] = contractPlan(plan);
+      expect(Math.abs(re - want)).toBeLessThan(TOL);
+      expect(Math.abs(im)).toBeLessThan(1e-12);
+    });
+  }
+});
+
+describe('tensor-network contraction on a 106-qubit heavy-hex patch', () => {
+  const g = heavyHex(3, 5);
+  const ball = (q: number, w: number) => {
+    let qs = [q];
+    for (let r = 1; qs.length < w; r++) qs = graphBall(g.n, g.edges, [q], r);
+    return qs.slice(0, w);
+  };
+  it('equals exact Pauli propagation at Clifford points, and PHYSICS.md closed forms', () => {
+    expect(g.n).toBe(106);
+    for (const [thetaH, steps] of [[HALF_PI, 4], [Math.PI, 3], [HALF_PI, 3]] as const) {
+      const c = kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps, thetaH, thetaJ: -HALF_PI });
+      for (const [q, w, op] of [[20, 1, 'Z'], [33, 3, 'X'], [20, 6, 'Z'], [60, 4, 'Y']] as const) {
+        const factors = ball(q, w).map((qubit) => ({ qubit, op }));
+        const obs = { id: 'o', terms: [{ coef: 1, factors }] };
+        const pp = propagate(c, obs);
+        expect(pp.exact).toBe(true);
+        const tn = tensorNetworkExpectation(c, obs, { restarts: 16 });
+        expect(Math.abs(tn.value - pp.value)).toBeLessThan(TOL);
+        expect([-1, 0, 1].some((v) => Math.abs(tn.value - v) < 1e-10)).toBe(true);
+        if (w === 1 && op === 'Z') expect(tn.value).toBeCloseTo(thetaH === HALF_PI ? 0 : (-1) ** steps, 10);
+      }
+    }
+  });
+
+  it('contracts a weight-10 Z observable at 5 steps (light cone over 40 qubits) within seconds', () => {
+    const c = kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps: 5, thetaH: 0.7, thetaJ: -HALF_PI });
+    const factors = ball(20, 10).map((qubit) => ({ qubit, op: 'Z' as const }));
+    const plan = planTerm(c, factors);
+    expect(plan.coneQubits).toBeGreaterThan(27); // beyond the statevector's limit
+    expect(plan.width).toBeLessThanOrEqual(18);
+    const [re, im] = contractPlan(plan);
+    expect(Math.abs(re)).toBeLessThanOrEqual(1);
+    expect(Math.abs(im)).toBeLessThan(1e-12);
+    // the same value at the mirrored angle (PHYSICS.md symmetry: Z-only strings are even in thetaH)
+    const cm = kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps: 5, thetaH: -0.7, thetaJ: -HALF_PI });
+    expect(Math.abs(contractPlan(planTerm(cm, factors))[0] - re)).toBeLessThan(TOL);
+  });
+});
+
+describe('tensor-network contraction equals free fermions on long chains', () => {
+  it('bulk Z, X and ZZ on a 300-site chain at 6 steps', () => {
+    const n = 300;
+    const { c } = kiCircuit({ kind: 'chain', n }, 6, 0.9, -0.35);
+    for (const pauli of ['Z150', 'X77', 'Z200 Z201', 'Z3']) {
+      const factors: PauliFactor[] = pauli.split(' ').map((s) => ({ op: s[0] as 'X' | 'Z', qubit: Number(s.slice(1)) }));
+      const obs = { id: 'o', terms: [{ coef: 1, factors }] };
+      const ff = freeFermionExpectation({ n, thetaJ: -0.35, thetaH: 0.9, steps: 6 }, obs);
+      if (!ff.ok) throw new Error(ff.reason);
+      expect(Math.abs(tensorNetworkExpectation(c, obs).value - ff.value), pauli).toBeLessThan(TOL);
+    }
+  });
+});
+
+describe('contraction widths of known networks', () => {
+  it('a ring of 60 matrices contracts with intermediates of 2 legs (common practice: trace of a product)', () => {
+    const leaves = Array.from({ length: 60 }, (_, i) => [i, (i + 1) % 60]);
+    const s = searchOrder(leaves, 60, { restarts: 4 });
+    expect(s.cost.width).toBe(2);
+  });
+
+  it("a chain's width stays bounded as the chain grows at fixed depth (all-Z string over the whole chain)", () => {
+    const widths: number[] = [];
+    for (const n of [12, 24, 48, 96]) {
+      const { c } = kiCircuit({ kind: 'chain', n }, 3, 0.7, 0.4);
+      const factors = Array.from({ length: n }, (_, qubit) => ({ qubit, op: 'Z' as const }));
+      const plan = planTerm(c, factors, { restarts: 16 });
+      widths.push(plan.width);
+      if (n === 12) {
+        const obs = { id: 'o', terms: [{ coef: 1, factors }] };
+        expect(Math.abs(contractPlan(plan)[0] - statevectorExpectation(c, obs).value)).toBeLessThan(TOL);
+      }
+    }
+    expect(Math.max(...widths)).toBeLessThanOrEqual(Math.min(...widths) + 2);
+    expect(Math.max(...widths)).toBeLessThanOrEqual(10);
+  });
+
+  it('the order search is seeded (same seed, same tree) and beats or ties its own first greedy run', () => {
+    const { c } = kiCircuit({ kind: 'heavy-hex', rows: 2, cols: 2 }, 4, 0.7);
+    const a = planTerm(c, [{ qubit: 10, op: 'X' }], { seed: 9 });
+    const b = planTerm(c, [{ qubit: 10, op: 'X' }], { seed: 9 });
+    expect(a.pairs).toEqual(b.pairs);
+    const legs = a.leaves.map((t) => t.legs);
+    const first = treeCost(legs, a.nLegs, greedyTree(legs, a.nLegs, { alpha: 1, temperature: 0 }, rng(1)));
+    expect(a.flops).toBeLessThanOrEqual(first.flops);
+  });
+});
+
+describe('slicing', () => {
+  it('a memory budget forces sliced indices; slices are independent and sum to the unsliced value', () => {
+    const { c } = kiCircuit({ kind: 'heavy-hex', rows: 2, cols: 2 }, 4, 0.77, 0.3);
+    const factors: PauliFactor[] = [{ qubit: 10, op: 'X' }, { qubit: 11, op: 'Z' }];
+    const full = planTerm(c, factors);
+    const small = planTerm(c, factors, { memoryBytes: 96 * 2 ** (full.width - 3) });
+    expect(small.slices).toBeGreaterThan(1);
+    expect(small.width).toBeLessThanOrEqual(full.width - 3);
+    let re = 0;
+    for (let i = small.slices - 1; i >= 0; i--) re += contractSlice(small, i)[0]; // any order
+    const want = contractPlan(full)[0];
+    expect(Math.abs(re - want)).toBeLessThan(TOL);
+    const lc = lightCone(c, { id: 'o', terms: [{ coef: 1, factors }] });
+    expect(Math.abs(want - lightConeStatevectorValue(lc.circuit, lc.observable as ObservableSpec).value)).toBeLessThan(TOL);
+    expect(() => contractSlice(small, small.slices)).toThrow(/out of range/);
+  });
+});
+
+describe('planner and reference runner with the tensor-network rung', () => {
+  const ki = (lattice: LatticeSpec, steps: number[], thetaH: number[], observables: { id: string; pauli?: string; terms?: { coef: number; pauli: string }[] }[]) =>
+    loadChallenge({ id: 'tn', version: 1, title: 'tn', description: '', lattice, circuit: { family: 'kicked-ising', steps, thetaH }, observables });
+
+  it('a cone beyond the statevector limit gets an exact value by contraction, with width, flops and slices', () => {
+    const ch = ki({ kind: 'heavy-hex', rows: 3, cols: 5 }, [5], [0.7], [{ id: 'zs', pauli: 'Z20 Z5 Z25 Z26 Z6 Z47 Z21 Z4' }]);
+    const runner = new ReferenceRunner(ch);
+    const plan = runner.plan(ch.targets[0]);
+    expect(plan.cone.qubits).toBeGreaterThan(27);
+    expect(plan.method).toBe('tensor-network');
+    const est = plan.estimates.find((e) => e.method === 'tensor-network');
+    expect(est?.tn?.width).toBeGreaterThan(0);
+    const lc = plan.estimates.find((e) => e.method === 'light-cone-statevector');
+    expect(lc?.why?.code).toBe('cone-limit');
+    expect(lc?.reason).toBe(reasonText(lc!.why!));
+    const r = runner.run(ch.targets[0], plan) as ReferenceValue;
+    expect(r.method).toBe('tensor-network');
+    // the planner costed the very plan the runner contracts (same seeded search)
+    expect(r.width).toBe(est?.tn?.width);
+    expect(r.flops).toBe(est?.tn?.flops);
+    expect(r.detail).toMatch(/^tensor-network contraction of the light cone, width \d+, 2\^[\d.]+ flops/);
+  });
+
+  it('small cones are cross-checked by a second exact method and the agreement recorded', () => {
+    const ch = ki({ kind: 'square', rows: 4, cols: 4 }, [2], [0.6], [{ id: 'x5', pauli: 'X5 Z6' }]);
+    const r = new ReferenceRunner(ch).run(ch.targets[0]) as ReferenceValue;
+    expect(r.value).not.toBeNull();
+    expect(r.crossCheck?.method).toBe('tensor-network');
+    expect(r.crossCheck!.absDiff).toBeLessThan(TOL);
+    expect(r.detail).toMatch(/cross-checked by tensor-network contraction, \|diff\| \d/);
+  });
+
+  it('a sum is quoted per term: the widest single-term cone names its term', () => {
+    const ch = ki({ kind: 'heavy-hex', rows: 3, cols: 5 }, [9], [0.7], [{ id: 'sum', terms: [{ coef: 0.5, pauli: 'Z0' }, { coef: 0.5, pauli: 'X40' }] }]);
+    const planner = new Planner(ch, { secondsBudget: 1 });
+    const p = planner.plan(ch.targets[0]);
+    const lc = p.estimates.find((e) => e.method === 'light-cone-statevector');
+    expect(lc?.why?.code).toBe('cone-limit');
+    expect(lc?.reason).toMatch(/the widest single-term cone \d+ qubits \(term 2\)/);
+  });
+
+  it('exact Pauli propagation past its loose bound is attempted under the term budget, not refused', () => {
+    const ch = ki({ kind: 'square', rows: 4, cols: 4 }, [3], [0.6], [{ id: 'z5', pauli: 'Z5' }]);
+    const planner = new Planner(ch, { termBudget: 100, secondsBudget: 1 });
+    const p = planner.plan(ch.targets[0]);
+    const pp = p.estimates.find((e) => e.method === 'pauli-propagation');
+    expect(pp?.attempt).toBe(true);
+    expect(pp?.why?.code).toBe('term-bound');
+  });
+});
