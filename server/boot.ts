@@ -117,6 +117,7 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
         setTimeout(() => server.closeAllConnections?.(), 10_000).unref();
       });
       await worker?.stop();
+      await ctx.threads.close();
       mailer.close();
       await smtp?.close();
       await database.close();

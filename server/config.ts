@@ -24,12 +24,14 @@ export interface Config {
   sessionMaxAgeSec: number;
   /** number of reverse proxies in front of the app (Express 'trust proxy' hop count) */
   trustProxyHops: number;
-  /** the maximum JSON body for any route, auth routes included */
+  /** the JSON body limit of every route that does not declare a document body (server/routes/registry.ts) */
   jsonLimitBytes: number;
   /** maximum upload size for entry files */
   uploadLimitBytes: number;
   /** how many large documents (entries, challenge specs) are read and processed at once */
   documentSlots: number;
+  /** worker threads for document-sized work (entry checks, QASM, light cones, plans) */
+  documentThreads: number;
   /** after the requests in flight at SIGTERM finish: how long new ones get 503 before the listener closes */
   shutdownDrainMs: number;
   /** extra origins trusted for cookie-bearing writes (e.g. the Vite dev server) */
@@ -75,9 +77,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     passwordHash: ASVS_SCRYPT,
     sessionMaxAgeSec: Number(env.SESSION_MAX_AGE_DAYS ?? 30) * 86400,
     trustProxyHops: Number(env.TRUST_PROXY_HOPS ?? 0),
-    jsonLimitBytes: 1024 * 1024 * Number(env.JSON_LIMIT_MIB ?? 12),
+    jsonLimitBytes: 1024 * Number(env.JSON_LIMIT_KB ?? 64),
     uploadLimitBytes: 1024 * 1024 * Number(env.UPLOAD_LIMIT_MIB ?? 10),
     documentSlots: Math.max(1, Number(env.DOCUMENT_SLOTS ?? 2)),
+    documentThreads: Math.max(1, Number(env.DOCUMENT_THREADS ?? env.DOCUMENT_SLOTS ?? 2)),
     shutdownDrainMs: Math.max(0, Number(env.SHUTDOWN_DRAIN_MS ?? 1000)),
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
