@@ -91,3 +91,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     runWorker: env.RUN_WORKER !== '0',
   };
 }
+
+/**
+ * The origins trusted for cookie-bearing writes (the origin check and better-auth): BASE_URL, the
+ * loopback names of the port the server listens on (a browser at http://127.0.0.1:3000 or
+ * http://[::1]:3000 is the same local server as http://localhost:3000; signing in there failed
+ * with a bare "Invalid origin"), and TRUSTED_ORIGINS.
+ */
+export function trustedOriginsOf(config: Pick<Config, 'baseUrl' | 'port' | 'trustedOrigins'>): string[] {
+  const loopback = ['localhost', '127.0.0.1', '[::1]'].map((h) => `http://${h}:${config.port}`);
+  return [...new Set([config.baseUrl, ...loopback, ...config.trustedOrigins].map((o) => o.replace(/\/$/, '')))];
+}

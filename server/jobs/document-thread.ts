@@ -3,10 +3,16 @@
  * thread serves one session at a time, so the entry document of the current session is kept here
  * between its calls. No database access here.
  */
+import { setPriority } from 'node:os';
 import { parentPort } from 'node:worker_threads';
 import { AppError } from '../errors';
 import { EntryDocumentSession } from '../services/entry-validation/session';
 import { challengeOps } from '../services/challenge-computations';
+
+// a lower scheduling priority for this thread only (Linux applies setpriority(0) to the calling
+// thread): on a busy machine the event loop thread gets the CPU first, so the health check and
+// other requests are not starved while a large document is checked here
+try { setPriority(0, 10); } catch { /* not permitted here: run at the normal priority */ }
 
 const entry = new EntryDocumentSession();
 
