@@ -34,7 +34,9 @@ class DepthProblem extends Error {}
 
 const utf8 = new TextDecoder('utf-8', { fatal: true });
 const lenient = new TextDecoder('utf-8');
+/** bytes below 0x80 as text (a long run through the decoder: char by char, a 10 MB string took seconds) */
 const latin1 = (b: Uint8Array, from: number, to: number) => {
+  if (to - from > 32) return lenient.decode(b.subarray(from, to));
   let out = '';
   for (let k = from; k < to; k++) out += String.fromCharCode(b[k]);
   return out;
