@@ -10,13 +10,14 @@ import { fileURLToPath } from 'node:url';
 import express, { type ErrorRequestHandler, type Request, type Response, type NextFunction } from 'express';
 import helmet from 'helmet';
 import { toNodeHandler } from 'better-auth/node';
-import type { Config } from './config';
+import { trustedOriginsOf, type Config } from './config';
 import type { Database } from './db/client';
 import type { Mailer } from './mail/mailer';
 import type { Logger } from './log';
 import { createAuth, CLIENT_IP_HEADER } from './auth';
 import type { AppContext } from './context';
-import { AppError } from './errors';
+import { AppError, capProblems } from './errors';
+import { refuseNul } from './validate';
 import { actorMiddleware } from './middleware/actor';
 import { signInThrottle } from './middleware/sign-in-throttle';
 import { authPathGate } from './middleware/auth-paths';
@@ -24,7 +25,8 @@ import { createMailQueue } from './mail/queue';
 import { originCheck } from './middleware/origin-check';
 import { RouteTable } from './routes/registry';
 import { registerAllRoutes } from './routes';
-import { takesEntryDocument } from './routes/entries';
+import { ThreadPool } from './jobs/thread-pool';
+import { VersionCache } from './services/challenge-computations';
 
 export interface AppDeps {
   database: Database;
@@ -48,7 +50,7 @@ export async function createApp(deps: AppDeps) {
   const { config, log, database } = deps;
   const mailQueue = createMailQueue(log);
   const auth = createAuth({ db: database.db, config, mailer: deps.mailer, mailQueue, log, now });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots) };
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots), threads: new ThreadPool({ size: config.documentThreads }), versionCache: new VersionCache() };
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 
@@ -99,27 +101,27 @@ export async function createApp(deps: AppDeps) {
   // (verify: a nesting-depth limit; better-call re-serialises the parsed body recursively and
   // overflowed the stack on JSON nested 10,000 deep, which was a 500: tests/server/abuse.test.ts)
   const authJson = express.json({ limit: '64kb', verify: refuseDeepJson });
-  app.use('/api/auth', authJson);
+  app.use('/api/auth', authJson, refuseNul);
   // CSRF: better-auth itself accepted cookie-bearing POSTs from a foreign Origin (sign-out,
   // organization/create, update-user, ...: tests/server/abuse.test.ts); the same check as /api
-  app.use('/api/auth', originCheck([config.baseUrl, ...config.trustedOrigins]));
+  app.use('/api/auth', originCheck(trustedOriginsOf(config)));
   // only the better-auth endpoints the product uses are open (admin and API-key plugin endpoints are not)
   app.use('/api/auth', authPathGate());
   app.post('/api/auth/sign-in/email', signInThrottle(database.db, config.signInThrottle, now));
   app.all('/api/auth/{*any}', toNodeHandler(auth));
 
-  // entry documents are read as raw text by their own routes (strict parsing: duplicate keys,
-  // integers beyond 2^53, nesting depth); the global JSON parser skips exactly those paths
   // PostgreSQL text cannot hold NUL: a %00 in a path parameter or query reached the database and
   // came back as a 500 (found by tests/server/fuzz.test.ts); refuse it up front
   app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
     (req.originalUrl.includes('%00') || req.originalUrl.includes('\u0000') ? next(new AppError('bad_request', 'The URL contains a NUL character (%00), which no Parallax name or id contains.')) : next()));
-  const json = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
-  app.use('/api', (req: Request, res: Response, next: NextFunction) => (takesEntryDocument(req.method, req.path) ? next() : json(req, res, next)));
   app.use('/api', actorMiddleware(auth, database.db, config.sessionMaxAgeSec * 1000, now));
-  app.use('/api', originCheck([config.baseUrl, ...config.trustedOrigins]));
+  app.use('/api', originCheck(trustedOriginsOf(config)));
+  // bodies are read per route after its access check (server/routes/registry.ts): a small JSON
+  // limit by default, documentBody() on the routes that take large documents (entries, specs)
+  const parseJson = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
+  const json = (req: Request, res: Response, next: NextFunction) => parseJson(req, res, (e?: unknown) => (e ? next(e) : refuseNul(req, res, next)));
   const api = express.Router();
-  routes.mount(api, database.db);
+  routes.mount(api, database.db, json);
   app.use('/api', api);
   app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
     next(new AppError('not_found', `There is no API route ${req.method} ${req.path}. The routes are listed at /api/openapi.json.`)),
@@ -182,6 +184,6 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     }
     if (res.headersSent) return;
     for (const [k, v] of Object.entries(e.headers)) res.setHeader(k, v);
-    res.status(e.status).json({ error: { code: e.code, message: e.message, problems: e.problems, requestId: req.requestId } });
+    res.status(e.status).json({ error: { code: e.code, message: e.message.length > 2000 ? `${e.message.slice(0, 2000)}...` : e.message, problems: capProblems(e.problems), requestId: req.requestId } });
   };
 }

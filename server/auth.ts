@@ -12,7 +12,7 @@ import { APIError, createAuthMiddleware, getSessionFromCtx } from 'better-auth/a
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { admin, organization } from 'better-auth/plugins';
 import { apiKey } from '@better-auth/api-key';
-import type { Config } from './config';
+import { trustedOriginsOf, type Config } from './config';
 import type { Db } from './db/client';
 import * as schema from './db/schema';
 import type { Mailer } from './mail/mailer';
@@ -68,7 +68,7 @@ export function createAuth({ db, config, mailer, mailQueue, log, now = () => new
     secret: config.authSecret,
     telemetry: { enabled: false },
     database: drizzleAdapter(db, { provider: 'pg', schema: { ...schema } }),
-    trustedOrigins: [config.baseUrl, ...config.trustedOrigins],
+    trustedOrigins: trustedOriginsOf(config),
     emailAndPassword: {
       enabled: true,
       requireEmailVerification: true,

@@ -119,6 +119,7 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
       await worker?.stop();
       // queued account mail (reset, verification, invitations) goes out before the mailer closes (at most 5 s)
       await Promise.race([ctx.mailQueue.idle(), new Promise((r) => setTimeout(r, 5000).unref())]);
+      await ctx.threads.close();
       mailer.close();
       await smtp?.close();
       await database.close();

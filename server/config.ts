@@ -24,12 +24,14 @@ export interface Config {
   sessionMaxAgeSec: number;
   /** number of reverse proxies in front of the app (Express 'trust proxy' hop count) */
   trustProxyHops: number;
-  /** the maximum JSON body for any route, auth routes included */
+  /** the JSON body limit of every route that does not declare a document body (server/routes/registry.ts) */
   jsonLimitBytes: number;
   /** maximum upload size for entry files */
   uploadLimitBytes: number;
   /** how many large documents (entries, challenge specs) are read and processed at once */
   documentSlots: number;
+  /** worker threads for document-sized work (entry checks, QASM, light cones, plans) */
+  documentThreads: number;
   /** after the requests in flight at SIGTERM finish: how long new ones get 503 before the listener closes */
   shutdownDrainMs: number;
   /** extra origins trusted for cookie-bearing writes (e.g. the Vite dev server) */
@@ -77,9 +79,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     passwordHash: ASVS_SCRYPT,
     sessionMaxAgeSec: Number(env.SESSION_MAX_AGE_DAYS ?? 30) * 86400,
     trustProxyHops: Number(env.TRUST_PROXY_HOPS ?? 0),
-    jsonLimitBytes: 1024 * 1024 * Number(env.JSON_LIMIT_MIB ?? 12),
+    jsonLimitBytes: 1024 * Number(env.JSON_LIMIT_KB ?? 64),
     uploadLimitBytes: 1024 * 1024 * Number(env.UPLOAD_LIMIT_MIB ?? 10),
     documentSlots: Math.max(1, Number(env.DOCUMENT_SLOTS ?? 2)),
+    documentThreads: Math.max(1, Number(env.DOCUMENT_THREADS ?? env.DOCUMENT_SLOTS ?? 2)),
     shutdownDrainMs: Math.max(0, Number(env.SHUTDOWN_DRAIN_MS ?? 1000)),
     trustedOrigins: (env.TRUSTED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
     seedDemo: env.SEED_DEMO !== '0',
@@ -90,4 +93,15 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? 120), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? 26) },
     runWorker: env.RUN_WORKER !== '0',
   };
+}
+
+/**
+ * The origins trusted for cookie-bearing writes (the origin check and better-auth): BASE_URL, the
+ * loopback names of the port the server listens on (a browser at http://127.0.0.1:3000 or
+ * http://[::1]:3000 is the same local server as http://localhost:3000; signing in there failed
+ * with a bare "Invalid origin"), and TRUSTED_ORIGINS.
+ */
+export function trustedOriginsOf(config: Pick<Config, 'baseUrl' | 'port' | 'trustedOrigins'>): string[] {
+  const loopback = ['localhost', '127.0.0.1', '[::1]'].map((h) => `http://${h}:${config.port}`);
+  return [...new Set([config.baseUrl, ...loopback, ...config.trustedOrigins].map((o) => o.replace(/\/$/, '')))];
 }

@@ -10,6 +10,8 @@ import type { Mailer } from './mail/mailer';
 import type { MailQueue } from './mail/queue';
 import type { Logger } from './log';
 import type { Auth } from './auth';
+import type { ThreadPool } from './jobs/thread-pool';
+import type { VersionCache } from './services/challenge-computations';
 
 export interface AppContext {
   database: Database;
@@ -25,4 +27,8 @@ export interface AppContext {
   jobs: { kick(): void };
   /** processing slots shared by every route that reads a large document (server/util/document-body.ts) */
   documentSlots: Slots;
+  /** threads for document-sized work: entry checks, public computations on a challenge (server/jobs/thread-pool.ts) */
+  threads: ThreadPool;
+  /** results of public computations per challenge version (a stored version never changes) */
+  versionCache: VersionCache;
 }

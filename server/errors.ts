@@ -50,6 +50,17 @@ export class AppError extends Error {
   }
 }
 
+/** Problems listed in one answer; the rest are counted in a last line (a huge list was a 13.5 MB answer). */
+export const MAX_LISTED_PROBLEMS = 50;
+export function capProblems(problems: FieldProblem[], total = problems.length): FieldProblem[] {
+  if (problems.length <= MAX_LISTED_PROBLEMS && total <= problems.length) return problems;
+  // already cut, with its count of the rest as the last line
+  if (problems.length === MAX_LISTED_PROBLEMS + 1 && total <= problems.length && problems[MAX_LISTED_PROBLEMS].message.startsWith('... and ')) return problems;
+  const listed = problems.slice(0, MAX_LISTED_PROBLEMS);
+  listed.push({ path: '', message: `... and ${total - listed.length} more problem(s) not listed; fix these first` });
+  return listed;
+}
+
 export const badRequest = (message: string, problems: FieldProblem[] = []) => new AppError('bad_request', message, problems);
 export const invalid = (problems: FieldProblem[], message?: string) =>
   new AppError('validation_failed', message ?? `${problems[0]?.path || 'body'}: ${problems[0]?.message ?? 'invalid'}`, problems);

@@ -5,8 +5,6 @@
 import { and, asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { buildLattice } from '@shared/physics/lattices';
-import { compileInstance } from '@shared/physics/compile';
-import { toQasm3 } from '@shared/physics/qasm';
 import { planChallenge } from '@shared/physics/planner';
 import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../context';
@@ -23,6 +21,9 @@ import { standingsCache } from '../services/standings-cache';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
 import type { Request, Response } from 'express';
+import { Readable } from 'node:stream';
+import { pipeline } from 'node:stream/promises';
+import { computeForVersion } from '../services/challenge-computations';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
 import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';
@@ -74,20 +75,23 @@ export function submissionsStatus(c: ChallengeGate, now: Date) {
 const publishBody = z.object({ version: z.number().int().positive().optional(), reason: z.string().trim().max(2000).optional() }).strict();
 const SPEC_LIMIT = 10 * 1024 * 1024;
 
-/** The spec: the uploaded file (strict JSON: duplicate keys and inexact integers are refused), or the JSON body. */
-function specFromRequest(req: Request, res: Response): unknown {
+/**
+ * The spec, from the uploaded file or the JSON body alike: both are spooled by documentBody and
+ * parsed by the strict parser (duplicate keys, inexact integers, NUL characters are refused).
+ */
+function specFromRequest(_req: Request, res: Response): unknown {
   const bytes = res.locals.document as Buffer | undefined;
-  if (!bytes) return req.body;
+  if (!bytes?.length) throw badRequest('Send the challenge spec (schemas/challenge.schema.json) as the JSON body with Content-Type: application/json, or as the multipart field "file".', [{ path: '', message: 'the body is empty' }]);
   const r = parseStrictJson(bytes, { maxDepth: 64 });
   if (r.ok) return r.value;
-  throw badRequest(`The uploaded file is not a valid JSON challenge spec: ${r.problems[0].path ? `${r.problems[0].path}: ` : ''}${r.problems[0].message}.`, r.problems.map((p) => ({ path: p.path, message: p.message })).concat(r.syntax ? [{ path: '', message: 'upload a JSON challenge spec (schemas/challenge.schema.json)' }] : []));
+  throw badRequest(`The challenge spec is not valid JSON: ${r.problems[0].path ? `${r.problems[0].path}: ` : ''}${r.problems[0].message}.`, r.problems.map((p) => ({ path: p.path, message: p.message })).concat(r.syntax ? [{ path: '', message: 'send a JSON challenge spec (schemas/challenge.schema.json)' }] : []));
 }
 
 export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
-  /** a spec as multipart field "file" (a JSON body goes through the global JSON parser) */
+  /** a spec as the JSON body or the multipart field "file", spooled and parsed strictly either way */
   const upload = documentBody({
-    limit: SPEC_LIMIT, slots: ctx.documentSlots, rawBody: false,
+    limit: SPEC_LIMIT, slots: ctx.documentSlots, rawBody: true,
     tooLarge: () => new AppError('payload_too_large', `The challenge spec is larger than the limit of 10 MiB (${SPEC_LIMIT} bytes).`),
     wrongField: 'Upload the challenge spec in the multipart field "file" (curl -F file=@spec.json), one file only.',
   });
@@ -194,30 +198,30 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
   });
 
   routes.add({
-    method: 'get', path: '/challenges/:slug/instances/:instanceKey/qasm', access: 'public', summary: 'One instance as OpenQASM 3',
+    method: 'get', path: '/challenges/:slug/instances/:instanceKey/qasm', access: 'public', summary: 'One instance as OpenQASM 3 (computed once per version, streamed)',
     handler: async (req, res) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const ch = validateSpecOrThrow(v.spec);
-      const inst = ch.instances.find((i) => i.id === String(req.params.instanceKey));
-      if (!inst) throw notFound(`The instance "${String(req.params.instanceKey)}"`);
-      const qasm = toQasm3(compileInstance(ch.spec, inst), { challengeId: ch.spec.id, version: ch.spec.version, checksum: v.checksum, instanceId: inst.id, notes: [JSON.stringify(inst.params)] });
-      res.setHeader('Content-Disposition', `attachment; filename="${v.challengeSlug}-v${v.version}-${inst.id}.qasm"`);
-      res.type('text/plain').send(qasm);
+      const instanceId = String(req.params.instanceKey);
+      const q = await computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.qasm', { instanceId }, (r) => r.bytes);
+      res.setHeader('Content-Disposition', `attachment; filename="${v.challengeSlug}-v${v.version}-${instanceId}.qasm"`);
+      res.setHeader('Content-Length', String(q.bytes));
+      res.type('text/plain');
+      await pipeline(Readable.from(q.pieces.map((p) => Buffer.from(p.buffer, p.byteOffset, p.byteLength))), res);
     },
   });
 
   routes.add({
-    method: 'get', path: '/challenges/:slug/plan', access: 'public', summary: "The planner's report: per target, the exact method it would use and its estimated cost, or why none is feasible",
+    method: 'get', path: '/challenges/:slug/plan', access: 'public', summary: "The planner's report: per target, the exact method it would use and its estimated cost, or why none is feasible (computed once per version)",
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const plans = planChallenge(validateSpecOrThrow(v.spec));
-      return { version: v.version, plans: plans.map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone, clifford: p.clifford })) };
+      const plans = await computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.plan', {}, (r) => 200 * r.length);
+      return { version: v.version, plans };
     },
   });
 
   routes.add({
     method: 'post', path: '/challenges/preview', access: 'moderator', summary: 'Validate a spec and show the planner report without storing anything',
-    middleware: [upload],
+    body: upload,
     handler: async (req, res) => {
       const ch = validateSpecOrThrow(specFromRequest(req, res));
       const plans = planChallenge(ch);
@@ -233,7 +237,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
 
   routes.add({
     method: 'post', path: '/challenges', access: 'moderator', summary: 'Store a draft challenge version from a spec (JSON body or multipart field "file")',
-    middleware: [upload],
+    body: upload,
     handler: async (req, res) => {
       const out = await createChallengeVersion(db, specFromRequest(req, res), req.actor, ctx.now());
       res.status(201);

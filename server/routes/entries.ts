@@ -5,9 +5,10 @@
  * Which team: a team API key (x-api-key) implies its team; a signed-in user in exactly one team
  * posts for that team; a user in several teams says which with ?team=<teamId>.
  *
- * The document routes read the body as raw text (the global JSON parser skips them, see
- * takesEntryDocument and server/app.ts) so that the strict parser can report duplicate keys,
- * integers beyond 2^53 and deep nesting, which JSON.parse would hide.
+ * The document routes declare their own body reader (documentBody, see server/routes/registry.ts)
+ * and hand the raw bytes to a document thread (ctx.threads), where the strict parser reports
+ * duplicate keys, integers beyond 2^53, deep nesting and NUL characters, which JSON.parse would
+ * hide, and the checks run without holding the event loop.
  */
 import { type Request, type Response } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
@@ -29,13 +30,6 @@ import { parseBody } from '../validate';
 import { documentBody as readDocumentBody } from '../util/document-body';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
-
-/** The routes whose body is an entry document, read as raw text by the route itself. */
-export function takesEntryDocument(method: string, path: string): boolean {
-  if (method === 'POST') return /^\/challenges\/[^/]+\/entries\/?$/.test(path) || /^\/entries\/validate\/?$/.test(path);
-  if (method === 'PUT') return /^\/entries\/[^/]+\/?$/.test(path);
-  return false;
-}
 
 const withdrawBody = z.object({ reason: z.string().trim().min(1, 'say why the entry is withdrawn (it stays visible with the reason)').max(2000) }).strict();
 const mib = (b: number) => `${(b / 1024 / 1024).toFixed(b % (1024 * 1024) ? 1 : 0)} MiB`;
@@ -73,10 +67,10 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   routes.add({
     method: 'post', path: '/challenges/:slug/entries', access: 'team-member', apiKey: true, team: postingTeam,
     summary: 'Create a draft entry from a document (schemas/entry.schema.json) as the JSON body or multipart field "file"; ?team=<teamId> when you are in several teams',
-    middleware: [documentBody],
+    body: documentBody,
     handler: async (req, res) => {
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(res), { slug: String(req.params.slug), now, purpose: 'create' });
+      const check = await validateEntryDocument(db, documentText(res), { slug: String(req.params.slug), now, purpose: 'create', threads: ctx.threads });
       const doc = check.document;
       const teamId = (await postingTeam(req))!;
       const out = await createEntry(db, { check, teamId, actor: req.actor, now });
@@ -88,10 +82,10 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   routes.add({
     method: 'post', path: '/entries/validate', access: 'public',
     summary: 'Dry run: validate a document and preview its scores against the public exact references; stores nothing. acceptsDrafts: POST /api/challenges/<id>/entries would store it now; acceptsSubmissions: it could also be submitted now; acceptsEntries: the same as acceptsSubmissions (kept for compatibility)',
-    middleware: [documentBody],
+    body: documentBody,
     handler: async (req, res) => {
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(res), { now, purpose: 'dry-run' });
+      const check = await validateEntryDocument(db, documentText(res), { now, purpose: 'dry-run', threads: ctx.threads, preview: { now } });
       const doc = check.document;
       const scores = await previewScores(db, check, now);
       // what the challenge settings take now (the warnings say why not):
@@ -117,11 +111,11 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   routes.add({
     method: 'put', path: '/entries/:entryId', access: 'team-member', apiKey: true, team: entryTeam,
     summary: "Replace a draft's (or returned entry's) whole document; submitted and published entries are frozen",
-    middleware: [documentBody],
+    body: documentBody,
     handler: async (req, res) => {
       const e = await loadEntry(req);
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(res), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state } });
+      const check = await validateEntryDocument(db, documentText(res), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state }, threads: ctx.threads });
       const doc = check.document;
       const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now });
       return { ...out, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings };

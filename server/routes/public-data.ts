@@ -1,11 +1,9 @@
 /** Public data behind the challenge page's plots: estimates, light cones, and the history. */
 import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm';
-import { lightCone } from '@shared/physics/light-cone';
-import { compileInstance } from '@shared/physics/compile';
 import type { AppContext } from '../context';
 import { auditLog, challengeVersions, entries, estimates, jobs, organization, standings } from '../db/schema';
-import { badRequest, notFound } from '../errors';
-import { validateSpecOrThrow } from '../services/create-challenge-version';
+import { badRequest } from '../errors';
+import { computeForVersion } from '../services/challenge-computations';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import { publicEntries } from '../queries/entries';
 import { PUBLIC_VIEWER, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
@@ -44,14 +42,8 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
     method: 'get', path: '/challenges/:slug/targets/:targetKey/light-cone', access: 'public', summary: 'The qubits inside the backward light cone of a target (support-based upper bound)',
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const ch = validateSpecOrThrow(v.spec);
-      const key = String(req.params.targetKey);
-      const target = ch.targets.find((t) => t.id === key);
-      if (!target) throw notFound(`The target "${key}"`);
-      const inst = ch.instances.find((i) => i.id === target.instanceId)!;
-      const obs = ch.observables[ch.spec.observables.findIndex((o) => o.id === target.observableId)];
-      const lc = lightCone(compileInstance(ch.spec, inst), obs);
-      return { target: key, qubits: lc.qubits, total: ch.nQubits, nonCliffordRotations: lc.nonCliffordRotations, gatesInCone: lc.keptGates.length };
+      // computed in a document thread once per version and target (server/services/challenge-computations.ts)
+      return computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.lightCone', { targetKey: String(req.params.targetKey) }, (r) => 100 + 8 * r.qubits.length);
     },
   });
 

@@ -25,6 +25,12 @@ export interface RouteDef {
   team?: (req: Request) => Promise<string | null> | string | null;
   /** whether an API key may call it (team-member routes only) */
   apiKey?: boolean;
+  /**
+   * How the body is read, after the access check: by default (any method but GET) the small JSON
+   * parser (config.jsonLimitBytes); a route that takes a large document names its reader here,
+   * documentBody() from server/util/document-body.ts (spooled, strictly parsed by the route).
+   */
+  body?: RequestHandler;
   middleware?: RequestHandler[];
   handler: (req: Request, res: Response) => unknown;
 }
@@ -34,18 +40,20 @@ export class RouteTable {
   add(def: RouteDef): void {
     this.defs.push(def);
   }
-  mount(router: Router, db: Db): void {
+  /** json: the default body parser (small limit); no body is read before the access check passed */
+  mount(router: Router, db: Db, json: RequestHandler): void {
     for (const def of this.defs) {
+      const access = (req: Request, _res: Response, next: NextFunction) => { checkAccess(def, req, db).then(() => next(), next); };
+      const body = def.body ?? (def.method === 'get' ? null : json);
       const wrap = async (req: Request, res: Response, next: NextFunction) => {
         try {
-          await checkAccess(def, req, db);
           const out = await def.handler(req, res);
           if (out !== undefined && !res.headersSent) res.json(out);
         } catch (e) {
           next(e);
         }
       };
-      router[def.method](def.path, ...(def.middleware ?? []), wrap);
+      router[def.method](def.path, access, ...(body ? [body] : []), ...(def.middleware ?? []), wrap);
     }
   }
 }

@@ -5,6 +5,8 @@
  *  - duplicate keys, with the JSON pointer of the object and the key;
  *  - integers that cannot be represented exactly (|n| > 2^53 - 1), with their pointer;
  *  - nesting deeper than a limit (default 32), without recursing further;
+ *  - NUL characters (\u0000) in a key or a string, with their pointer (PostgreSQL text cannot
+ *    hold them, and no Parallax text needs one);
  *  - syntax errors with line, column and what was expected.
  * It builds the same values JSON.parse would (objects get a null-free own-property layout).
  *
@@ -32,7 +34,9 @@ class DepthProblem extends Error {}
 
 const utf8 = new TextDecoder('utf-8', { fatal: true });
 const lenient = new TextDecoder('utf-8');
+/** bytes below 0x80 as text (a long run through the decoder: char by char, a 10 MB string took seconds) */
 const latin1 = (b: Uint8Array, from: number, to: number) => {
+  if (to - from > 32) return lenient.decode(b.subarray(from, to));
   let out = '';
   for (let k = from; k < to; k++) out += String.fromCharCode(b[k]);
   return out;
@@ -79,7 +83,8 @@ export function parseStrictJson(input: string | Uint8Array, opts: StrictJsonOpti
     }
   };
 
-  const str = (): string => {
+  /** a string or key at `ptr` (a key: `key` is true, ptr is its object's pointer) */
+  const str = (ptr: string, key = false): string => {
     // i is at the opening quote
     const start = ++i;
     let escaped = false;
@@ -99,11 +104,19 @@ export function parseStrictJson(input: string | Uint8Array, opts: StrictJsonOpti
         }
         i++;
         if (!escaped) return raw;
+        let out: string;
         try {
-          return JSON.parse(`"${raw}"`) as string;
+          out = JSON.parse(`"${raw}"`) as string;
         } catch {
           return fail('a valid escape sequence in the string (\\n, \\t, \\", \\\\, \\uXXXX ...)', start - 1);
         }
+        if (out.includes('\u0000')) {
+          problem({ path: ptr, message: key
+            ? `a key of this object holds a NUL character (\\u0000), which no Parallax field name contains: remove it`
+            : `holds a NUL character (\\u0000), which no Parallax text may contain: remove it` });
+          out = out.replaceAll('\u0000', '\ufffd'); // the problem is reported; the key path stays printable
+        }
+        return out;
       }
       if (c === 92) { escaped = true; i += 2; continue; }
       if (c >= 0x80) ascii = false;
@@ -175,7 +188,7 @@ export function parseStrictJson(input: string | Uint8Array, opts: StrictJsonOpti
       for (;;) {
         ws();
         if (text[i] !== 34) fail('a key in double quotes');
-        const key = str();
+        const key = str(ptr, true);
         ws();
         if (text[i] !== 58) fail('a colon : after the key');
         i++;
@@ -210,7 +223,7 @@ export function parseStrictJson(input: string | Uint8Array, opts: StrictJsonOpti
         fail('a comma , or the closing bracket ]');
       }
     }
-    if (c === 34) return str();
+    if (c === 34) return str(ptr);
     if (c === 45 || (c >= 48 && c <= 57)) return num(ptr);
     if (c === 116) return lit('true', true);
     if (c === 102) return lit('false', false);

@@ -2,9 +2,13 @@
  * API fuzzing (RELIABILITY.md item 18): 10,000 seeded random requests (FUZZ_REQUESTS overrides)
  * over the declared routes, from a visitor, a team member's session and a team API key: random
  * methods, path parameters, query strings, headers and bodies (random JSON, broken JSON, huge
- * numbers, odd Unicode, injection strings). No response may be a 5xx, and no body may carry a stack
- * trace, SQL text, 'node_modules', a token or someone else's e-mail address.
+ * numbers, odd Unicode, NUL characters, injection strings, gzip bodies that are broken or inflate
+ * far beyond the limits). No response may be a 5xx, and no body may carry a stack trace, SQL text,
+ * 'node_modules', a token or someone else's e-mail address. A second pass sends hostile documents
+ * (huge estimate arrays, gzip bombs, NUL characters, 200,000 unknown keys) at random routes while
+ * GET /api/health is timed alongside (issue 12).
  */
+import { gzipSync } from 'node:zlib';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -56,6 +60,9 @@ function send(method: string, path: string, headers: Record<string, string>, bod
   });
 }
 
+/** 40 MiB of zeros in 40 KiB of gzip */
+const BOMB = gzipSync(Buffer.alloc(40 * 1024 * 1024));
+
 const FORBIDDEN_TEXT: [string, RegExp][] = [
   ['stack trace', /\n\s+at |at [\w.<>]+ \(\/|\.ts:\d+|\.js:\d+/],
   ['SQL text', /\b(select .+ from|insert into|update .+ set|delete from|syntax error at|relation "|violates (unique|foreign key|not-null)|duplicate key value)/i],
@@ -89,6 +96,7 @@ describe('API fuzzing', () => {
       if (r < 0.15) return undefined;
       if (r < 0.25) return Buffer.from(rnd.pick(['{', '{"a":', 'null', '[]', '"x"', '{"a":1,"a":2}', '{"n": 123456789012345678901234567890}', '\u0000', 'NaN', '{"x": Infinity}']));
       if (r < 0.35) return Buffer.from(JSON.stringify(fullSweep(w, rnd.next() < 0.5 ? { label: scalar() } : { track: scalar() })));
+      if (r < 0.38) return Buffer.from(JSON.stringify(fullSweep(w, { label: 'nul\u0000', notes: '\u0000', method: { family: 'other\u0000' } })));
       return Buffer.from(JSON.stringify(value(0)));
     };
     const methods = ['get', 'post', 'put', 'patch', 'delete'] as const;
@@ -113,9 +121,16 @@ describe('API fuzzing', () => {
       if (caller === 2) headers['x-api-key'] = rnd.next() < 0.9 ? w.keyA : 'plx_' + 'x'.repeat(rnd.int(300));
       const b = method === 'GET' || method === 'DELETE' ? undefined : body();
       if (b) headers['content-type'] = rnd.pick(['application/json', 'application/json', 'text/plain', 'application/x-www-form-urlencoded', 'multipart/form-data; boundary=zz']);
+      // hostile gzip: a compressed body, a body that is not gzip at all, a bomb far over every limit
+      let sent = b;
+      if (b && rnd.next() < 0.06) {
+        headers['content-encoding'] = 'gzip';
+        const g = rnd.int(3);
+        sent = g === 0 ? gzipSync(b) : g === 1 ? b : BOMB;
+      }
       let r: { status: number; text: string };
       try {
-        r = await send(method, path, headers, b);
+        r = await send(method, path, headers, sent);
       } catch (e) {
         problems.push(`#${i} ${method} ${path}: connection error ${String(e)}`);
         continue;
@@ -136,4 +151,53 @@ describe('API fuzzing', () => {
     if (problems.length) console.log(w.t.logs.filter((l) => l.includes('"unhandled"')).slice(0, 3).join('\n'));
     expect(problems).toEqual([]);
   }, 600_000);
+});
+
+describe('hostile documents with the health route timed alongside', () => {
+  it('huge estimate arrays, gzip bombs within and beyond the limits, NUL characters, 200,000 unknown keys: no 5xx, /api/health within 1 s', async () => {
+    const rnd = prng(SEED + 1);
+    const { estimates: _all, ...rest } = fullSweep(w);
+    void _all;
+    const envelope = JSON.stringify(rest).slice(1, -1);
+    const hostile: (() => { body: Buffer; gzip: boolean })[] = [
+      () => ({ body: gzipSync(`{${envelope},"estimates":[${Array(60_000 + rnd.int(40_000)).fill('{}').join(',')}]}`), gzip: true }),
+      () => ({ body: gzipSync(`{${envelope},"estimates":[${Array(50_000).fill('{"target":7,"value":"NaN","uncertainty":-1,"uncertaintyKind":"?","x":1}').join(',')}]}`), gzip: true }),
+      () => ({ body: gzipSync(`{${envelope},"notes":"${' '.repeat(9 * 1024 * 1024)}","estimates":[]}`), gzip: true }),
+      () => ({ body: BOMB, gzip: true }),
+      () => ({ body: Buffer.from(`{${envelope},"label":"\\u0000","estimates":[{"target":"\\u0000","value":0,"uncertainty":0,"uncertaintyKind":"none"}]}`), gzip: false }),
+      () => ({ body: gzipSync(`{${Array.from({ length: 200_000 }, (_, i) => `"k${i}":0`).join(',')}}`), gzip: true }),
+    ];
+    // as the member signed in (the fuzz pass above used up the API key's quota)
+    const targets = ['/api/entries/validate', '/api/challenges/chain-12/entries', `/api/entries/${entryId}`, `/api/entries/${entryId}/withdraw`];
+    let worst = 0;
+    let stop = false;
+    const poll = (async () => {
+      while (!stop) {
+        const t0 = performance.now();
+        const h = await send('GET', '/api/health', {});
+        if (h.status === 200) worst = Math.max(worst, performance.now() - t0);
+        await new Promise((res) => setTimeout(res, 25));
+      }
+    })();
+    const problems: string[] = [];
+    const statuses = new Map<number, number>();
+    try {
+      for (let i = 0; i < 24; i++) {
+        const { body, gzip } = rnd.pick(hostile)();
+        const path = rnd.pick(targets);
+        const headers: Record<string, string> = { origin: ORIGIN, 'content-type': 'application/json', ...(gzip ? { 'content-encoding': 'gzip' } : {}) };
+        headers.cookie = cookie;
+        const r = await send(path.endsWith('entries/' + entryId) ? 'PUT' : 'POST', path, headers, body);
+        statuses.set(r.status, (statuses.get(r.status) ?? 0) + 1);
+        if (r.status >= 500) problems.push(`${path} -> ${r.status} ${r.text.slice(0, 200)}`);
+        if (r.text.length > 50_000) problems.push(`${path}: a ${r.text.length}-byte answer`);
+      }
+    } finally {
+      stop = true;
+      await poll;
+    }
+    console.log(`[fuzz] 24 hostile documents: ${[...statuses.entries()].map(([k, n]) => `${k}: ${n}`).join(', ')}; /api/health at worst ${Math.round(worst)} ms`);
+    expect(problems).toEqual([]);
+    expect(worst).toBeLessThan(1000);
+  }, 300_000);
 });

@@ -83,6 +83,7 @@ export async function appOnDatabase(database: Database, env: Record<string, stri
   return {
     app, ctx, routes, database, config, logs, clock, databaseUrl: (database as Database & { url?: string }).url,
     async close() {
+      await ctx.threads.close();
       mailer.close();
       await smtp.close();
       await database.close();

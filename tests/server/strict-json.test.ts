@@ -47,4 +47,15 @@ describe('strict JSON', () => {
     const e = parseStrictJson('{"é→": x}');
     expect((e as { problems: { message: string }[] }).problems[0].message).toMatch(/^not valid JSON at line 1, column 8 \(character 8\)/);
   });
+
+  it('refuses a NUL character (\\u0000) in a string or a key, naming the field (issue 12, item 14)', () => {
+    const r = parseStrictJson('{"label":"a\\u0000b","list":["ok","\\u0000"],"k\\u0000":1,"fine":"\\u0001"}');
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems.map((p) => p.path)).toEqual(['/label', '/list/1', '']);
+    expect(r.problems[0].message).toMatch(/NUL character/);
+    // long ASCII strings are read whole, to the same value
+    const long = 'x'.repeat(100_000);
+    expect(parseStrictJson(JSON.stringify({ long }))).toEqual({ ok: true, value: { long } });
+  });
 });
