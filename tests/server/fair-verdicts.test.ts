@@ -1,0 +1,106 @@
+/**
+ * Fair verdicts (issue 11), played through the API: a small challenge with twelve targets, six
+ * with exact references and six treated as unknown (their exact values kept here as the truth),
+ * and the kinds of entry that used to game the standings:
+ * - honest: truth + noise of size 0.01, u = 0.01 (two teams: "honest" and "careful", u = 0.003);
+ * - mediocre: truth + noise of size 0.03 with honest u = 0.03, and "inflated": the same values
+ *   claiming u = 10;
+ * - partial: the two easiest targets only, exactly (u = 0);
+ * - exact: every target to the last bits (values off by a few ulps) with u = 0;
+ * - sybil: one team, four near-copies (1e-11 apart) of biased values (truth + 0.05, u = 0.005);
+ * - solo: one target nobody else answers, 0.5 off the truth;
+ * - the house baseline.
+ * All numbers are invented for this test (the noise is a fixed list, not drawn).
+ */
+import { randomUUID } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
+import { startWorker, type Worker } from '../../server/jobs/worker';
+import { entries, estimates, organization, targets, references } from '../../server/db/schema';
+import { recomputeStandings } from '../../server/services/recompute-standings';
+
+let t: TestApp;
+let worker: Worker;
+const SPEC = {
+  id: 'fair-game', version: 1, title: 'Fair verdicts game', description: 'twelve targets, honest and gaming entries',
+  lattice: { kind: 'chain', n: 6 },
+  circuit: { family: 'kicked-ising', steps: [1, 2, 3], thetaH: [0.3, 0.7] },
+  observables: [{ id: 'z2', pauli: 'Z2' }, { id: 'x3', pauli: 'X3' }],
+};
+// fixed pseudo-noise in [-1, 1] (invented)
+const NOISE = [0.31, -0.72, 0.15, 0.88, -0.43, 0.05, -0.97, 0.64, -0.21, 0.49, -0.58, 0.27];
+const places: Record<string, Record<string, string>> = {};
+
+let keys: string[] = [];
+const truth: Record<string, number> = {};
+let solo = '';
+
+beforeAll(async () => {
+  t = await makeTestApp();
+  const mod = await signUpVerified(t, 'mod@fair.test');
+  await setRole(t, 'mod@fair.test', 'moderator');
+  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  t.ctx.jobs.kick = () => worker.kick();
+  expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
+  expect((await mod.post('/api/challenges/fair-game/publish', {})).status).toBe(200);
+  for (let i = 0; i < 300 && (await t.database.db.query.jobs.findMany()).some((j) => j.state !== 'done' && j.state !== 'failed'); i++) { await worker.idle(); await new Promise((r) => setTimeout(r, 100)); }
+  const db = t.database.db;
+  const tg = await db.select({ id: targets.id, key: targets.key, versionId: targets.versionId, value: references.value }).from(targets).innerJoin(references, eq(references.targetId, targets.id)).orderBy(targets.key);
+  keys = tg.map((x) => x.key);
+  expect(keys).toHaveLength(12);
+  for (const x of tg) truth[x.key] = x.value as number;
+  // every other target becomes unverifiable (as if no exact method existed); the truth is kept here
+  const unverifiable = tg.filter((_, i) => i % 2 === 1);
+  for (const x of unverifiable) await db.update(references).set({ value: null, method: 'none', reason: 'test: treated as unknown' }).where(eq(references.targetId, x.id));
+  solo = unverifiable[unverifiable.length - 1].key;
+  const common = keys.filter((k) => k !== solo);
+  const verifiable = tg.filter((_, i) => i % 2 === 0).map((x) => x.key);
+  const easiest = verifiable.slice(0, 2);
+  const ulps = (x: number, n: number) => x + n * Math.max(Math.abs(x), 1) * 2 ** -52;
+  const game: Record<string, { team: string; est: [string, number, number][] }> = {
+    honest: { team: 'team-honest', est: common.map((k, i) => [k, truth[k] + 0.01 * NOISE[i], 0.01]) },
+    careful: { team: 'team-careful', est: common.map((k, i) => [k, truth[k] + 0.003 * NOISE[(i + 5) % 12], 0.003]) },
+    mediocre: { team: 'team-mediocre', est: common.map((k, i) => [k, truth[k] + 0.03 * NOISE[(i + 3) % 12], 0.03]) },
+    inflated: { team: 'team-inflated', est: common.map((k, i) => [k, truth[k] + 0.03 * NOISE[(i + 3) % 12], 10]) },
+    partial: { team: 'team-partial', est: easiest.map((k) => [k, truth[k], 0]) },
+    exact: { team: 'team-exact', est: common.map((k, i) => [k, ulps(truth[k], (i % 3) - 1), 0]) },
+    sybil1: { team: 'team-sybil', est: common.map((k, i) => [k, truth[k] + 0.05 + 0.002 * NOISE[i], 0.005]) },
+    sybil2: { team: 'team-sybil', est: common.map((k, i) => [k, truth[k] + 0.05 + 0.002 * NOISE[i] + 1e-11, 0.005]) },
+    sybil3: { team: 'team-sybil', est: common.map((k, i) => [k, truth[k] + 0.05 + 0.002 * NOISE[i] + 2e-11, 0.005]) },
+    sybil4: { team: 'team-sybil', est: common.map((k, i) => [k, truth[k] + 0.05 + 0.002 * NOISE[i] - 1e-11, 0.005]) },
+    solo: { team: 'team-solo', est: [[solo, truth[solo] + 0.5, 0.01]] },
+  };
+  let n = 0;
+  for (const team of new Set(Object.values(game).map((g) => g.team))) await db.insert(organization).values({ id: team, name: team, slug: team });
+  for (const [name, g] of Object.entries(game)) {
+    const id = randomUUID();
+    await db.insert(entries).values({ id, lineageId: id, challengeSlug: 'fair-game', versionId: tg[0].versionId, teamId: g.team, state: 'published', track: 'classical', methodFamily: 'other', label: `entry ${name}`, document: { resources: { cpuCoreHours: 1 } }, submittedAt: new Date(Date.UTC(2026, 10, 1) + n * 1000), publishedAt: new Date() });
+    await db.insert(estimates).values(g.est.map(([targetKey, value, uncertainty]) => ({ entryId: id, targetKey, value, uncertainty, kind: uncertainty === 0 ? 'none' : 'statistical' })));
+    n++;
+  }
+  await recomputeStandings(db, tg[0].versionId);
+}, 120_000);
+afterAll(async () => {
+  // the places, for the report (before / after the change)
+  console.log(JSON.stringify(places, null, 1));
+  await worker.stop();
+  await t.close();
+});
+
+const nameOf = (e: { label: string; isBaseline: boolean }) => (e.isBaseline ? 'baseline' : e.label.replace('entry ', ''));
+
+async function standingsFor(metric?: string) {
+  const r = await agent(t).get(`/api/challenges/fair-game/standings${metric ? `?metric=${metric}` : ''}`);
+  expect(r.status).toBe(200);
+  const rows = r.body.entries as any[];
+  places[metric ?? 'default'] = Object.fromEntries(rows.map((e) => [nameOf(e), e.rank === null || e.rank === undefined ? 'not ranked' : String(e.rank)]));
+  return r.body;
+}
+
+describe('fair verdicts: a small game through the API', () => {
+  it('records the places under the default metric and under agreement', async () => {
+    await standingsFor();
+    await standingsFor('agreement');
+  });
+});
