@@ -8,6 +8,7 @@ import { buildLattice } from '@shared/physics/lattices';
 import { compileInstance } from '@shared/physics/compile';
 import { toQasm3 } from '@shared/physics/qasm';
 import { planChallenge } from '@shared/physics/planner';
+import { plannerOptions } from '../planner-options';
 import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../context';
 import type { Db } from '../db/client';
@@ -184,7 +185,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
             key: r.key, instance: r.instance, params: r.params, observable: r.observable,
             disputed: r.disputed || Boolean(k?.disputed), disputeNote: r.disputeNote,
             reference: presentReference(r.ref, now),
-            consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed } : null,
+            consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed, teams: k.teams ?? null, ranked: k.ranked ?? null, noConsensus: k.noConsensus ?? null, includedCount: k.includedCount, excluded: k.excluded } : null,
           };
         }),
       };
@@ -218,7 +219,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     method: 'get', path: '/challenges/:slug/plan', access: 'public', summary: "The planner's report: per target, the exact method it would use and its estimated cost, or why none is feasible",
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const plans = planChallenge(validateSpecOrThrow(v.spec));
+      const plans = planChallenge(validateSpecOrThrow(v.spec), plannerOptions(ctx.config.referenceBudget));
       return { version: v.version, plans: plans.map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone, clifford: p.clifford })) };
     },
   });
@@ -228,7 +229,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     middleware: [upload],
     handler: async (req, res) => {
       const ch = validateSpecOrThrow(specFromRequest(req, res));
-      const plans = planChallenge(ch);
+      const plans = planChallenge(ch, plannerOptions(ctx.config.referenceBudget));
       const graph = buildLattice(ch.spec.lattice);
       return {
         id: ch.spec.id, version: ch.spec.version, checksum: ch.checksum, qubits: ch.nQubits, instances: ch.instances.length, targets: ch.targets.length,

@@ -19,6 +19,7 @@ import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './hel
 import { startWorker, type Worker } from '../../server/jobs/worker';
 import { entries, estimates, organization, targets, references } from '../../server/db/schema';
 import { recomputeStandings } from '../../server/services/recompute-standings';
+import { SCORING_RULES_VERSION } from '../../shared/scoring/rules';
 
 let t: TestApp;
 let worker: Worker;
@@ -98,9 +99,87 @@ async function standingsFor(metric?: string) {
   return r.body;
 }
 
+const by = (body: any) => new Map<string, any>((body.entries as any[]).map((e) => [nameOf(e), e]));
+
 describe('fair verdicts: a small game through the API', () => {
-  it('records the places under the default metric and under agreement', async () => {
-    await standingsFor();
-    await standingsFor('agreement');
+  it('records the places under every metric; ranks are 1..n with a rank interval that contains the rank', async () => {
+    for (const m of [undefined, 'crps-verifiable', 'agreement']) {
+      const body = await standingsFor(m);
+      expect(body.scoringRulesVersion).toBe(SCORING_RULES_VERSION);
+      const ranked = (body.entries as any[]).filter((e) => e.rank !== null);
+      expect(ranked.map((e) => e.rank)).toEqual(ranked.map((_, i) => i + 1));
+      for (const e of ranked) {
+        expect(e.rankInterval[0]).toBeLessThanOrEqual(e.rankInterval[1]);
+        expect(e.rankInterval[0]).toBeGreaterThanOrEqual(1);
+        expect(e.rankInterval[1]).toBeLessThanOrEqual(ranked.length);
+        expect(e.rulesVersion).toBe(SCORING_RULES_VERSION);
+      }
+    }
+  });
+
+  it('partial: ranks below every complete entry that is as good on its two targets; coverage 2 of 11 is shown', async () => {
+    const r = by(await standingsFor());
+    const p = r.get('partial');
+    expect(p.coverage.overall).toEqual({ answered: 2, ranked: 11 });
+    for (const n of ['honest', 'careful', 'exact', 'mediocre']) expect(r.get(n).rank, n).toBeLessThan(p.rank);
+    expect(r.get('exact').coverage.overall).toEqual({ answered: 11, ranked: 11 });
+  });
+
+  it('inflated: claiming u = 10 on the same values ranks below the honest u, under every metric', async () => {
+    for (const m of [undefined, 'crps-verifiable', 'agreement']) {
+      const r = by(await standingsFor(m));
+      expect(r.get('inflated').rank, String(m)).toBeGreaterThan(r.get('mediocre').rank);
+    }
+  });
+
+  it('exact with rounding noise: covered on every verifiable target, z finite, first on the exact references', async () => {
+    const r = by(await standingsFor('crps-verifiable'));
+    const x = r.get('exact');
+    expect(x.metrics.coveredVerifiable).toBe(1);
+    expect(Number.isFinite(x.metrics.meanZ2Verifiable)).toBe(true);
+    expect(x.rank).toBe(1);
+    expect(x.metrics.scoreVerifiable).toBeLessThan(1e-14);
+  });
+
+  it('sybil: four near-copies count once in the consensus and are flagged as one team; the careful entry is not pushed below them', async () => {
+    const body = await standingsFor('agreement');
+    const r = by(body);
+    const tg = (await agent(t).get('/api/challenges/fair-game/targets')).body.targets as any[];
+    const unv = tg.filter((x) => x.reference.status !== 'exact' && x.key !== solo);
+    expect(unv.length).toBe(5);
+    // six teams answered (honest, careful, mediocre, inflated, exact, sybil): six results, one per team;
+    // the sybil team's three older copies and the baseline are listed as not included
+    const sybilIds = ['sybil1', 'sybil2', 'sybil3'].map((n) => r.get(n).id);
+    for (const x of unv) {
+      expect(x.consensus.teams).toBe(6);
+      expect(x.consensus.includedCount).toBe(6);
+      expect(x.consensus.excluded).toEqual(expect.arrayContaining(sybilIds));
+      expect(x.consensus.excluded).not.toContain(r.get('sybil4').id);
+    }
+    for (const n of ['sybil1', 'sybil2', 'sybil3', 'sybil4']) expect(r.get('careful').rank).toBeLessThan(r.get(n).rank);
+    // near-copies across teams, for review: mediocre and inflated post the same values (the sybil
+    // copies are one team's, which the consensus already counts once)
+    expect(body.nearCopies.map((x: any) => [x.teamA, x.teamB].sort())).toEqual([['team-inflated', 'team-mediocre']]);
+  });
+
+  it('solo: its target has no consensus and is not ranked; the solo entry, with nothing ranked answered, is last', async () => {
+    const body = await standingsFor();
+    const r = by(body);
+    const tg = (await agent(t).get('/api/challenges/fair-game/targets')).body.targets as any[];
+    const st = tg.find((x) => x.key === solo);
+    expect(st.consensus.value).toBeNull();
+    expect(st.consensus.ranked).toBe(false);
+    expect(r.get('solo').coverage.overall.answered).toBe(0);
+    expect(r.get('solo').rank).toBe(Math.max(...(body.entries as any[]).filter((e) => e.rank !== null).map((e) => e.rank)));
+  });
+
+  it('house baseline: listed as an unranked reference row, bound capped at the observable bound, never in the consensus', async () => {
+    const body = await standingsFor();
+    const b = (body.entries as any[]).find((e) => e.isBaseline);
+    expect(b.rank).toBeNull();
+    expect(b.isReference).toBe(true);
+    expect(b.bound.max).toBeLessThanOrEqual(1);
+    const tg = (await agent(t).get('/api/challenges/fair-game/targets')).body.targets as any[];
+    for (const x of tg.filter((y) => y.consensus.value !== null)) expect(x.consensus.excluded).toContain(b.id);
   });
 });
