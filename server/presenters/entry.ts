@@ -7,7 +7,7 @@ import { and, asc, count, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { auditLog, challengeVersions, entries, estimates, organization, references, targets } from '../db/schema';
 import type { EntryDocument, EntryEstimate } from '../services/validate-entry';
-import { boundOf, crpsCensoredNormal, degreesOfEquivalence, expectedCrpsNormal, scoreAgainstReference } from '@shared/scoring';
+import { SCORING_RULES_VERSION, boundOf, crpsCensoredNormal, degreesOfEquivalence, expectedCrpsNormal, scoreAgainstReference } from '@shared/scoring';
 import { effectiveUncertainty } from '@shared/scoring/standings';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 
@@ -87,5 +87,7 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
     })),
     document: doc,
     scores: doc ? await estimateScores(db, e, doc.estimates, opts.now ?? new Date()) : undefined,
+    // the rules the scores above follow (shared/scoring/rules.ts; /scoring states them)
+    scoringRulesVersion: doc ? SCORING_RULES_VERSION : undefined,
   };
 }

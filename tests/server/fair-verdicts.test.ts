@@ -14,12 +14,12 @@
  */
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { desc, eq } from 'drizzle-orm';
 import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
 import { startWorker, type Worker } from '../../server/jobs/worker';
-import { entries, estimates, organization, targets, references } from '../../server/db/schema';
-import { recomputeStandings } from '../../server/services/recompute-standings';
-import { SCORING_RULES_VERSION } from '../../shared/scoring/rules';
+import { entries, estimates, organization, targets, references, standings } from '../../server/db/schema';
+import { recomputeStandings, rescoreOutdatedStandings } from '../../server/services/recompute-standings';
+import { PREVIOUS_SCORING_RULES_VERSION, SCORING_RULES_VERSION } from '../../shared/scoring/rules';
 
 let t: TestApp;
 let worker: Worker;
@@ -181,5 +181,34 @@ describe('fair verdicts: a small game through the API', () => {
     expect(b.bound.max).toBeLessThanOrEqual(1);
     const tg = (await agent(t).get('/api/challenges/fair-game/targets')).body.targets as any[];
     for (const x of tg.filter((y) => y.consensus.value !== null)) expect(x.consensus.excluded).toContain(b.id);
+  });
+
+  it('an entry page scores the exact entry as covered with its rules version', async () => {
+    const r = by(await standingsFor());
+    const page = await agent(t).get(`/api/entries/${r.get('exact').id}`);
+    expect(page.status).toBe(200);
+    expect(page.body.scoringRulesVersion).toBe(SCORING_RULES_VERSION);
+    const withRef = (page.body.scores as any[]).filter((x) => x.reference);
+    expect(withRef.length).toBe(6);
+    for (const x of withRef) {
+      expect(x.reference.covered).toBe(true);
+      expect(x.reference.crps).toBeLessThan(1e-14);
+    }
+  });
+
+  it('a change of the scoring rules is a rescoring: standings recomputed, history says "Scoring rules X -> Y"', async () => {
+    const db = t.database.db;
+    // as if the newest row had been computed under the previous rules
+    const [latest] = await db.select({ id: standings.id }).from(standings).orderBy(desc(standings.computedAt)).limit(1);
+    await db.update(standings).set({ scoringRulesVersion: PREVIOUS_SCORING_RULES_VERSION }).where(eq(standings.id, latest.id));
+    const stale = await agent(t).get('/api/challenges/fair-game/standings?track=classical');
+    expect(stale.body.status).toBe('rescoring');
+    expect((await rescoreOutdatedStandings(db)).length).toBe(1);
+    worker.kick();
+    for (let i = 0; i < 100 && (await db.query.jobs.findMany()).some((j) => j.state !== 'done' && j.state !== 'failed'); i++) { await worker.idle(); await new Promise((r) => setTimeout(r, 100)); }
+    const h = await agent(t).get('/api/challenges/fair-game/history');
+    const ev = (h.body.events as any[]).find((e) => e.kind === 'rescoring');
+    expect(ev.summary).toContain(`Scoring rules ${PREVIOUS_SCORING_RULES_VERSION} -> ${SCORING_RULES_VERSION}`);
+    expect(await rescoreOutdatedStandings(db)).toEqual([]);
   });
 });

@@ -60,7 +60,7 @@ export function RankCell({ e }: { e: StandingsEntry }) {
   return (
     <span className="whitespace-nowrap">
       <span className="num">{e.tiedWithPrevious ? '=' : ''}{e.rank}</span>
-      {iv && (iv[0] !== iv[1] || iv[0] !== e.rank) && <span className="num ml-1 text-xs text-ink-soft" title="95% interval of the rank from a bootstrap over the ranked targets">{iv[0]}–{iv[1]}</span>}
+      {iv && <span className="num ml-1 text-xs text-ink-soft" title="95% interval of the rank from a bootstrap over the ranked targets">{iv[0] === iv[1] ? `[${iv[0]}]` : `[${iv[0]}–${iv[1]}]`}</span>}
     </span>
   );
 }
