@@ -212,3 +212,28 @@ describe('fair verdicts: a small game through the API', () => {
     expect(await rescoreOutdatedStandings(db)).toEqual([]);
   });
 });
+
+describe('one planner, one configured budget', () => {
+  it('/plan and the authoring preview plan with REFERENCE_* budget the reference job uses', async () => {
+    // a budget too small for any exact method: the public plan must not promise one
+    const small = await makeTestApp({ referenceBudget: { secondsPerTarget: 1e-12, coneQubitLimit: 1 } });
+    try {
+      const mod = await signUpVerified(small, 'mod@plan.test');
+      await setRole(small, 'mod@plan.test', 'moderator');
+      const spec = { ...SPEC, id: 'plan-budget', title: 'Plan budget' };
+      const preview = await mod.post('/api/challenges/preview', spec);
+      expect(preview.status, preview.text).toBe(200);
+      expect(preview.body.plans.every((p: any) => p.method === null)).toBe(true);
+      expect((await mod.post('/api/challenges', spec)).status).toBe(201);
+      expect((await mod.post('/api/challenges/plan-budget/publish', {})).status).toBe(200);
+      const plan = await agent(small).get('/api/challenges/plan-budget/plan');
+      expect(plan.status).toBe(200);
+      expect(plan.body.plans.every((p: any) => p.method === null && typeof p.reason === 'string')).toBe(true);
+      // the default budget of the same server code plans exact methods for this small chain
+      const open = await agent(t).get('/api/challenges/fair-game/plan');
+      expect(open.body.plans.every((p: any) => p.method !== null)).toBe(true);
+    } finally {
+      await small.close();
+    }
+  }, 60_000);
+});
