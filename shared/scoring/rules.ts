@@ -32,8 +32,10 @@ export const EXACT_TOLERANCE = 1e-10;
 export const MIN_INDEPENDENT_TEAMS = 2;
 export const BOOTSTRAP_REPLICATES = 200;
 export const BOOTSTRAP_SEED = 20261205;
+/** Fewest resamples, whatever the size of the challenge. */
+export const BOOTSTRAP_MIN_REPLICATES = 20;
 /** Work limit of the bootstrap (entries x targets x replicates), so that big challenges stay fast. */
-export const BOOTSTRAP_WORK_LIMIT = 20_000_000;
+export const BOOTSTRAP_WORK_LIMIT = 2_000_000;
 /** Near-copies: values equal to NEAR_COPY_RELATIVE (relative) on more than NEAR_COPY_FRACTION of
  * at least NEAR_COPY_MIN_SHARED shared targets. */
 export const NEAR_COPY_RELATIVE = 1e-6;
@@ -73,22 +75,32 @@ export function findNearCopies(list: readonly NearCopyInput[], options: { relati
   const frac = options.fraction ?? NEAR_COPY_FRACTION;
   const minShared = options.minShared ?? NEAR_COPY_MIN_SHARED;
   const sorted = [...list].sort((x, y) => (x.id < y.id ? -1 : x.id > y.id ? 1 : 0));
+  // values by target index (NaN: not answered), so that the pair loop reads arrays, not maps
+  const keyIdx = new Map<string, number>();
+  for (const e of sorted) for (const k of e.estimates.keys()) if (!keyIdx.has(k)) keyIdx.set(k, keyIdx.size);
+  const nK = keyIdx.size;
+  const vals = sorted.map((e) => {
+    const a = new Float64Array(nK).fill(NaN);
+    for (const [k, v] of e.estimates) a[keyIdx.get(k)!] = v.value;
+    return a;
+  });
   const out: NearCopy[] = [];
   for (let i = 0; i < sorted.length; i++) {
     for (let j = i + 1; j < sorted.length; j++) {
-      const A = sorted[i];
-      const B = sorted[j];
-      if (A.teamId === B.teamId) continue;
+      if (sorted[i].teamId === sorted[j].teamId) continue;
+      const A = vals[i];
+      const B = vals[j];
       let shared = 0;
       let equal = 0;
-      for (const [k, ea] of A.estimates) {
-        const eb = B.estimates.get(k);
-        if (!eb || !Number.isFinite(ea.value) || !Number.isFinite(eb.value)) continue;
+      for (let k = 0; k < nK; k++) {
+        const a = A[k];
+        const b = B[k];
+        if (!Number.isFinite(a) || !Number.isFinite(b)) continue;
         shared++;
-        const scale = Math.max(Math.abs(ea.value), Math.abs(eb.value));
-        if (Math.abs(ea.value - eb.value) <= rel * scale) equal++;
+        const scale = Math.max(Math.abs(a), Math.abs(b));
+        if (Math.abs(a - b) <= rel * scale) equal++;
       }
-      if (shared >= minShared && equal > frac * shared) out.push({ a: A.id, b: B.id, teamA: A.teamId, teamB: B.teamId, shared, equal });
+      if (shared >= minShared && equal > frac * shared) out.push({ a: sorted[i].id, b: sorted[j].id, teamA: sorted[i].teamId, teamB: sorted[j].teamId, shared, equal });
     }
   }
   return out;
@@ -106,7 +118,7 @@ export function bootstrapRankIntervals(scores: readonly Float64Array[], order: (
   const nT = nE ? scores[0].length : 0;
   if (nE === 0) return { intervals: [], replicates: 0 };
   if (nT === 0) return { intervals: scores.map(() => [1, nE] as [number, number]), replicates: 0 };
-  const reps = Math.max(20, Math.min(BOOTSTRAP_REPLICATES, Math.floor(BOOTSTRAP_WORK_LIMIT / (nE * nT))));
+  const reps = Math.max(BOOTSTRAP_MIN_REPLICATES, Math.min(BOOTSTRAP_REPLICATES, Math.floor(BOOTSTRAP_WORK_LIMIT / (nE * nT))));
   const rng = createRng(BOOTSTRAP_SEED);
   const counts = new Int32Array(nT);
   const means = new Float64Array(nE);

@@ -290,16 +290,16 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     if (t.reference === null) {
       const idx: number[] = [];
       for (let i = 0; i < nE; i++) if (answeredAt[i][ti]) idx.push(i);
+      const xv = Float64Array.from(idx, (i) => E[i].estimates.get(t.key)!.value);
+      const uv = Float64Array.from(idx, (i) => effectiveUncertainty(E[i].estimates.get(t.key)!.uncertainty, B));
       for (let a = 0; a < idx.length; a++) {
         for (let b = a + 1; b < idx.length; b++) {
-          const ea = E[idx[a]].estimates.get(t.key)!;
-          const eb = E[idx[b]].estimates.get(t.key)!;
-          const ua = effectiveUncertainty(ea.uncertainty, B);
-          const ub = effectiveUncertainty(eb.uncertainty, B);
+          const ua = uv[a];
+          const ub = uv[b];
           // sqrt(ua^2 + ub^2) relative to the larger (no underflow to U = 0)
           const um = ua > ub ? ua : ub;
           const U = 2 * um * Math.sqrt((ua / um) * (ua / um) + (ub / um) * (ub / um));
-          const r = equivalenceRatio(ea.value - eb.value, U);
+          const r = equivalenceRatio(xv[a] - xv[b], U);
           const i = idx[a];
           const j = idx[b];
           if (!Number.isFinite(r)) {
