@@ -15,6 +15,7 @@ import { createApp } from './app';
 import { createLogger, type Logger } from './log';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './db/seed';
 import { startWorker, type Worker } from './jobs/worker';
+import { rescoreOutdatedStandings } from './services/recompute-standings';
 
 export interface Running {
   worker?: Worker;
@@ -84,6 +85,9 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
       planner: { secondsBudget: config.referenceBudget.secondsPerTarget, coneQubitLimit: config.referenceBudget.coneQubitLimit },
     });
     ctx.jobs.kick = () => worker!.kick();
+    // a change of the scoring rules recomputes every standings (a rescoring in each history)
+    const rescored = await rescoreOutdatedStandings(database.db);
+    if (rescored.length) { log.info('scoring rules changed: standings queued for recomputation', { versions: rescored.length }); worker.kick(); }
   }
   let seeded = false;
   if (config.seedDemo) seeded = await seedDemo(ctx);

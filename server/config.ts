@@ -2,6 +2,7 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { DEFAULT_REFERENCE_BUDGET } from './planner-options';
 
 export interface ScryptCost { N: number; r: number; p: number }
 
@@ -90,7 +91,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInThrottle: { windowMs: 10_000, maxFailures: 3, perAddressFailures: 30, maxDelayMs: 15 * 60_000, forgetAfterMs: 86_400_000 },
     teamLimits: { teamsPerUser: 5, invitesPerSenderPerHour: 20, invitesPerRecipientPerDay: 3 },
     authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
-    referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? 120), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? 26) },
+    referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? DEFAULT_REFERENCE_BUDGET.secondsPerTarget), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? DEFAULT_REFERENCE_BUDGET.coneQubitLimit) },
     runWorker: env.RUN_WORKER !== '0',
   };
 }

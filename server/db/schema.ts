@@ -290,6 +290,8 @@ export const standings = pgTable('standings', {
   versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
   computedAt: ts('computed_at').notNull().defaultNow(),
   engineVersion: text('engine_version').notNull(),
+  /** SCORING_RULES_VERSION the row was computed under (rows from before the column: '2026-11.0') */
+  scoringRulesVersion: text('scoring_rules_version').notNull().default('2026-11.0'),
   payload: jsonb('payload').notNull(),
 }, (t) => [index('standings_version_idx').on(t.versionId, t.computedAt)]);
 

@@ -7,6 +7,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { loadChallenge } from '@shared/physics/challenge';
 import { ReferenceRunner } from '@shared/physics/reference';
 import { propagate } from '@shared/physics/pauli-propagation';
+import { DEFAULT_REFERENCE_BUDGET, plannerOptions } from '../planner-options';
 
 export interface ComputeRequest {
   mode: 'references' | 'baseline';
@@ -31,7 +32,8 @@ const post = (m: ComputeMessage) => port.postMessage(m);
 try {
   const challenge = loadChallenge(req.spec);
   const byId = new Map(challenge.targets.map((t) => [t.id, t]));
-  const runner = new ReferenceRunner(challenge, req.planner ? { secondsBudget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit, statevectorQubitLimit: req.planner.coneQubitLimit } : {});
+  // the same planner options as /plan and the preview (server/planner-options.ts)
+  const runner = new ReferenceRunner(challenge, plannerOptions(req.planner ? { secondsPerTarget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit } : DEFAULT_REFERENCE_BUDGET));
   let done = 0;
   for (const id of req.targetIds) {
     const target = byId.get(id);

@@ -9,7 +9,8 @@ import { and, asc, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { auditLog, entries, estimates } from '../db/schema';
 import type { EntryDocument, EntryEstimate } from '../services/validate-entry';
-import { degreesOfEquivalence, scoreAgainstReference } from '@shared/scoring';
+import { SCORING_RULES_VERSION, boundOf, crpsCensoredNormal, degreesOfEquivalence, expectedCrpsNormal, scoreAgainstReference } from '@shared/scoring';
+import { effectiveUncertainty } from '@shared/scoring/standings';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import { entryListContext, isPublicEntry, type EntryListContext, type EntryRow } from '../queries/entries';
 import { isEstimateWithheld, PUBLIC_VIEWER, visibleReferences, type VisibleReferences, type Viewer } from '../queries/visibility';
@@ -30,15 +31,19 @@ export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[],
   const inStandings = e.state === 'published' && e.hiddenReason === null;
   return ests.map((x) => {
     const r = refs.exact.get(x.target);
-    const s = r ? scoreAgainstReference({ value: x.value, uncertainty: x.uncertainty }, r) : null;
     const c = cons.get(x.target);
-    let doe: { d: number; U: number; included: boolean } | null = null;
+    // scoring rules (shared/scoring/rules.ts): u below the exact tolerance is raised to it for z
+    // and coverage; the proper score uses the stated u
+    const B = boundOf(c?.bound);
+    const s = r ? scoreAgainstReference({ value: x.value, uncertainty: e.isBaseline ? 0 : effectiveUncertainty(x.uncertainty, B) }, r) : null;
+    const crps = r ? crpsCensoredNormal(x.value, e.isBaseline ? 0 : x.uncertainty, r.value, -B, B) : null;
+    let doe: { d: number; U: number; included: boolean; score: number } | null = null;
     if (c && c.value !== null && c.uncertainty !== null) {
       const included = inStandings && !c.excluded.includes(e.id);
       const [d] = degreesOfEquivalence([{ value: x.value, uncertainty: x.uncertainty }], { value: c.value, uncertainty: c.uncertainty, included: included ? [0] : [], tau2: c.tau2 ?? 0 });
-      doe = { d: d.d, U: d.U, included };
+      doe = { d: d.d, U: d.U, included, score: Math.min(expectedCrpsNormal(x.value, e.isBaseline ? 0 : x.uncertainty, c.value, c.uncertainty), 2 * B) };
     }
-    return { target: x.target, reference: r ? { error: s!.error, z: Number.isFinite(s!.z) ? s!.z : null, covered: s!.covered } : null, consensus: doe };
+    return { target: x.target, reference: r ? { error: s!.error, z: Number.isFinite(s!.z) ? s!.z : null, covered: s!.covered, crps } : null, consensus: doe };
   });
 }
 
@@ -94,5 +99,7 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
     /** house-baseline estimates of sealed targets left out of the document until the reveal */
     withheld: doc && withheld ? { estimates: withheld, reason: 'the house baseline is exact here: its estimates of sealed targets are as sealed as the references until their date', until: refs!.rows.filter((r) => refs!.sealed.has(r.key)).map((r) => r.sealedUntil!).sort((a, b) => b.getTime() - a.getTime())[0]?.toISOString() ?? null } : null,
     scores: doc && refs ? await estimateScores(db, e, doc.estimates, refs) : undefined,
+    // the rules the scores above follow (shared/scoring/rules.ts; /scoring states them)
+    scoringRulesVersion: doc ? SCORING_RULES_VERSION : undefined,
   };
 }

@@ -6,6 +6,7 @@ import { and, asc, count, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { buildLattice } from '@shared/physics/lattices';
 import { planChallenge } from '@shared/physics/planner';
+import { plannerOptions } from '../planner-options';
 import type { ChallengeSpec } from '@shared/physics/challenge';
 import type { AppContext } from '../context';
 import { challengeVersions, challenges, entries, instances, jobs, observables, references, targets } from '../db/schema';
@@ -180,7 +181,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
             key: r.key, instance: r.instance, params: r.params, observable: r.observable,
             disputed: r.disputed || Boolean(k?.disputed), disputeNote: r.disputeNote,
             reference: presentReference(r.ref, now, viewer),
-            consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed } : null,
+            consensus: k ? { estimator: k.estimator, entries: k.entries, value: k.value, uncertainty: k.uncertainty, chi2: k.chi2, nu: k.nu, p: k.p, birgeRatio: k.birgeRatio, tau2: k.tau2, I2: k.I2, disputed: k.disputed, teams: k.teams ?? null, ranked: k.ranked ?? null, noConsensus: k.noConsensus ?? null, includedCount: k.includedCount, excluded: k.excluded } : null,
           };
         }),
       };
@@ -214,7 +215,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     method: 'get', path: '/challenges/:slug/plan', access: 'public', summary: "The planner's report: per target, the exact method it would use and its estimated cost, or why none is feasible (computed once per version)",
     handler: async (req) => {
       const { version: v } = await loadChallengeVersion(db, req);
-      const plans = await computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.plan', {}, (r) => 200 * r.length);
+      const plans = await computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.plan', { options: plannerOptions(ctx.config.referenceBudget) }, (r) => 200 * r.length);
       return { version: v.version, plans };
     },
   });
@@ -224,7 +225,7 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     body: upload,
     handler: async (req, res) => {
       const ch = validateSpecOrThrow(specFromRequest(req, res));
-      const plans = planChallenge(ch);
+      const plans = planChallenge(ch, plannerOptions(ctx.config.referenceBudget));
       const graph = buildLattice(ch.spec.lattice);
       return {
         id: ch.spec.id, version: ch.spec.version, checksum: ch.checksum, qubits: ch.nQubits, instances: ch.instances.length, targets: ch.targets.length,

@@ -64,8 +64,13 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         const r = j.result as { targets?: number; exact?: number; engine?: string } | null;
         events.push({ at: (j.finishedAt ?? j.createdAt).toISOString(), kind: 'references', version: vOf.get((j.payload as { versionId: string }).versionId), summary: `Exact references computed: ${r?.exact ?? '?'} of ${r?.targets ?? '?'} targets (${r?.engine ?? ''})` });
       }
-      const st = vIds.length ? await db.select({ id: standings.id, versionId: standings.versionId, at: standings.computedAt, engine: standings.engineVersion }).from(standings).where(inArray(standings.versionId, vIds)).orderBy(desc(standings.computedAt)).limit(200) : [];
-      for (const s of st) events.push({ at: s.at.toISOString(), kind: 'rescoring', version: vOf.get(s.versionId), summary: `Standings recomputed (${s.engine})`, details: { asOf: s.at.toISOString() } });
+      const st = vIds.length ? await db.select({ id: standings.id, versionId: standings.versionId, at: standings.computedAt, engine: standings.engineVersion, rules: standings.scoringRulesVersion }).from(standings).where(inArray(standings.versionId, vIds)).orderBy(desc(standings.computedAt)).limit(200) : [];
+      st.forEach((s, i) => {
+        // the next older row of the same version: a different rules version makes this a change of rules
+        const prev = st.slice(i + 1).find((x) => x.versionId === s.versionId);
+        const changed = prev && prev.rules !== s.rules;
+        events.push({ at: s.at.toISOString(), kind: 'rescoring', version: vOf.get(s.versionId), summary: changed ? `Scoring rules ${prev.rules} -> ${s.rules}: standings recomputed (${s.engine})` : `Standings recomputed (${s.engine}, scoring rules ${s.rules})`, details: { asOf: s.at.toISOString(), scoringRules: s.rules, ...(changed ? { previousScoringRules: prev.rules } : {}) } });
+      });
       const entryRows = await db.select({ id: entries.id, label: entries.label, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId)).where(eq(entries.challengeSlug, c.slug));
       const entryIds = entryRows.map((e) => e.id);
       const entryOf = new Map(entryRows.map((e) => [e.id, e]));

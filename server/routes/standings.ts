@@ -2,7 +2,8 @@
 import { createHash } from 'node:crypto';
 import type { Request, Response } from 'express';
 import { and, eq, inArray } from 'drizzle-orm';
-import { PRIMARY_METRICS, rankRows, type PrimaryMetric, type StandingsResult } from '@shared/scoring/standings';
+import { PRIMARY_METRICS, LEGACY_METRICS, rankRows, resolveMetric, type StandingsResult } from '@shared/scoring/standings';
+import { EXACT_TOLERANCE, MIN_INDEPENDENT_TEAMS, SCORING_RULES_VERSION } from '@shared/scoring/rules';
 import { pairwiseEquivalence, equivalenceRatio } from '@shared/scoring';
 import type { AppContext } from '../context';
 import { entries, estimates, organization } from '../db/schema';
@@ -16,8 +17,10 @@ import { standingsCache } from '../services/standings-cache';
 const TRACKS = ['all', 'hardware', 'classical'] as const;
 
 function parseQuery(req: Request, settings: { primaryMetric?: string }, viewer: Viewer) {
-  const metric = (typeof req.query.metric === 'string' ? req.query.metric : settings.primaryMetric ?? 'rmse-verifiable') as PrimaryMetric;
-  if (!PRIMARY_METRICS.includes(metric)) throw badRequest(`metric must be one of ${PRIMARY_METRICS.join(', ')}`, [{ path: '/query/metric', message: `unknown metric "${metric}"` }]);
+  // names of the previous rules (rmse-verifiable, ...) still work: they rank by the proper score of their scope
+  const asked = typeof req.query.metric === 'string' ? req.query.metric : settings.primaryMetric;
+  const metric = resolveMetric(asked);
+  if (!metric) throw badRequest(`metric must be one of ${PRIMARY_METRICS.join(', ')}`, [{ path: '/query/metric', message: `unknown metric "${String(asked)}"; use one of ${PRIMARY_METRICS.join(', ')} (older names: ${Object.keys(LEGACY_METRICS).join(', ')})` }]);
   const track = (typeof req.query.track === 'string' && req.query.track ? req.query.track : 'all') as (typeof TRACKS)[number];
   if (!TRACKS.includes(track)) throw badRequest('track must be hardware, classical or all', [{ path: '/query/track', message: `unknown track "${track}"` }]);
   let asOf: Date | undefined;
@@ -55,10 +58,14 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
       const payload = row?.payload as StandingsPayload | undefined;
       const result = payload ? (q.view === 'private' ? privateView(payload) : payload.public) : undefined;
       const rows = (result?.entries ?? []).filter((e) => q.track === 'all' || e.track === q.track);
-      const ranked = rankRows(rows, q.metric).map(({ row: r, rank, tiedWithPrevious }) => ({ ...r, rank, tiedWithPrevious }));
+      const ranked = rankRows(rows, q.metric, q.track).map(({ row: r, rank, tiedWithPrevious, rankInterval }) => ({ ...r, rank, tiedWithPrevious, rankInterval }));
       const body = JSON.stringify({
         challenge: c.slug, version: v.version, checksum: v.checksum,
-        status: row ? 'ready' : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
+        status: row ? (row.scoringRulesVersion === SCORING_RULES_VERSION ? 'ready' : 'rescoring') : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
+        // the rules these numbers were computed under, and where they are written down
+        scoringRulesVersion: row?.scoringRulesVersion ?? null, currentScoringRulesVersion: SCORING_RULES_VERSION, rulesPage: '/scoring',
+        exactTolerance: result?.exactTolerance ?? EXACT_TOLERANCE, minIndependentTeams: MIN_INDEPENDENT_TEAMS, bootstrapReplicates: result?.bootstrapReplicates ?? null,
+        nearCopies: result?.nearCopies ?? [],
         estimator: payload?.estimator ?? null, metric: q.metric, metrics: PRIMARY_METRICS, track: q.track, view: q.view, asOf: q.asOf ?? null,
         counts: result?.counts ?? null,
         entries: ranked,

@@ -9,7 +9,7 @@
  */
 import { compileInstance } from '@shared/physics/compile';
 import { lightCone } from '@shared/physics/light-cone';
-import { planChallenge } from '@shared/physics/planner';
+import { planChallenge, type PlannerOptions } from '@shared/physics/planner';
 import { validateChallenge, type ValidatedChallenge } from '@shared/physics/challenge';
 import { instanceQasm } from '@shared/physics/qasm';
 import { invalid, notFound } from '../errors';
@@ -54,10 +54,11 @@ export const challengeOps = {
     const lc = lightCone(compileInstance(ch.spec, inst), obs);
     return { target: a.targetKey, qubits: lc.qubits, total: ch.nQubits, nonCliffordRotations: lc.nonCliffordRotations, gatesInCone: lc.keptGates.length };
   },
-  'challenge.plan': (a: { checksum: string; spec?: unknown }) => {
+  // options: plannerOptions(config.referenceBudget), the one budget the reference job uses too
+  'challenge.plan': (a: { checksum: string; spec?: unknown; options?: PlannerOptions }) => {
     const ch = challengeOf(a);
     if (!ch) return NEED_SPEC;
-    return planChallenge(ch).map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone, clifford: p.clifford }));
+    return planChallenge(ch, a.options).map((p) => ({ target: p.targetId, method: p.method, size: p.size, unit: p.unit, estimatedSeconds: p.estimatedSeconds, reason: p.reason, cone: p.cone, clifford: p.clifford }));
   },
 };
 

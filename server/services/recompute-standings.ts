@@ -9,15 +9,16 @@
  */
 import { and, desc, eq, lte, sql } from 'drizzle-orm';
 import { computeStandings, type StandingsEntryInput, type StandingsEstimate, type StandingsResult } from '@shared/scoring/standings';
-import type { ConsensusEstimator } from '@shared/scoring';
+import { SCORING_RULES_VERSION, type ConsensusEstimator } from '@shared/scoring';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db, DbOrTx } from '../db/client';
 import { standingsCache } from './standings-cache';
 import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys } from '../queries/visibility';
-import { challengeVersions, challenges, entries, organization, references, standings, targets } from '../db/schema';
+import { challengeVersions, challenges, entries, observables, organization, references, standings, targets } from '../db/schema';
+import { enqueueJob } from '../jobs/queue';
 
 /** `private` is null when nothing is sealed (it would equal `public`); use privateView(). */
-export interface StandingsPayload { public: StandingsResult; private: StandingsResult | null; computedAt: string; versionId: string; estimator: ConsensusEstimator }
+export interface StandingsPayload { public: StandingsResult; private: StandingsResult | null; computedAt: string; versionId: string; estimator: ConsensusEstimator; rulesVersion?: string }
 export const privateView = (p: StandingsPayload): StandingsResult => p.private ?? p.public;
 
 export interface RecomputeTimings { readMs: number; computeMs: number; storeMs: number }
@@ -35,8 +36,8 @@ function recomputeInTransaction(db: Db, versionId: string, now: Date) {
     if (!v) throw new Error(`challenge version ${versionId} does not exist`);
     const [c] = await tx.select({ settings: challenges.settings }).from(challenges).where(eq(challenges.slug, v.slug));
     const estimator = ((c?.settings as { estimator?: ConsensusEstimator })?.estimator ?? 'random-effects-dl') as ConsensusEstimator;
-    const tRows = await tx.select({ key: targets.key, disputed: targets.disputed, note: targets.disputeNote, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil })
-      .from(targets).leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, versionId)).orderBy(targets.key);
+    const tRows = await tx.select({ key: targets.key, disputed: targets.disputed, note: targets.disputeNote, value: references.value, unc: references.uncertainty, sealedUntil: references.sealedUntil, bound: observables.bound })
+      .from(targets).leftJoin(references, eq(references.targetId, targets.id)).leftJoin(observables, eq(observables.id, targets.observableId)).where(eq(targets.versionId, versionId)).orderBy(targets.key);
     const eRows = await tx.select({ e: entries, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId))
       .where(and(eq(entries.versionId, versionId), eq(entries.state, 'published'))).orderBy(entries.createdAt);
     const ids = eRows.map((r) => r.e.id);
@@ -56,11 +57,11 @@ function recomputeInTransaction(db: Db, versionId: string, now: Date) {
     // house baseline's estimates of them are left out
     const sealed = sealedKeys(tRows, PUBLIC_VIEWER, now);
     const publicInputs = sealed.size ? entryInputs.map((e) => (e.isBaseline ? { ...e, estimates: new Map([...e.estimates].filter(([target]) => !isEstimateWithheld({ isBaseline: true, target }, sealed))) } : e)) : entryInputs;
-    const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, reference: sealed.has(t.key) ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
-    const priv = sealed.size ? computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) }) : null;
-    const payload: StandingsPayload = { public: pub, private: priv, computedAt: now.toISOString(), versionId, estimator };
+    const pub = computeStandings({ estimator, entries: publicInputs, targets: tRows.map((t) => ({ key: t.key, bound: t.bound, reference: sealed.has(t.key) ? null : exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) });
+    const priv = sealed.size ? computeStandings({ estimator, entries: entryInputs, targets: tRows.map((t) => ({ key: t.key, bound: t.bound, reference: exact(t), disputedNote: t.disputed ? t.note ?? 'marked disputed by a moderator' : null })) }) : null;
+    const payload: StandingsPayload = { public: pub, private: priv, computedAt: now.toISOString(), versionId, estimator, rulesVersion: SCORING_RULES_VERSION };
     const t2 = performance.now();
-    const [row] = await tx.insert(standings).values({ versionId, computedAt: now, engineVersion: ENGINE_VERSION, payload }).returning({ id: standings.id, computedAt: standings.computedAt });
+    const [row] = await tx.insert(standings).values({ versionId, computedAt: now, engineVersion: ENGINE_VERSION, scoringRulesVersion: SCORING_RULES_VERSION, payload }).returning({ id: standings.id, computedAt: standings.computedAt });
     return { ...row, timings: { readMs: t1 - t0, computeMs: t2 - t1, storeMs: performance.now() - t2 } };
   });
 }
@@ -102,4 +103,16 @@ export async function latestStandings(db: DbOrTx, versionId: string, asOf?: Date
     .where(asOf ? and(eq(standings.versionId, versionId), lte(standings.computedAt, asOf)) : eq(standings.versionId, versionId))
     .orderBy(desc(standings.computedAt)).limit(1);
   return row ?? null;
+}
+
+/**
+ * A change of SCORING_RULES_VERSION is a rescoring: every challenge version whose newest standings
+ * row was computed under other rules gets a standings job (the new row is the history event
+ * "scoring rules X -> Y"). Called once at start-up; returns the versions queued.
+ */
+export async function rescoreOutdatedStandings(db: Db): Promise<string[]> {
+  const r = (await db.execute(sql`select distinct on (version_id) version_id as v, scoring_rules_version as rules from standings order by version_id, computed_at desc`)) as unknown as { rows: { v: string; rules: string }[] };
+  const outdated = r.rows.filter((x) => x.rules !== SCORING_RULES_VERSION).map((x) => x.v);
+  for (const versionId of outdated) await enqueueJob(db, 'standings', { versionId }, `standings:${versionId}`);
+  return outdated;
 }

@@ -44,6 +44,8 @@ export interface ConsensusOptions {
   /** LCS exhaustive-search limit (default 20). */
   exhaustiveLimit?: number;
   median?: MedianOptions;
+  /** Absolute tolerance under which results with u = 0 count as equal (rules.ts); default 0. */
+  exactTolerance?: number;
 }
 
 export interface ConsensusResult {
@@ -67,6 +69,9 @@ export interface ConsensusResult {
   lcsMethod?: 'none-needed' | 'exhaustive' | 'greedy';
   /** Random effects only: I^2 in percent. */
   I2?: number;
+  /** Weighted mean / LCS with birgeScaling: the factor R_B > 1 applied to u(y) (degrees of
+   * equivalence scale every input uncertainty by it too, so that U(d_i) never becomes 0). */
+  birgeScale?: number;
 }
 
 function complement(n: number, included: readonly number[]): number[] {
@@ -79,7 +84,7 @@ function complement(n: number, included: readonly number[]): number[] {
 export function consensus(estimates: readonly Measurement[], estimator: ConsensusEstimator = DEFAULT_ESTIMATOR, options: ConsensusOptions = {}): ConsensusResult {
   const alpha = options.alpha ?? DEFAULT_ALPHA;
   const n = estimates.length;
-  const full = weightedMean(estimates, { alpha });
+  const full = weightedMean(estimates, { alpha, exactTolerance: options.exactTolerance });
   const inputTest = full.test;
   switch (estimator) {
     case 'weighted-mean': {
@@ -94,6 +99,7 @@ export function consensus(estimates: readonly Measurement[], estimator: Consensu
         excluded: full.excluded,
         disputed: !full.test.consistent,
         tau2: 0,
+        ...(options.birgeScaling && full.scaledUncertainty > full.uncertainty ? { birgeScale: full.scaledUncertainty / full.uncertainty } : {}),
       };
     }
     case 'largest-consistent-subset': {
@@ -112,6 +118,7 @@ export function consensus(estimates: readonly Measurement[], estimator: Consensu
         disputed: !l.mean.test.consistent || tooFew,
         tau2: 0,
         lcsMethod: l.method,
+        ...(options.birgeScaling && l.mean.scaledUncertainty > l.mean.uncertainty ? { birgeScale: l.mean.scaledUncertainty / l.mean.uncertainty } : {}),
       };
     }
     case 'random-effects-dl':

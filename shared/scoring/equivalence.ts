@@ -29,9 +29,23 @@ export interface DegreeOfEquivalence {
   included: boolean;
 }
 
-type ConsensusLike = Pick<ConsensusResult, 'value' | 'uncertainty' | 'included'> & Partial<Pick<ConsensusResult, 'tau2' | 'doeUncertainties'>>;
+type ConsensusLike = Pick<ConsensusResult, 'value' | 'uncertainty' | 'included'> & Partial<Pick<ConsensusResult, 'tau2' | 'doeUncertainties' | 'birgeScale'>>;
 
+/**
+ * Birge-scaled consensus (u(y) multiplied by R_B > 1): the scaling model multiplies every input
+ * uncertainty by R_B as well, so u(d_i) = R_B u(d_i; unscaled). Subtracting the scaled u^2(y)
+ * from the unscaled u_i^2 instead would give u(d_i) = 0 (U = 0) for a dominant result.
+ */
 export function degreesOfEquivalence(estimates: readonly Measurement[], c: ConsensusLike, k = 2): DegreeOfEquivalence[] {
+  const scale = c.birgeScale;
+  if (scale !== undefined && scale > 1 && Number.isFinite(scale)) {
+    const base = unscaledDoe(estimates, { ...c, uncertainty: c.uncertainty / scale, birgeScale: undefined }, k);
+    return base.map((x) => ({ ...x, u: x.u * scale, U: x.U * scale }));
+  }
+  return unscaledDoe(estimates, c, k);
+}
+
+function unscaledDoe(estimates: readonly Measurement[], c: ConsensusLike, k: number): DegreeOfEquivalence[] {
   const inc = new Set(c.included);
   const tau2 = c.tau2 ?? 0;
   const tau = Math.sqrt(tau2);

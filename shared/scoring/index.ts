@@ -57,3 +57,24 @@ export {
   type FrontPoint,
   type CostFront,
 } from './ranking';
+export { crpsCensoredNormal, expectedCrpsNormal } from './proper';
+export {
+  SCORING_RULES_VERSION,
+  PREVIOUS_SCORING_RULES_VERSION,
+  EXACT_TOLERANCE,
+  MIN_INDEPENDENT_TEAMS,
+  BOOTSTRAP_REPLICATES,
+  BOOTSTRAP_SEED,
+  NEAR_COPY_RELATIVE,
+  NEAR_COPY_FRACTION,
+  NEAR_COPY_MIN_SHARED,
+  boundOf,
+  exactTolerance,
+  withinTolerance,
+  onePerTeam,
+  findNearCopies,
+  bootstrapRankIntervals,
+  type NearCopy,
+  type NearCopyInput,
+  type CandidateEstimate,
+} from './rules';

@@ -16,7 +16,9 @@
  * remainder passes; the remainder's chi2 is recomputed in two passes after every drop. The greedy
  * path is not guaranteed to find the minimum-chi2 subset of each size; `method` says which path was
  * taken. Weights are relative to the smallest uncertainty, (u_min/u_i)^2, as in weighted-mean.ts.
- * Ties between subsets of equal chi2 go to the lexicographically first set of dropped indices.
+ * Ties between subsets of equal chi2 go to the lexicographically first set of dropped positions in
+ * the canonical order (uncertainty, then value): the more precise results are kept, whatever the
+ * order of the inputs.
  */
 import { DEFAULT_ALPHA, consistencyTest, partitionByUncertainty, weightedMean, type WeightedMeanResult } from './weighted-mean';
 import { chiSquaredSurvival } from './special';
@@ -45,7 +47,10 @@ export function largestConsistentSubset(xs: readonly Measurement[], options: Lcs
   const alpha = options.alpha ?? DEFAULT_ALPHA;
   const limit = options.exhaustiveLimit ?? 20;
   const full = options.full ?? weightedMean(xs, { alpha });
-  const usable = partitionByUncertainty(xs).weighted;
+  // canonical order (smallest uncertainty first, then value, then index) so that ties between
+  // subsets of equal chi2 do not depend on the order of the inputs: among equal chi2 the subset
+  // that keeps the more precise results wins (e.g. of two discrepant results, the smaller u)
+  const usable = partitionByUncertainty(xs).weighted.sort((a, b) => xs[a].uncertainty - xs[b].uncertainty || xs[a].value - xs[b].value || a - b);
   const n = usable.length;
   if (full.test.consistent || n <= 1) {
     return { mean: full, subset: full.included, dropped: [], fullTest: full.test, method: 'none-needed' };
@@ -60,7 +65,9 @@ export function largestConsistentSubset(xs: readonly Measurement[], options: Lcs
     const m = xs[usable[k]];
     const r = u0 / m.uncertainty;
     w[k] = r * r;
-    z[k] = (m.value - c) / u0;
+    // clamped: a result more than 1e150 u_min away fails any test anyway, and (z - m)^2 stays finite
+    const zk = (m.value - c) / u0;
+    z[k] = zk > 1e150 ? 1e150 : zk < -1e150 ? -1e150 : zk;
   }
   const passes = (chi2: number, size: number) => size <= 1 || chiSquaredSurvival(chi2, size - 1) >= alpha;
 
@@ -165,7 +172,8 @@ export function largestConsistentSubset(xs: readonly Measurement[], options: Lcs
   }
   const droppedIdx = dropped.map((k) => usable[k]);
   const drop = new Set(droppedIdx);
-  const subset = usable.filter((i) => !drop.has(i));
+  const subset = usable.filter((i) => !drop.has(i)).sort((a, b) => a - b);
+  droppedIdx.sort((a, b) => a - b);
   const mean = weightedMean(xs, { alpha, subset });
   return { mean, subset, dropped: droppedIdx, fullTest: full.test, method };
 }

@@ -111,61 +111,114 @@ export function remlTau2(y: Float64Array, v: Float64Array, start: number, maxIte
   return { tau2, iterations: maxIter, converged: false };
 }
 
-/** Random-effects estimate over the usable results of `xs` (value = y_i, uncertainty = sqrt(v_i)). */
+/** Scaled sqrt(a^2 + b^2) (no overflow or underflow of the squares). */
+function hyp(a: number, b: number): number {
+  const m = a > b ? a : b;
+  return m === 0 ? 0 : m * Math.sqrt((a / m) * (a / m) + (b / m) * (b / m));
+}
+
+/** Weighted mean with weights (s0/sd_i)^2 relative to the smallest sd (each <= 1: an underflow to
+ * 0 only drops a result whose weight is below 1e-308 of the best one), values relative to x0. */
+function relWeighted(xs: readonly Measurement[], idx: readonly number[], sd: Float64Array, x0: number) {
+  let s0 = Infinity;
+  for (let i = 0; i < idx.length; i++) s0 = Math.min(s0, sd[i]);
+  let sw = 0;
+  let swe = 0;
+  let pairs = 0; // sum_{i<j} w_i w_j
+  for (let i = 0; i < idx.length; i++) {
+    const r = s0 / sd[i];
+    const w = r * r;
+    pairs += w * sw;
+    sw += w;
+    swe += w * (xs[idx[i]].value - x0);
+  }
+  return { mu: x0 + swe / sw, se: s0 / Math.sqrt(sw), s0, sw, pairs };
+}
+
+/** sqrt(sum ((x_i - mu)/sd_i)^2) * s0 and the chi2 itself (Infinity when it overflows). */
+function residualNorm(xs: readonly Measurement[], idx: readonly number[], sd: Float64Array, mu: number, s0: number): { norm: number; chi2: number } {
+  const a = new Float64Array(idx.length);
+  let A = 0;
+  for (let i = 0; i < idx.length; i++) {
+    a[i] = (xs[idx[i]].value - mu) * (s0 / sd[i]);
+    A = Math.max(A, Math.abs(a[i]));
+  }
+  if (A === 0) return { norm: 0, chi2: 0 };
+  let S = 0;
+  for (let i = 0; i < idx.length; i++) S += (a[i] / A) * (a[i] / A);
+  const norm = A * Math.sqrt(S);
+  const q = norm / s0;
+  return { norm, chi2: q * q };
+}
+
+/**
+ * Random-effects estimate over the usable results of `xs` (value = y_i, uncertainty = sqrt(v_i)).
+ * DerSimonian-Laird is computed in square-root form with weights relative to the smallest
+ * uncertainty: tau = s0 sqrt(Q - df)/sqrt(C_rel) with s0 sqrt(Q) formed as a scaled norm, so that
+ * uncertainties spanning any range the entry format allows (1e-300 beside 1e15) give finite mu,
+ * SE and tau (no u^2 or 1/u^2 is formed). PM and REML iterate at unit scale as before and fall
+ * back to the DL value when that overflows.
+ */
 export function randomEffects(xs: readonly Measurement[], method: TauMethod = 'DL'): RandomEffectsResult {
   const included = partitionByUncertainty(xs).weighted;
   const k = included.length;
   if (k === 0) {
     return { method, tau2: NaN, mu: NaN, se: NaN, Q: NaN, df: 0, I2: NaN, H2: NaN, fixedMu: NaN, fixedSe: NaN, included, residualChi2: NaN, iterations: 0, converged: true };
   }
-  // unit scale: s = the smallest uncertainty, values relative to that result's value
   let ref = included[0];
   for (const j of included) if (xs[j].uncertainty < xs[ref].uncertainty) ref = j;
-  const s = xs[ref].uncertainty;
   const x0 = xs[ref].value;
-  const y = new Float64Array(k);
-  const v = new Float64Array(k);
-  included.forEach((j, i) => {
-    y[i] = (xs[j].value - x0) / s;
-    const r = xs[j].uncertainty / s;
-    v[i] = r * r;
-  });
-  let sw = 0;
-  let pairs = 0; // sum_{i<j} w_i w_j
-  let swy = 0;
-  for (let i = 0; i < k; i++) {
-    const w = 1 / v[i];
-    pairs += w * sw;
-    sw += w;
-    swy += w * y[i];
-  }
-  const fixedMu = swy / sw;
-  let Q = 0;
-  for (let i = 0; i < k; i++) Q += ((y[i] - fixedMu) ** 2) / v[i];
+  const u = Float64Array.from(included, (j) => xs[j].uncertainty);
+  const fixed = relWeighted(xs, included, u, x0);
+  const { norm, chi2: Q } = residualNorm(xs, included, u, fixed.mu, fixed.s0);
   const df = k - 1;
-  const C = (2 * pairs) / sw;
-  const tauDL = k > 1 && C > 0 ? Math.max(0, (Q - df) / C) : 0;
-  let tau2 = tauDL;
+  const Crel = fixed.sw > 0 ? (2 * fixed.pairs) / fixed.sw : 0; // C s0^2
+  let tau = 0;
+  if (k > 1 && Crel > 0 && Q > df) {
+    tau = (norm * Math.sqrt(1 - df / Q)) / Math.sqrt(Crel);
+    if (!Number.isFinite(tau)) {
+      let lo = Infinity;
+      let hi = -Infinity;
+      for (const j of included) { lo = Math.min(lo, xs[j].value); hi = Math.max(hi, xs[j].value); }
+      tau = hi - lo;
+    }
+  }
+  let tau2 = tau * tau;
   let iterations = 0;
   let converged = true;
-  if (method === 'PM') ({ tau2, iterations, converged } = pauleMandelTau2(y, v));
-  else if (method === 'REML') ({ tau2, iterations, converged } = remlTau2(y, v, tauDL));
-  const re = weightedMeanSe(y, v, tau2);
-  const s2 = k > 1 && C > 0 ? df / C : NaN;
-  const I2 = k > 1 ? (100 * tau2) / (tau2 + s2) : NaN;
+  if (method !== 'DL') {
+    // unit scale: s = the smallest uncertainty, values relative to that result's value
+    const s = fixed.s0;
+    const y = Float64Array.from(included, (j) => (xs[j].value - x0) / s);
+    const v = Float64Array.from(included, (j) => (xs[j].uncertainty / s) ** 2);
+    const tauDLunit = (tau / s) * (tau / s);
+    const r = method === 'PM' ? pauleMandelTau2(y, v) : remlTau2(y, v, tauDLunit);
+    const t = Math.sqrt(r.tau2) * s;
+    if (Number.isFinite(t) && Number.isFinite(r.tau2)) {
+      tau = t;
+      tau2 = r.tau2 * s * s;
+      ({ iterations, converged } = r);
+    } else converged = false;
+  }
+  const sdRe = Float64Array.from(u, (ui) => hyp(ui, tau));
+  const re = relWeighted(xs, included, sdRe, x0);
+  // s^2 = df/C (metafor's typical within-study variance); I^2 = tau^2/(tau^2 + s^2)
+  const sTyp = k > 1 && Crel > 0 ? (Math.sqrt(df) * fixed.s0) / Math.sqrt(Crel) : NaN;
+  const ratio = tau / sTyp; // tau/s
+  const I2 = k > 1 ? (Number.isNaN(ratio) ? NaN : tau === 0 ? 0 : 100 / (1 + 1 / (ratio * ratio))) : NaN;
   return {
     method,
-    tau2: tau2 * s * s,
-    mu: x0 + s * re.mu,
-    se: s / Math.sqrt(re.sw),
+    tau2,
+    mu: re.mu,
+    se: re.se,
     Q,
     df,
-    I2: Number.isNaN(I2) ? NaN : tau2 === 0 ? 0 : I2,
-    H2: k > 1 ? (tau2 + s2) / s2 : NaN,
-    fixedMu: x0 + s * fixedMu,
-    fixedSe: s / Math.sqrt(sw),
+    I2,
+    H2: k > 1 ? 1 + ratio * ratio : NaN,
+    fixedMu: fixed.mu,
+    fixedSe: fixed.se,
     included,
-    residualChi2: generalisedQ(y, v, tau2),
+    residualChi2: residualNorm(xs, included, sdRe, re.mu, re.s0).chi2,
     iterations,
     converged,
   };

@@ -45,8 +45,12 @@ export function medianWithUncertainty(xs: readonly Measurement[], options: Media
   const n = included.length;
   const doe = new Array<number>(xs.length).fill(NaN);
   if (n === 0) return { value: NaN, uncertainty: NaN, doeUncertainties: doe, included, trials, seed };
-  const x = included.map((i) => xs[i].value);
-  const u = included.map((i) => xs[i].uncertainty);
+  // draws are made in a canonical order (by value, then uncertainty), not the order of the
+  // inputs, so that the Monte Carlo uncertainty does not depend on it; identical inputs share
+  // their degree-of-equivalence uncertainty (averaged below)
+  const canon = included.slice().sort((a, b) => xs[a].value - xs[b].value || xs[a].uncertainty - xs[b].uncertainty);
+  const x = canon.map((i) => xs[i].value);
+  const u = canon.map((i) => xs[i].uncertainty);
   const value = median(x);
   const rng = createRng(seed);
   const sample = new Float64Array(n);
@@ -71,7 +75,13 @@ export function medianWithUncertainty(xs: readonly Measurement[], options: Media
     }
   }
   const sd = (s1: number, s2: number) => (trials > 1 ? Math.sqrt(Math.max(0, (s2 - (s1 * s1) / trials) / (trials - 1))) : 0);
-  included.forEach((i, k) => (doe[i] = sd(d1[k], d2[k])));
+  for (let k = 0; k < n; ) {
+    let j = k;
+    let acc = 0;
+    while (j < n && x[j] === x[k] && u[j] === u[k]) acc += sd(d1[j], d2[j++]);
+    for (let g = k; g < j; g++) doe[canon[g]] = acc / (j - k);
+    k = j;
+  }
   return { value, uncertainty: sd(m1, m2), doeUncertainties: doe, included, trials, seed };
 }
 

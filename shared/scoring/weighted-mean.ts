@@ -83,7 +83,7 @@ export function chi2About(xs: readonly Measurement[], idx: readonly number[], y:
 }
 
 /** Cox procedure A over all usable results, or over `subset` (indices) when given. */
-export function weightedMean(xs: readonly Measurement[], options: { alpha?: number; subset?: readonly number[] } = {}): WeightedMeanResult {
+export function weightedMean(xs: readonly Measurement[], options: { alpha?: number; subset?: readonly number[]; exactTolerance?: number } = {}): WeightedMeanResult {
   const alpha = options.alpha ?? DEFAULT_ALPHA;
   const part = partitionByUncertainty(xs);
   let idx = part.weighted;
@@ -108,7 +108,12 @@ export function weightedMean(xs: readonly Measurement[], options: { alpha?: numb
     let ss = 0;
     for (const i of pool) ss += (xs[i].value - mean) ** 2;
     const sem = n > 1 ? Math.sqrt(ss / (n - 1) / n) : 0;
-    const identical = pool.every((i) => xs[i].value === xs[pool[0]].value);
+    // equal within the exact tolerance (rules.ts): the spread of the values is at most tol
+    const tol = options.exactTolerance ?? 0;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const i of pool) { lo = Math.min(lo, xs[i].value); hi = Math.max(hi, xs[i].value); }
+    const identical = hi - lo <= tol;
     return {
       value: mean,
       uncertainty: sem,

@@ -99,12 +99,16 @@ export function Component() {
 
       <div className="grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="min-w-0 space-y-6">
-          <Panel title="Scores" id="entry-scores" description={row ? `Rank ${row.rank} of ${st.data!.entries.length} by ${st.data!.metric}` : 'From the current standings'}>
+          <Panel title="Scores" id="entry-scores" description={row ? (row.rank === null ? 'The house baseline: a reference row, never ranked' : `Rank ${row.rank} of ${st.data!.entries.filter((x) => x.rank !== null).length} by ${st.data!.metric}${row.rankInterval ? ` (95% interval ${row.rankInterval[0]}–${row.rankInterval[1]})` : ''}, scoring rules ${st.data!.scoringRulesVersion ?? ''}`) : 'From the current standings'}>
             {st.isPending ? <PageLoading label="Loading the standings…" /> : !row ? (
               <EmptyState title="Not in the current standings">The standings are being computed, or this entry is not ranked (withdrawn or superseded).</EmptyState>
             ) : (
               <dl className="grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-4">
                 {([
+                  ['Score, every ranked target', formatMetric(row.metrics.scoreOverall)],
+                  ['Score, exact references', formatMetric(row.metrics.scoreVerifiable)],
+                  ['Score, against the consensus', formatMetric(row.metrics.scoreAgreement)],
+                  ['Ranked targets answered', row.coverage ? `${row.coverage.overall.answered} of ${row.coverage.overall.ranked}` : '—'],
                   ['RMSE (verifiable)', formatMetric(row.metrics.rmseVerifiable)],
                   ['Max error', formatMetric(row.metrics.maxErrorVerifiable)],
                   ['Mean z²', formatMetric(row.metrics.meanZ2Verifiable)],

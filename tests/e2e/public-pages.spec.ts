@@ -99,11 +99,23 @@ describe('the public pages in the browser', () => {
     await maxErr.click();
     await expect.poll(() => header.getAttribute('aria-sort')).not.toBe(firstSort);
     // the column really is in order
-    const values = async () => (await rows.evaluateAll((trs) => trs.map((tr) => tr.children[5]?.textContent ?? ''))).map((s) => Number(s.replace('\u2212', '-'))).filter((x) => Number.isFinite(x));
+    const values = async () => (await rows.evaluateAll((trs) => trs.map((tr) => tr.children[7]?.textContent ?? ''))).map((s) => Number(s.replace('\u2212', '-'))).filter((x) => Number.isFinite(x));
     const v = await values();
     const sorted = [...v].sort((a, b) => (firstSort === 'ascending' ? b - a : a - b));
     expect(v).toEqual(sorted);
     await shots(p, '04-standings-sorted');
+
+    // the rules behind the table: the rank column carries intervals, the score its coverage, and
+    // the table links the public rules page (formulas, tolerance, rules version, worked example)
+    expect(await standings.getByRole('columnheader', { name: /answered/i }).count()).toBe(1);
+    expect(await rows.first().textContent()).toMatch(/\d+\/\d+/);
+    await p.getByRole('link', { name: 'How scoring works' }).first().click();
+    await p.getByTestId('scoring-example').waitFor();
+    expect(await p.getByRole('heading', { name: 'How scoring works' }).count()).toBeGreaterThan(0);
+    expect(await p.locator('body').textContent()).toMatch(/1e-10 × B/);
+    await shots(p, '04b-scoring-rules');
+    await p.goBack();
+    await standings.waitFor();
 
     // the specification with the lattice and the instances
     await p.getByRole('tab', { name: 'Specification' }).click();

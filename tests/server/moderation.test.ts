@@ -53,9 +53,11 @@ describe('review queue and decisions', () => {
     // 18 values equal to the other entry's
     expect(o.checks.identical.find((x: { entryId: string }) => x.entryId === good).targets).toBe(18);
     expect(o.checks.scores.rmse).toBeGreaterThan(0.1);
-    // outliers: against the consensus of the published entries (the house baseline here)
-    expect(o.checks.outliers.count).toBeGreaterThanOrEqual(1);
-    expect(o.checks.outliers.targets.map((x: { target: string }) => x.target)).toContain(w.targets[1].key);
+    // outliers: against the consensus of the published entries. Only the house baseline is
+    // published here, and under the scoring rules (issue 11) the baseline is never in the consensus
+    // and one team is no consensus: nothing to compare against yet
+    expect(o.checks.outliers.compared).toBe(0);
+    expect(o.checks.outliers.count).toBe(0);
   });
 
   it('publishes with a reason; the team is e-mailed; the standings are queued', async () => {

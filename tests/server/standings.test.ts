@@ -44,12 +44,13 @@ beforeAll(async () => {
   keys = tg.map((x) => x.key);
   // the last two targets become unverifiable: drop their references (as if no exact method existed)
   for (const x of tg.slice(2)) await db.update(references).set({ value: null, method: 'none', reason: 'test: treated as unknown' }).where(eq(references.targetId, x.id));
-  await db.insert(organization).values({ id: 'team-s', name: 'Team S', slug: 'team-s' });
+  // one team per entry: the consensus counts one result per team (scoring rules, rules.ts)
+  for (const name of Object.keys(NUMBERS)) await db.insert(organization).values({ id: `team-${name}`, name: `Team ${name}`, slug: `team-${name.toLowerCase()}` });
   let n = 0;
   for (const [name, nums] of Object.entries(NUMBERS)) {
     const id = randomUUID();
     ids[name] = id;
-    await db.insert(entries).values({ id, lineageId: id, challengeSlug: 'st-chain', versionId: tg[0].versionId, teamId: 'team-s', state: 'published', track: name === 'D' ? 'hardware' : 'classical', methodFamily: 'other', label: `entry ${name}`, document: { resources: { cpuCoreHours: 10 - n } }, submittedAt: new Date(Date.now() + n * 1000), publishedAt: new Date() });
+    await db.insert(entries).values({ id, lineageId: id, challengeSlug: 'st-chain', versionId: tg[0].versionId, teamId: `team-${name}`, state: 'published', track: name === 'D' ? 'hardware' : 'classical', methodFamily: 'other', label: `entry ${name}`, document: { resources: { cpuCoreHours: 10 - n } }, submittedAt: new Date(Date.now() + n * 1000), publishedAt: new Date() });
     await db.insert(estimates).values(nums.map(([value, u], k) => ({ entryId: id, targetKey: keys[k], value, uncertainty: u, kind: 'statistical' })));
     n++;
   }
@@ -58,31 +59,32 @@ beforeAll(async () => {
 afterAll(async () => { await worker.stop(); await t.close(); });
 
 describe('standings and consensus', () => {
-  it('consensus per unverifiable target equals the library (DerSimonian-Laird by default)', async () => {
+  it('consensus per unverifiable target equals the library (DerSimonian-Laird by default), the house baseline left out', async () => {
     const r = await agent(t).get('/api/challenges/st-chain/targets');
     expect(r.status).toBe(200);
     expect(r.body.estimator).toBe('random-effects-dl');
     const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
-    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
     for (const k of [2, 3]) {
+      // the house baseline is a reference row: never in the consensus
       const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
-      const b = baseEst.find((e) => e.targetKey === keys[k]);
-      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty }); // the house baseline is published first
       const lib = consensus(ms, 'random-effects-dl');
       const got = r.body.targets.find((x: any) => x.key === keys[k]);
       expect(got.reference.status).toBe('none');
       expect(got.consensus.value).toBeCloseTo(lib.value, 12);
       expect(got.consensus.uncertainty).toBeCloseTo(lib.uncertainty, 12);
       expect(got.consensus.chi2).toBeCloseTo(lib.inputTest.chi2, 10);
+      expect(got.consensus.teams).toBe(5);
+      if (baseline.length) expect(got.consensus.excluded).toContain(baseline[0].id);
     }
   });
 
-  it('entry metrics equal scoreSweep and the median |d|/U of the library, and the ranking follows RMSE', async () => {
+  it('entry metrics equal scoreSweep and the median |d|/U of the library, and the ranking follows the overall proper score', async () => {
     const r = await agent(t).get('/api/challenges/st-chain/standings');
     expect(r.status).toBe(200);
     expect(r.body.status).toBe('ready');
     const refs = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
     const rows = r.body.entries.filter((e: any) => !e.isBaseline);
+    expect(r.body.entries.filter((e: any) => e.isBaseline).every((e: any) => e.rank === null)).toBe(true);
     expect(rows).toHaveLength(5);
     for (const row of rows) {
       const name = row.label.split(' ')[1];
@@ -92,23 +94,19 @@ describe('standings and consensus', () => {
       expect(row.metrics.meanZ2Verifiable).toBeCloseTo(s.verifiable.meanZ2, 9);
       expect(row.metrics.gridCoverage).toBe(1);
     }
-    const rmses = r.body.entries.map((e: any) => e.metrics.rmseVerifiable);
-    expect([...rmses].sort((a: number, b: number) => a - b)).toEqual(rmses);
-    expect(r.body.entries.map((e: any) => e.rank)).toEqual(r.body.entries.map((_: unknown, i: number) => i + 1));
+    const scores = rows.map((e: any) => e.metrics.scoreOverall);
+    expect([...scores].sort((a: number, b: number) => a - b)).toEqual(scores);
+    expect(rows.map((e: any) => e.rank)).toEqual(rows.map((_: unknown, i: number) => i + 1));
   });
 
   it('agreement of an entry is the median |d|/U over unverifiable targets', async () => {
     const r = await agent(t).get('/api/challenges/st-chain/standings');
     const d = r.body.entries.find((e: any) => e.label === 'entry D');
     const targetsR = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
-    const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
-    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
     const ratios = [2, 3].map((k) => {
       const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
-      const b = baseEst.find((e) => e.targetKey === keys[k]);
-      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty });
       const c = consensus(ms, 'random-effects-dl');
-      const doe = degreesOfEquivalence(ms, c)[b ? 4 : 3];
+      const doe = degreesOfEquivalence(ms, c)[3];
       expect(targetsR[k].consensus).toBeTruthy();
       return Math.abs(doe.d) / doe.U;
     }).sort((a, b) => a - b);

@@ -7,6 +7,8 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { computeStandings, type StandingsEntryInput, type StandingsInput } from '../../../shared/scoring/standings';
 import { CONSENSUS_ESTIMATORS } from '../../../shared/scoring/consensus';
+import { EXACT_TOLERANCE } from '../../../shared/scoring/rules';
+import { normalCdf, normalPdf } from '../../../shared/scoring/special';
 
 function entry(id: string, est: Record<string, [number, number]>, extra: Partial<StandingsEntryInput> = {}): StandingsEntryInput {
   return {
@@ -33,7 +35,14 @@ describe('standings', () => {
     expect(byId.get('a')!.metrics.rmseVerifiable).toBeCloseTo(0.02, 14);
     expect(byId.get('b')!.metrics.rmseVerifiable).toBeCloseTo(0.05, 14);
     expect(byId.get('c')!.metrics.rmseVerifiable).toBe(0);
-    expect(s.entries.map((r) => r.id)).toEqual(['c', 'a', 'b']);
+    // ranked on the proper score over both targets (u has a consensus of two teams); c did not
+    // answer u and scores the worst case 2B = 2 there: (CRPS on v + 2)/2, so it ranks last
+    // although its one answer is exact
+    const crps = (m: number, sd: number, y: number) => { const z = (y - m) / sd; return sd * (z * (2 * normalCdf(z) - 1) + 2 * normalPdf(z) - 1 / Math.sqrt(Math.PI)); };
+    expect(byId.get('c')!.metrics.scoreOverall).toBeCloseTo((crps(0.5, 0.1, 0.5) + 2) / 2, 12);
+    expect(byId.get('c')!.coverage.overall).toEqual({ answered: 1, ranked: 2 });
+    expect(byId.get('a')!.metrics.scoreVerifiable).toBeCloseTo(crps(0.52, 0.01, 0.5), 12);
+    expect(s.entries.map((r) => r.id)).toEqual(['a', 'b', 'c']);
     // consensus of u: weights 1/0.01^2 and 1/0.02^2 -> y = (4 * 0.3 + 0.32)/5 = 0.304, u(y) = 0.01/sqrt(1.25)
     const tu = s.targets.find((t) => t.key === 'u')!;
     expect(tu.value).toBeCloseTo(0.304, 14);
@@ -46,36 +55,47 @@ describe('standings', () => {
     const ib = s.agreement.entryIds.indexOf('b');
     expect(s.agreement.meanRatio[ia][ib]).toBeCloseTo(0.02 / (2 * Math.sqrt(5e-4)), 12);
     expect(s.agreement.targets[ia][ib]).toBe(1);
-    // cost in hours: c = 7200 s QPU = 2 h; front: b (1 h, 0.05), c (2 h, 0): a (2 h, 0.02) is dominated by c
+    // cost in hours: c = 7200 s QPU = 2 h; the front is on the overall score: b (1 h) and a (2 h,
+    // better than b); c (2 h, worse than a: one answer missing) is dominated
     expect(byId.get('c')!.metrics.costHours).toBe(2);
-    expect(s.entries.filter((r) => r.onFront).map((r) => r.id).sort()).toEqual(['b', 'c']);
-    expect(s.counts).toEqual({ targets: 2, verifiable: 1, unverifiable: 1, disputed: 0, entries: 3 });
+    expect(byId.get('a')!.metrics.scoreOverall!).toBeLessThan(byId.get('b')!.metrics.scoreOverall!);
+    expect(s.entries.filter((r) => r.onFront).map((r) => r.id).sort()).toEqual(['a', 'b']);
+    expect(s.counts).toEqual({ targets: 2, verifiable: 1, unverifiable: 1, disputed: 0, entries: 3, ranked: 2 });
   });
 
-  it('two entries that differ while both claim zero uncertainty are counted as incompatible, not hidden', () => {
-    // |d| > 0 with U = 0: no finite |d|/U (SCORING.md degrees of equivalence); agreeing at U = 0 is ratio 0
+  it('u = 0 is judged with the exact tolerance: one ulp apart agree, 0.1 apart are far outside (finite |d|/U)', () => {
+    // rules.ts: u below EXACT_TOLERANCE * B / 2 is raised to it, so U of a pair is sqrt(2) * 1e-10 (B = 1)
+    const tol = EXACT_TOLERANCE;
     const s = computeStandings({
       estimator: 'median',
       targets: [{ key: 'u1', reference: null }, { key: 'u2', reference: null }, { key: 'u3', reference: null }],
-      entries: [entry('a', { u1: [0.1, 0], u2: [0.3, 0], u3: [0.5, 0.01] }), entry('b', { u1: [0.2, 0], u2: [0.3, 0], u3: [0.52, 0.01] })],
+      entries: [entry('a', { u1: [0.1, 0], u2: [0.3, 0], u3: [0.5, 0.01] }), entry('b', { u1: [0.2, 0], u2: [0.3 + 2 ** -53, 0], u3: [0.52, 0.01] })],
     });
     const ia = s.agreement.entryIds.indexOf('a');
     const ib = s.agreement.entryIds.indexOf('b');
-    expect(s.agreement.incompatible[ia][ib]).toBe(1); // u1
-    expect(s.agreement.incompatible[ib][ia]).toBe(1);
-    expect(s.agreement.targets[ia][ib]).toBe(2); // u2 (ratio 0) and u3
-    expect(s.agreement.meanRatio[ia][ib]).toBeCloseTo((0 + 0.02 / (2 * Math.sqrt(2e-4))) / 2, 12);
-    expect(s.agreement.incompatible[ia][ia]).toBe(0);
+    expect(s.agreement.incompatible[ia][ib]).toBe(0);
+    expect(s.agreement.targets[ia][ib]).toBe(3);
+    const r1 = 0.1 / (Math.SQRT2 * tol);
+    const r2 = (0.3 + 2 ** -53 - 0.3) / (Math.SQRT2 * tol);
+    expect(r2).toBeLessThan(1e-5);
+    expect(s.agreement.meanRatio[ia][ib]).toBeCloseTo((r1 + r2 + 0.02 / (2 * Math.sqrt(2e-4))) / 3, 0);
+    expect(s.targets.find((t) => t.key === 'u2')!.disputed).toBe(false);
   });
 
-  it('pairwise agreement with tiny uncertainties (1e-170) is resolved, not lost to U = 0', () => {
+  it('tiny uncertainties (1e-170) below the exact tolerance: values 3e-170 apart agree (|d|/U about 0, not lost to U = 0)', () => {
     const s = computeStandings({
       estimator: 'weighted-mean',
       targets: [{ key: 'u', reference: null }],
       entries: [entry('a', { u: [1e-170, 1e-170] }), entry('b', { u: [4e-170, 1e-170] })],
     });
-    // |d| / (2 sqrt(2) u) = 3 / (2 sqrt 2)
-    expect(s.agreement.meanRatio[0][1]).toBeCloseTo(3 / (2 * Math.SQRT2), 12);
+    expect(s.agreement.meanRatio[0][1]).toBeCloseTo(3e-170 / (Math.SQRT2 * EXACT_TOLERANCE), 12);
+    // with a tiny observable bound the tolerance is tiny too: 1e-170 is then resolved
+    const t = computeStandings({
+      estimator: 'weighted-mean',
+      targets: [{ key: 'u', reference: null, bound: 1e-165 }],
+      entries: [entry('a', { u: [1e-170, 1e-170] }), entry('b', { u: [4e-170, 1e-170] })],
+    });
+    expect(t.agreement.meanRatio[0][1]).toBeCloseTo(3 / (2 * Math.SQRT2), 12);
   });
 
   it('property: the order of the entries changes neither ranks nor metrics, for every estimator', () => {
@@ -83,7 +103,7 @@ describe('standings', () => {
     const arb = fc.record({
       refs: fc.array(fc.option(fc.double({ min: -1, max: 1, noNaN: true }), { nil: null }), { minLength: 1, maxLength: 4 }),
       entries: fc.array(fc.array(arbEst, { minLength: 4, maxLength: 4 }), { minLength: 1, maxLength: 6 }),
-      estimator: fc.constantFrom(...CONSENSUS_ESTIMATORS.filter((e) => e !== 'median')),
+      estimator: fc.constantFrom(...CONSENSUS_ESTIMATORS), // median included: its draws are order-free
       rot: fc.nat(),
     });
     fc.assert(

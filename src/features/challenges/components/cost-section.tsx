@@ -14,7 +14,8 @@ export default function CostSection({ c }: { c: ChallengeDetail }) {
   const model = useMemo(() => {
     const es = s.data?.entries ?? [];
     const anyVerifiable = es.some((e) => e.metrics.rmseVerifiable !== null);
-    const acc = (e: (typeof es)[number]) => (anyVerifiable ? e.metrics.rmseVerifiable : e.metrics.agreementMedianRatio);
+    // the front is computed on the overall proper score (scoring rules): plot that
+    const acc = (e: (typeof es)[number]) => e.metrics.scoreOverall;
     const plotted = es.filter((e) => e.metrics.costHours !== null && e.metrics.costHours > 0 && (acc(e) ?? 0) > 0);
     const apart = es.filter((e) => !plotted.includes(e));
     const points: CostPoint[] = plotted.map((e) => ({ x: e.metrics.costHours!, y: acc(e)!, label: e.label, mark: e.isBaseline ? 'baseline' : e.track, onFront: e.onFront, id: e.id }));
@@ -23,12 +24,12 @@ export default function CostSection({ c }: { c: ChallengeDetail }) {
 
   if (s.isPending) return <PageLoading label="Loading the standings…" />;
   if (s.isError) return <ErrorState error={s.error} retry={() => s.refetch()} />;
-  const yLabel = model.anyVerifiable ? 'RMSE on verifiable targets (log)' : 'median |d|/U (log)';
+  const yLabel = 'score on every ranked target (log)';
   return (
     <Panel
       title="Accuracy against cost"
       id="cost"
-      description={`Declared compute (CPU core-hours + GPU hours + QPU seconds / 3600) against ${model.anyVerifiable ? 'the RMSE on targets with an exact reference' : 'the agreement with the consensus (no target has an exact reference)'}; lower left is better. The dashed step line is the non-dominated front.`}
+      description={`Declared compute (CPU core-hours + GPU hours + QPU seconds / 3600) against the overall score (the proper score the standings rank by); lower left is better. The dashed step line is the non-dominated front.`}
       actions={<ChartTableToggle shown={showTable} onToggle={() => setShowTable(!showTable)} controls="cost-table" />}
     >
       {s.data!.status === 'pending' ? (
@@ -68,7 +69,7 @@ export default function CostSection({ c }: { c: ChallengeDetail }) {
               <tr>
                 <th scope="col" className="border-b border-rule-strong py-1 pr-2 text-left text-xs text-ink-soft">Entry</th>
                 <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">Cost</th>
-                <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">{model.anyVerifiable ? 'RMSE' : 'Agreement'}</th>
+                <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right text-xs text-ink-soft">Score</th>
                 <th scope="col" className="border-b border-rule-strong py-1 pl-2 text-left text-xs text-ink-soft">Front</th>
               </tr>
             </thead>

@@ -1,4 +1,4 @@
-import { useSearchParams } from 'react-router';
+import { Link, useSearchParams } from 'react-router';
 import { METRIC_LABEL, useStandings } from '@/features/standings/api/get-standings';
 import { formatDateTime } from '@/lib/format';
 import { EmptyState, ErrorState, PageLoading, Panel, Provenance, ProvenanceList, Segmented, Spinner, TrackMark, inputClass } from '@/components/ui';
@@ -56,12 +56,13 @@ export function StandingsSection({ slug }: { slug: string }) {
             {q.asOf && <button type="button" className="text-xs underline" onClick={() => set('asOf', '')}>now</button>}
           </span>
         </label>
+        {d && d.status === 'rescoring' && <span className="ml-auto text-xs text-disputed-ink">scoring rules changed ({d.scoringRulesVersion} → {d.currentScoringRulesVersion}): these standings are being recomputed</span>}
         {d && d.status === 'ready' && (
           <span className="ml-auto text-xs text-ink-soft">
             computed {formatDateTime(d.computedAt)}
             <Provenance label="How the standings were computed">
-              <ProvenanceList items={[['Engine', d.engineVersion ?? '—'], ['Computed', formatDateTime(d.computedAt)], ['Consensus', d.estimator ?? '—'], ['Version', `v${d.version}`], ['As of', d.asOf ? formatDateTime(d.asOf) : 'now']]} />
-              <p className="mt-2 text-ink-soft">Errors, z and coverage are against exact references; agreement is |d|/U against the consensus where no exact value exists (U at k = 2).</p>
+              <ProvenanceList items={[['Engine', d.engineVersion ?? '—'], ['Scoring rules', d.scoringRulesVersion ?? '—'], ['Computed', formatDateTime(d.computedAt)], ['Consensus', d.estimator ?? '—'], ['Rank intervals', d.bootstrapReplicates ? `${d.bootstrapReplicates} bootstrap resamples` : '—'], ['Version', `v${d.version}`], ['As of', d.asOf ? formatDateTime(d.asOf) : 'now']]} />
+              <p className="mt-2 text-ink-soft">Ranked on proper scores (lower is better): CRPS against exact references, CRPS averaged over the consensus elsewhere; a missing answer scores the worst case. <Link to="/scoring">How scoring works</Link>.</p>
             </Provenance>
           </span>
         )}
@@ -82,7 +83,7 @@ export function StandingsSection({ slug }: { slug: string }) {
         <StandingsTable entries={d!.entries} metric={d!.metric} slug={slug} />
       )}
       <p className="mt-3 text-xs text-ink-soft">
-        RMSE, max error, mean z² and coverage (|x − r| ≤ 2u) on targets with an exact reference; agreement is the median |d|/U against the consensus on the others, with the number of targets outside |d| ≤ U; grid is the share of the targets answered; cost is declared compute in hours.
+        Rank: the order by the score, with its 95% interval from a bootstrap over targets. Score: the mean proper score over the ranked targets (lower is better; a ranked target not answered counts as the worst case, 2 × the observable's bound). Answered: ranked targets answered of those ranked. Shown, not ranked: RMSE, max error, mean z², covered (|x − r| ≤ 2u, exact within {d?.exactTolerance ?? 1e-10} × bound) and the median |d|/U against the consensus. The house baseline is a reference row. <Link to="/scoring">How scoring works</Link> (rules {d?.scoringRulesVersion ?? d?.currentScoringRulesVersion ?? ''}).
       </p>
     </Panel>
   );

@@ -13,7 +13,7 @@ import {
   tableFeatures,
   useTable,
 } from '@tanstack/react-table';
-import type { StandingsEntry } from '@/features/standings/api/get-standings';
+import { METRIC_SCOPE, type StandingsEntry } from '@/features/standings/api/get-standings';
 import { formatHours, formatMetric, formatPercent, formatSig } from '@/lib/format';
 import { Badge, Provenance, ProvenanceList, TrackMark, cx } from '@/components/ui';
 
@@ -53,13 +53,44 @@ export function CostCell({ e }: { e: StandingsEntry }) {
 
 const metricCell = (x: number | null | undefined) => <span className="num">{formatMetric(x)}</span>;
 
+/** The rank with its 95% bootstrap interval; the house baseline is a reference row, not ranked. */
+export function RankCell({ e }: { e: StandingsEntry }) {
+  if (e.rank === null) return <span className="text-xs text-ink-soft" title="The house baseline is shown for reference and never ranked">ref.</span>;
+  const iv = e.rankInterval;
+  return (
+    <span className="whitespace-nowrap">
+      <span className="num">{e.tiedWithPrevious ? '=' : ''}{e.rank}</span>
+      {iv && <span className="num ml-1 text-xs text-ink-soft" title="95% interval of the rank from a bootstrap over the ranked targets">{iv[0] === iv[1] ? `[${iv[0]}]` : `[${iv[0]}–${iv[1]}]`}</span>}
+    </span>
+  );
+}
+
+/** Answered / ranked targets of the metric's scope. */
+export function CoverageCell({ e, metric }: { e: StandingsEntry; metric: string }) {
+  const c = e.coverage?.[METRIC_SCOPE[metric]?.scope ?? 'overall'];
+  if (!c) return <span className="text-ink-faint">—</span>;
+  return <span className={cx('num whitespace-nowrap', c.answered < c.ranked && 'text-disputed-ink')} title={`${c.answered} of the ${c.ranked} ranked targets answered; each missing one scores the worst case`}>{c.answered}/{c.ranked}</span>;
+}
+
+/** The ranking score (a proper score, lower is better), with its standard error over targets. */
+function ScoreCell({ e, metric }: { e: StandingsEntry; metric: string }) {
+  const key = METRIC_SCOPE[metric]?.key ?? 'scoreOverall';
+  const v = e.metrics[key];
+  return (
+    <span className="num whitespace-nowrap">
+      {formatMetric(v)}
+      {key === 'scoreOverall' && e.metrics.scoreOverallSe !== null && e.metrics.scoreOverallSe !== undefined && <span className="ml-1 text-xs text-ink-soft">± {formatMetric(e.metrics.scoreOverallSe, 2)}</span>}
+    </span>
+  );
+}
+
 export function StandingsTable({ entries, metric, slug }: { entries: StandingsEntry[]; metric: string; slug: string }) {
   const [family, setFamily] = useState('');
   const families = useMemo(() => [...new Set(entries.map((e) => e.methodFamily))].sort(), [entries]);
   const columns = useMemo(
     () =>
       helper.columns([
-        helper.accessor('rank', { header: 'Rank', sortFn: 'basic', cell: (c) => <span className="num">{c.row.original.tiedWithPrevious ? '=' : ''}{c.getValue()}</span> }),
+        helper.accessor((r) => r.rank ?? undefined, { id: 'rank', header: 'Rank', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <RankCell e={c.row.original} /> }),
         helper.accessor('label', {
           header: 'Entry',
           sortFn: 'text',
@@ -73,7 +104,8 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
                   <span className="sr-only">({e.track})</span>
                 </span>
                 <div className="mt-0.5 flex flex-wrap gap-1">
-                  {e.isBaseline && <Badge tone="exact">house baseline</Badge>}
+                  {e.isBaseline && <Badge tone="exact">house baseline · reference row, not ranked</Badge>}
+                  {e.isBaseline && e.bound && <span className="num text-xs text-ink-soft" title="Truncation bound (sum of the dropped |c|), capped at the observable's bound: a bound, not a standard uncertainty">bound ≤ {formatSig(e.bound.max, 2)} (median {formatSig(e.bound.median, 2)})</span>}
                   {e.featured && <Badge tone="consensus">featured</Badge>}
                   {e.onFront && <Badge tone="ok">on the cost front</Badge>}
                 </div>
@@ -83,13 +115,15 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
         }),
         helper.accessor('teamName', { header: 'Team', sortFn: 'text', cell: (c) => <Link to={`/teams/${encodeURIComponent(c.row.original.teamId)}`}>{c.getValue()}</Link> }),
         helper.accessor('methodFamily', { header: 'Method', sortFn: 'text', filterFn: 'equals', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+        helper.accessor((r) => orUndef(r.metrics[METRIC_SCOPE[metric]?.key ?? 'scoreOverall']), { id: 'score', header: 'Score', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <ScoreCell e={c.row.original} metric={metric} /> }),
+        helper.accessor((r) => (r.coverage ? r.coverage[METRIC_SCOPE[metric]?.scope ?? 'overall'].answered : undefined), { id: 'answered', header: 'Answered', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <CoverageCell e={c.row.original} metric={metric} /> }),
         helper.accessor((r) => orUndef(r.metrics.rmseVerifiable), { id: 'rmse', header: 'RMSE', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
         helper.accessor((r) => orUndef(r.metrics.maxErrorVerifiable), { id: 'maxError', header: 'Max error', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
         helper.accessor((r) => orUndef(r.metrics.meanZ2Verifiable), { id: 'meanZ2', header: 'Mean z²', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
-        helper.accessor((r) => orUndef(r.metrics.coveredVerifiable), { id: 'covered', header: 'Coverage', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
+        helper.accessor((r) => orUndef(r.metrics.coveredVerifiable), { id: 'covered', header: 'Covered', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
         helper.accessor((r) => orUndef(r.metrics.agreementMedianRatio), {
           id: 'agreement',
-          header: 'Agreement',
+          header: 'Median |d|/U',
           sortFn: 'basic',
           sortUndefined: 'last',
           cell: (c) => {
@@ -105,7 +139,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
         helper.accessor((r) => r.metrics.gridCoverage, { id: 'grid', header: 'Grid', sortFn: 'basic', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
         helper.accessor((r) => orUndef(r.metrics.costHours), { id: 'cost', header: 'Cost', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <CostCell e={c.row.original} /> }),
       ]),
-    [],
+    [metric],
   );
   const [sorting, setSorting] = useState([{ id: 'rank', desc: false }]);
   const columnFilters = useMemo(() => (family ? [{ id: 'methodFamily', value: family }] : []), [family]);
@@ -118,8 +152,8 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
     onSortingChange: (u) => setSorting((s) => (typeof u === 'function' ? u(s) : u) as typeof s),
   });
   const rows = table.getRowModel().rows;
-  const numeric = new Set(['rank', 'rmse', 'maxError', 'meanZ2', 'covered', 'agreement', 'grid', 'cost']);
-  const primaryCol: Record<string, string> = { 'rmse-verifiable': 'rmse', agreement: 'agreement', 'max-error-verifiable': 'maxError', calibration: 'meanZ2' };
+  const numeric = new Set(['rank', 'score', 'answered', 'rmse', 'maxError', 'meanZ2', 'covered', 'agreement', 'grid', 'cost']);
+  const primaryCol: Record<string, string> = { overall: 'score', 'crps-verifiable': 'score', agreement: 'score' };
 
   return (
     <div className="space-y-3">
@@ -131,6 +165,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
             {families.map((f) => <option key={f} value={f}>{f}</option>)}
           </select>
         </label>
+        <Link to="/scoring" className="text-sm">How scoring works</Link>
         <span className="num ml-auto text-ink-soft">{rows.length} of {entries.length} entries</span>
       </div>
       <label className="flex items-center gap-2 text-sm md:hidden">
@@ -142,6 +177,8 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
           className="h-8 rounded border border-rule-strong bg-paper-raised px-2 text-sm"
         >
           <option value="rank:asc">rank</option>
+          <option value="score:asc">score, best first</option>
+          <option value="answered:desc">answered, most first</option>
           <option value="rmse:asc">RMSE, lowest first</option>
           <option value="maxError:asc">max error, lowest first</option>
           <option value="meanZ2:asc">mean z², lowest first</option>
@@ -156,7 +193,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
           return (
             <li key={r.id} className={cx('py-3', e.isBaseline && 'bg-exact-soft/50')}>
               <div className="flex items-start gap-3">
-                <span className="num w-6 shrink-0 pt-0.5 text-right text-lg font-semibold">{e.tiedWithPrevious ? '=' : ''}{e.rank}</span>
+                <span className="num w-10 shrink-0 pt-0.5 text-right text-lg font-semibold"><RankCell e={e} /></span>
                 <div className="min-w-0 flex-1">
                   <span className="inline-flex items-start gap-1.5">
                     <TrackMark track={e.track} className="mt-1.5" />
@@ -166,15 +203,17 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
                     <Link to={`/teams/${encodeURIComponent(e.teamId)}`}>{e.teamName}</Link> · {e.methodFamily}
                   </p>
                   <div className="mt-0.5 flex flex-wrap gap-1">
-                    {e.isBaseline && <Badge tone="exact">house baseline</Badge>}
+                    {e.isBaseline && <Badge tone="exact">house baseline · reference row, not ranked</Badge>}
                     {e.onFront && <Badge tone="ok">on the cost front</Badge>}
                   </div>
                   <dl className="mt-2 grid grid-cols-3 gap-x-3 gap-y-1 text-sm">
+                    <div><dt className="text-xs text-ink-faint">Score</dt><dd><ScoreCell e={e} metric={metric} /></dd></div>
+                    <div><dt className="text-xs text-ink-faint">Answered</dt><dd><CoverageCell e={e} metric={metric} /></dd></div>
                     <div><dt className="text-xs text-ink-faint">RMSE</dt><dd className="num">{formatMetric(m.rmseVerifiable)}</dd></div>
                     <div><dt className="text-xs text-ink-faint">Max error</dt><dd className="num">{formatMetric(m.maxErrorVerifiable)}</dd></div>
                     <div><dt className="text-xs text-ink-faint">Mean z²</dt><dd className="num">{formatMetric(m.meanZ2Verifiable)}</dd></div>
-                    <div><dt className="text-xs text-ink-faint">Coverage</dt><dd className="num">{formatPercent(m.coveredVerifiable)}</dd></div>
-                    <div><dt className="text-xs text-ink-faint">Agreement</dt><dd className="num">{formatMetric(m.agreementMedianRatio)}{m.unverifiableScored > 0 && <span className="text-xs text-ink-faint"> {m.outsideInterval} out</span>}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Covered</dt><dd className="num">{formatPercent(m.coveredVerifiable)}</dd></div>
+                    <div><dt className="text-xs text-ink-faint">Median |d|/U</dt><dd className="num">{formatMetric(m.agreementMedianRatio)}{m.unverifiableScored > 0 && <span className="text-xs text-ink-faint"> {m.outsideInterval} out</span>}</dd></div>
                     <div><dt className="text-xs text-ink-faint">Cost</dt><dd><CostCell e={e} /></dd></div>
                   </dl>
                 </div>

@@ -1,0 +1,1 @@
+ALTER TABLE "standings" ADD COLUMN "scoring_rules_version" text DEFAULT '2026-11.0' NOT NULL;
