@@ -22,7 +22,8 @@ const states = ['published', 'in-review', 'returned', 'rejected', 'draft'] as co
 const ids: Record<string, string> = {};
 const PUBLIC_PATHS = ['/api/challenges', '/api/challenges/pub-chain', '/api/challenges/pub-chain/targets', '/api/challenges/pub-chain/standings', '/api/challenges/pub-chain/estimates',
   '/api/challenges/pub-chain/agreement', '/api/challenges/pub-chain/history', '/api/challenges/pub-chain/export.csv', '/api/challenges/pub-chain/export.csv?table=standings',
-  '/api/challenges/pub-chain/export.json', '/api/challenges/pub-chain/package.json', '/api/teams', '/api/teams/team-p'];
+  '/api/challenges/pub-chain/export.json', '/api/challenges/pub-chain/package.json',
+  '/api/challenges/pub-chain/targets/t1-h0.300000:z2', '/api/challenges/pub-chain/targets/t2-h0.300000:z2', '/api/teams', '/api/teams/team-p'];
 
 async function allPublic(): Promise<string> {
   const bodies = await Promise.all(PUBLIC_PATHS.map(async (p) => { const r = await agent(t).get(p); expect(r.status, p).toBe(200); return r.text; }));
