@@ -137,7 +137,7 @@ export function Component() {
               <table className="w-full border-collapse text-sm sm:min-w-[40rem] lg:min-w-0" data-testid="entry-estimates">
                 <caption className="sr-only">Every estimate of this entry with its score against the exact reference or the consensus</caption>
                 <thead>
-                  <tr className="text-xs text-ink-soft uppercase">
+                  <tr className="text-xs text-ink-soft">
                     <th scope="col" className="border-b border-rule-strong py-2 pr-2 text-left font-semibold">Target</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Estimate</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Reference</th>
@@ -293,7 +293,7 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
           <p className="mb-2 text-sm text-ink-soft">The same noise-scaled data ({s.e.noiseScaled!.length} factors{s.e.unmitigated !== undefined ? `, unmitigated ${formatMeasurement(s.e.unmitigated).text}` : ''}) extrapolated by Parallax with several models, beside the team's own value.</p>
           <table className="w-full border-collapse text-sm">
             <thead>
-              <tr className="text-xs text-ink-soft uppercase">
+              <tr className="text-xs text-ink-soft">
                 <th scope="col" className="border-b border-rule-strong py-1 pr-2 text-left font-semibold">Model</th>
                 <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right font-semibold">E(0)</th>
                 <th scope="col" className="border-b border-rule-strong py-1 pl-2 text-right font-semibold">{ref !== null ? 'Error' : 'χ²/ν'}</th>
