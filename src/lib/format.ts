@@ -156,3 +156,15 @@ export const metricName = (id: string | null | undefined) => (id ? METRIC_NAMES[
 /** chi-squared per degree of freedom: "χ²/ν = 12.3/4" */
 export const chiSquaredText = (chi2: number | null | undefined, nu: number | null | undefined) =>
   chi2 === null || chi2 === undefined || !nu ? '—' : `${formatSig(chi2, 3)}/${nu}`;
+
+/** the zero-noise extrapolation models (shared/scoring/zne.ts) in words */
+const ZNE_MODEL_NAMES: Record<string, string> = { richardson: 'Richardson', linear: 'linear fit', 'polynomial-2': 'quadratic fit', exponential: 'exponential (asymptote 0)', 'exponential-free-asymptote': 'exponential (free asymptote)' };
+export const zneModelName = (id: string) => ZNE_MODEL_NAMES[id] ?? id.replace(/-/g, ' ');
+
+/** a duration in milliseconds as a reader says it: 840 ms, 3.2 s, 6.5 min */
+export function formatMs(ms: number | null | undefined): string {
+  if (ms === null || ms === undefined || !Number.isFinite(ms)) return '—';
+  if (ms < 1000) return `${Math.round(ms)} ms`;
+  if (ms < 60_000) return `${Number((ms / 1000).toPrecision(2))} s`;
+  return formatHours(ms / 3_600_000);
+}

@@ -1,11 +1,12 @@
 import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
-import { Link, useParams, type LoaderFunctionArgs } from 'react-router';
+import { Link, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router';
+import { useCompareChoices } from '@/features/compare/api/use-compare-choices';
 import { zneSummary } from '@shared/scoring/zne';
 import { queryClient } from '@/lib/query-client';
 import { getEntryQueryOptions, useEntry, type EntryDocumentEstimate, type EstimateScore } from '@/features/entries/api/get-entry';
 import { useTargets, type Target } from '@/features/challenges/api/get-targets';
 import { useStandings } from '@/features/standings/api/get-standings';
-import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig } from '@/lib/format';
+import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig, metricName, naturalCompare, zneModelName } from '@/lib/format';
 import { Badge, ChartTableToggle, EmptyState, ErrorState, Measured, PageHeader, PageLoading, Panel, Provenance, ProvenanceList, TrackBadge, buttonClass, cx, inputClass } from '@/components/ui';
 import { COLORS } from '@/features/challenges/charts/theme';
 
@@ -47,6 +48,12 @@ function dOverU(c: NonNullable<EstimateScore['consensus']>): number {
 
 const PAGE = 30;
 
+/** a software item as the document gives it: { name, version }, or a plain string (older house baselines) */
+function softwareText(s: { name?: string; version?: string } | string): string {
+  if (typeof s === 'string') return s;
+  return [s.name, s.version].filter(Boolean).join(' ') || 'not named';
+}
+
 export function Component() {
   const { entryId = '' } = useParams();
   const q = useEntry(entryId);
@@ -61,7 +68,7 @@ export function Component() {
     const ests = q.data?.document?.estimates ?? [];
     const byKey = new Map((tq.data?.targets ?? []).map((t) => [t.key, t]));
     const scoreOf = new Map((q.data?.scores ?? []).map((x) => [x.target, x]));
-    return ests.map((e) => ({ e, t: byKey.get(e.target), s: scoreOf.get(e.target) }));
+    return ests.map((e) => ({ e, t: byKey.get(e.target), s: scoreOf.get(e.target) })).sort((x, y) => naturalCompare(x.e.target, y.e.target));
   }, [q.data, tq.data]);
 
   if (q.isPending) return <PageLoading label="Loading the entry…" />;
@@ -85,6 +92,7 @@ export function Component() {
         actions={
           <div className="flex flex-wrap gap-2">
             <a className={buttonClass('secondary', 'sm')} href={`/api/entries/${encodeURIComponent(en.id)}/cite.bib`} download>BibTeX</a>
+            {en.state === 'published' && <CompareWith slug={slug} id={en.id} />}
           </div>
         }
       >
@@ -99,7 +107,7 @@ export function Component() {
 
       <div className="grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="min-w-0 space-y-6">
-          <Panel title="Scores" id="entry-scores" description={row ? `Rank ${row.rank} of ${st.data!.entries.length} by ${st.data!.metric}` : 'From the current standings'}>
+          <Panel title="Scores" id="entry-scores" description={row ? `Rank ${row.rank} of ${st.data!.entries.length} by ${metricName(st.data!.metric)}` : 'From the current standings'}>
             {st.isPending ? <PageLoading label="Loading the standings…" /> : !row ? (
               <EmptyState title="Not in the current standings">The standings are being computed, or this entry is not ranked (withdrawn or superseded).</EmptyState>
             ) : (
@@ -112,7 +120,8 @@ export function Component() {
                   ['Agreement |d|/U', formatMetric(row.metrics.agreementMedianRatio)],
                   ['Outside interval', String(row.metrics.outsideInterval)],
                   ['Grid coverage', formatPercent(row.metrics.gridCoverage)],
-                  ['Declared cost', formatHours(row.metrics.costHours)],
+                  ['Classical compute', classicalText(row.cost)],
+                  ['QPU time', row.cost.qpuSeconds === undefined ? '—' : formatHours(row.cost.qpuSeconds / 3600)],
                 ] as [string, string][]).map(([k, v]) => (
                   <div key={k}><dt className="text-xs text-ink-soft">{k}</dt><dd className="num text-lg">{v}</dd></div>
                 ))}
@@ -235,7 +244,7 @@ export function Component() {
                 {res.qpuSeconds !== undefined && <><dt className="text-ink-soft">QPU seconds</dt><dd className="num">{formatSig(res.qpuSeconds, 3)}</dd></>}
                 {res.wallTimeSeconds !== undefined && <><dt className="text-ink-soft">Wall time</dt><dd className="num">{formatHours(res.wallTimeSeconds / 3600)}</dd></>}
                 {res.memoryGiB !== undefined && <><dt className="text-ink-soft">Memory</dt><dd className="num">{formatSig(res.memoryGiB, 3)} GiB</dd></>}
-                {res.software?.length ? <><dt className="text-ink-soft">Software</dt><dd>{res.software.map((s) => `${s.name}${s.version ? ` ${s.version}` : ''}`).join(', ')}</dd></> : null}
+                {res.software?.length ? <><dt className="text-ink-soft">Software</dt><dd>{res.software.map((s) => softwareText(s)).join(', ')}</dd></> : null}
                 {res.commit && <><dt className="text-ink-soft">Commit</dt><dd><code className="text-xs break-all">{res.commit}</code></dd></>}
               </dl>
             )}
@@ -277,8 +286,6 @@ export function Component() {
   );
 }
 
-const MODEL_LABEL: Record<string, string> = { richardson: 'Richardson', linear: 'linear fit', 'polynomial-2': 'quadratic fit', exponential: 'exponential (asymptote 0)', 'exponential-free-asymptote': 'exponential (free asymptote)' };
-
 function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' }) {
   const [table, setTable] = useState(false);
   useEffect(() => { document.getElementById('entry-detail')?.scrollIntoView({ block: 'nearest' }); }, [s.e.target]);
@@ -307,7 +314,7 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
               </tr>
               {zne.models.map((m) => (
                 <tr key={m.model}>
-                  <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-normal">{MODEL_LABEL[m.model] ?? m.model}</th>
+                  <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-normal">{zneModelName(m.model)}</th>
                   <td className="border-b border-rule px-2 py-1 text-right">{m.ok ? <Measured value={m.value} u={m.uncertainty} /> : <span className="text-ink-faint" title={m.reason}>not fitted: {m.reason}</span>}</td>
                   <td className="num border-b border-rule py-1 pl-2 text-right">{m.ok ? (ref !== null ? formatSig(m.value - ref, 2) : m.chi2 !== undefined && Number.isFinite(m.chi2) && m.nu ? `${formatSig(m.chi2, 2)}/${m.nu}` : '') : ''}</td>
                 </tr>
@@ -343,5 +350,26 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
         </div>
       ) : null}
     </Panel>
+  );
+}
+
+/** CPU core-hours and GPU hours, never added to QPU time */
+function classicalText(c: { cpuCoreHours?: number; gpuHours?: number }): string {
+  const parts = [c.cpuCoreHours !== undefined ? `${formatHours(c.cpuCoreHours)} CPU` : '', c.gpuHours !== undefined ? `${formatHours(c.gpuHours)} GPU` : ''].filter(Boolean);
+  return parts.length ? parts.join(' + ') : '—';
+}
+
+function CompareWith({ slug, id }: { slug: string; id: string }) {
+  const choices = useCompareChoices(slug);
+  const navigate = useNavigate();
+  return (
+    <label className="inline-flex items-center gap-2 text-sm">
+      <span className="text-ink-soft">Compare with</span>
+      <select defaultValue="" onChange={(e) => e.target.value && navigate(`/compare?a=${encodeURIComponent(id)}&b=${encodeURIComponent(e.target.value)}`)} className={inputClass(false, 'w-48', true)} data-testid="compare-with">
+        <option value="" disabled>choose…</option>
+        <option value="consensus">the consensus</option>
+        {choices.filter((x) => x.id !== id).map((x) => <option key={x.id} value={x.id}>{x.label}</option>)}
+      </select>
+    </label>
   );
 }
