@@ -57,7 +57,7 @@ function Comparison({ a, b }: { a: Entry; b: Entry | null }) {
         <p className="text-sm">d = <Link to={`/entries/${a.id}`}>{a.label}</Link> − {b ? <Link to={`/entries/${b.id}`}>{b.label}</Link> : <>the consensus{tq.data?.estimator ? ` (${estimatorName(tq.data.estimator)})` : ''}</>}, target by target.</p>
       </PageHeader>
       <Pickers slug={slug} a={a.id} b={b?.id ?? CONSENSUS} />
-      <Panel title="Summary" id="compare-summary" description={b ? 'Differences of two independent methods: u(d)² = u_a² + u_b², U = 2u(d).' : "Degrees of equivalence with the consensus, as on the entry's page: U = 2u(d)."}>
+      <Panel title="Summary" id="compare-summary" description={b ? <>Differences of two independent methods: u(d)² = u<sub>a</sub>² + u<sub>b</sub>², U = 2u(d).</> : "Degrees of equivalence with the consensus, as on the entry's page: U = 2u(d)."}>
         <dl className="grid grid-cols-2 gap-x-6 gap-y-3 text-sm sm:grid-cols-4" data-testid="compare-summary">
           <div><dt className="text-xs text-ink-soft">Targets both answered</dt><dd className="num text-lg">{sum.common}</dd></div>
           <div><dt className="text-xs text-ink-soft">χ² of the differences per degree of freedom</dt><dd className="num text-lg">{chiSquaredText(sum.chi2, sum.nu)}</dd></div>

@@ -69,15 +69,15 @@ function TargetPage({ slug, t }: { slug: string; t: TargetDetail }) {
 
       <Panel title="Degrees of equivalence" id="target-doe" description={<>d = estimate − {exact ? 'reference' : 'consensus'}, U = 2u(d){exact ? ' with u²(d) = u² + u²(reference)' : '; u(d) accounts for the estimate being part of the consensus or not'}. |d|/U above 1: the two disagree beyond their stated uncertainties.</>}>
         <Table aria-label={`Estimates of ${t.key} and their degrees of equivalence`} id="doe-table" data-testid="doe-table" tabIndex={0}>
-          <thead><tr><Th>Entry</Th><Th>Method</Th><Th num>Estimate</Th><Th num>d</Th><Th num>U</Th><Th num>|d|/U</Th>{!exact && <Th>In the consensus</Th>}</tr></thead>
+          <thead><tr><Th>Entry</Th><Th className="hidden sm:table-cell">Method</Th><Th num>Estimate</Th><Th num>d</Th><Th num>U</Th><Th num>|d|/U</Th>{!exact && <Th>In the consensus</Th>}</tr></thead>
           <tbody>
             {sorted.map((e) => {
               const q = e.equivalence;
               const ratio = q && q.U > 0 ? Math.abs(q.d) / q.U : null;
               return (
                 <tr key={e.entry.id}>
-                  <Td><span className="inline-flex items-center gap-1.5"><TrackMark track={e.entry.track} size={10} /><Link to={`/entries/${e.entry.id}`}>{e.entry.label}</Link></span><span className="block text-xs text-ink-soft">{e.entry.teamName}</span></Td>
-                  <Td className="text-xs">{e.entry.methodFamily}{e.entry.isBaseline && ' (house baseline)'}</Td>
+                  <Td><span className="inline-flex min-w-[9rem] items-start gap-1.5"><TrackMark track={e.entry.track} size={10} /><Link to={`/entries/${e.entry.id}`} className="line-clamp-2" title={e.entry.label}>{e.entry.label}</Link></span><span className="block text-xs text-ink-soft">{e.entry.teamName}<span className="sm:hidden"> · {e.entry.methodFamily}</span></span></Td>
+                  <Td className="hidden text-xs sm:table-cell">{e.entry.methodFamily}{e.entry.isBaseline && ' (house baseline)'}</Td>
                   <Td num><Measured value={e.value} u={e.uncertainty} /> <span className="block text-xs text-ink-soft">{e.kind}</span></Td>
                   <Td num>{q ? formatSig(q.d, 2) : '—'}</Td>
                   <Td num>{q ? formatSig(q.U, 2) : '—'}</Td>
@@ -148,7 +148,7 @@ function ConsensusPanel({ t }: { t: TargetDetail }) {
             <dt className="text-ink-soft" title="chi-squared per degree of freedom">χ² per degree of freedom</dt><dd className="num">{chiSquaredText(c.chi2, c.nu)}{c.p !== null && <span className="text-ink-soft"> (p = {formatSig(c.p, 2)})</span>}</dd>
             <dt className="text-ink-soft">Birge ratio</dt><dd className="num">{formatSig(c.birgeRatio, 3)}</dd>
             <dt className="text-ink-soft">τ (between-method spread)</dt><dd className="num">{c.tau2 === null ? '—' : formatSig(Math.sqrt(c.tau2), 2)}</dd>
-            {c.I2 !== null && <><dt className="text-ink-soft">I²</dt><dd className="num">{formatSig(c.I2 * 100, 2)} %</dd></>}
+            {c.I2 !== null && <><dt className="text-ink-soft">I²</dt><dd className="num">{formatSig(c.I2, 2)} %</dd></>}
             <dt className="text-ink-soft">Scored</dt><dd className="num">{formatDateTime(c.computedAt)} · {c.engineVersion}</dd>
           </dl>
         </div>
@@ -168,15 +168,15 @@ function ZneBlock({ e, reference }: { e: TargetEstimate; reference: number | nul
       </Suspense>
       <table className="mt-2 w-full border-collapse text-sm">
         <caption className="sr-only">Noise-scaled values and fits of {e.entry.label}</caption>
-        <thead><tr className="text-xs text-ink-soft"><th scope="col" className="border-b border-rule-strong py-1 text-left font-semibold">Model or factor</th><th scope="col" className="border-b border-rule-strong py-1 text-right font-semibold">Value</th><th scope="col" className="border-b border-rule-strong py-1 text-right font-semibold">{reference !== null ? 'Error' : 'χ²/ν'}</th></tr></thead>
+        <thead><tr className="text-xs text-ink-soft"><th scope="col" className="border-b border-rule-strong py-1 text-left font-semibold">Model or factor</th><th scope="col" className="border-b border-rule-strong py-1 text-right font-semibold">Value</th><th scope="col" className="border-b border-rule-strong py-1 pl-4 text-right font-semibold">{reference !== null ? 'Error' : 'χ² per degree of freedom'}</th></tr></thead>
         <tbody>
-          {z.points.map((p) => <tr key={`c${p.scale}`}><th scope="row" className="border-b border-rule py-1 text-left font-normal">c = <span className="num">{p.scale}</span></th><td className="num border-b border-rule py-1 text-right">{formatMeasurement(p.value, p.uncertainty).text}</td><td className="border-b border-rule" /></tr>)}
-          <tr className="bg-paper-sunk/60"><th scope="row" className="border-b border-rule py-1 text-left font-medium">the team&rsquo;s value</th><td className="num border-b border-rule py-1 text-right">{formatMeasurement(e.value, e.uncertainty).text}</td><td className="num border-b border-rule py-1 text-right">{reference !== null ? formatSig(e.value - reference, 2) : ''}</td></tr>
+          {z.points.map((p) => <tr key={`c${p.scale}`}><th scope="row" className="border-b border-rule py-1 text-left font-normal">c = <span className="num">{p.scale}</span></th><td className="num border-b border-rule py-1 pl-3 text-right">{formatMeasurement(p.value, p.uncertainty).text}</td><td className="border-b border-rule pl-4" /></tr>)}
+          <tr className="bg-paper-sunk/60"><th scope="row" className="border-b border-rule py-1 text-left font-medium">the team&rsquo;s value</th><td className="num border-b border-rule py-1 pl-3 text-right">{formatMeasurement(e.value, e.uncertainty).text}</td><td className="num border-b border-rule py-1 pl-4 text-right">{reference !== null ? formatSig(e.value - reference, 2) : ''}</td></tr>
           {z.fits.map((f) => (
             <tr key={f.model}>
               <th scope="row" className="border-b border-rule py-1 text-left font-normal">{zneModelName(f.model)}</th>
-              <td className="num border-b border-rule py-1 text-right">{f.ok ? formatMeasurement(f.value, f.uncertainty).text : <span className="text-ink-soft">not fitted: {f.reason}</span>}</td>
-              <td className="num border-b border-rule py-1 text-right">{f.ok && f.value !== null ? (reference !== null ? formatSig(f.value - reference, 2) : chiSquaredText(f.chi2, f.nu)) : ''}</td>
+              <td className="num border-b border-rule py-1 pl-3 text-right">{f.ok ? formatMeasurement(f.value, f.uncertainty).text : <span className="text-ink-soft">not fitted: {f.reason}</span>}</td>
+              <td className="num border-b border-rule py-1 pl-4 text-right">{f.ok && f.value !== null ? (reference !== null ? formatSig(f.value - reference, 2) : chiSquaredText(f.chi2, f.nu)) : ''}</td>
             </tr>
           ))}
         </tbody>
@@ -205,7 +205,7 @@ function Neighbours({ slug, t }: { slug: string; t: TargetDetail }) {
               {tt.map((k) => {
                 const key = at.get(`${steps[i]}|${thetas[k]}`);
                 const here = i === si && k === ti;
-                return <Td key={k} num>{!key ? '—' : here ? <strong aria-current="page">this target</strong> : <Link to={href(key)}>{steps[i] !== steps[si] ? `${steps[i] > steps[si] ? 'deeper' : 'shallower'}` : 'other angle'}</Link>}</Td>;
+                return <Td key={k} num>{!key ? '—' : here ? <strong aria-current="page">this target</strong> : <Link to={href(key)} aria-label={`target ${key}`}>{steps[i]} · {formatAngle(thetas[k])}</Link>}</Td>;
               })}
             </tr>
           ))}

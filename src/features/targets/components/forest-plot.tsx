@@ -1,3 +1,4 @@
+import { useEffect, useState } from 'react';
 import { ResponsiveScatterPlot, type ScatterPlotLayerProps, type ScatterPlotNodeProps } from '@nivo/scatterplot';
 import { formatMeasurement, formatSig } from '@/lib/format';
 import { COLORS, chartTheme, markColor, markPath, type MarkKind } from '@/features/challenges/charts/theme';
@@ -67,19 +68,22 @@ export default function ForestPlot({ rows, reference, consensus, label, describe
       </g>
     );
   };
-  const short = (s: string) => (s.length > 22 ? `${s.slice(0, 21)}…` : s);
+  // a phone gives the labels less room: the plot keeps at least half the width
+  const narrow = useNarrow();
+  const max = narrow ? 13 : 24;
+  const short = (s: string) => (s.length > max ? `${s.slice(0, max - 1)}…` : s);
   return (
     <div role="img" aria-label={label} aria-describedby={describedBy} style={{ height }} className="w-full" data-testid="forest-plot">
       <ResponsiveScatterPlot<ForestRow>
         data={[{ id: 'estimates', data: rows }]}
         animate={false}
-        margin={{ top: 10, right: 16, bottom: 44, left: 150 }}
+        margin={{ top: 10, right: 16, bottom: 44, left: narrow ? 92 : 160 }}
         xScale={{ type: 'linear', min: xMin, max: xMax }}
         yScale={{ type: 'linear', min: -0.7, max: Math.max(n, 1) - 0.3, reverse: true }}
         theme={chartTheme}
         enableGridY={false}
         axisLeft={{ tickValues: rows.map((r) => r.y), tickSize: 0, tickPadding: 8, format: (v) => short(rows[Number(v)]?.label ?? '') }}
-        axisBottom={{ legend: 'estimate', legendOffset: 34, legendPosition: 'middle', tickValues: 5, format: (v) => formatSig(Number(v), 3) }}
+        axisBottom={{ legend: 'estimate', legendOffset: 34, legendPosition: 'middle', tickValues: narrow ? 3 : 5, format: (v) => formatSig(Number(v), 2) }}
         nodeComponent={Node}
         layers={['grid', guide, 'axes', bars, 'nodes', 'mesh']}
         useMesh
@@ -92,4 +96,16 @@ export default function ForestPlot({ rows, reference, consensus, label, describe
       />
     </div>
   );
+}
+
+function useNarrow(): boolean {
+  const q = '(max-width: 640px)';
+  const [narrow, setNarrow] = useState(() => typeof window !== 'undefined' && window.matchMedia(q).matches);
+  useEffect(() => {
+    const m = window.matchMedia(q);
+    const on = () => setNarrow(m.matches);
+    m.addEventListener('change', on);
+    return () => m.removeEventListener('change', on);
+  }, []);
+  return narrow;
 }
