@@ -56,7 +56,7 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
       const ranked = rankRows(rows, q.metric).map(({ row: r, rank, tiedWithPrevious }) => ({ ...r, rank, tiedWithPrevious }));
       const body = JSON.stringify({
         challenge: c.slug, version: v.version, checksum: v.checksum,
-        status: row ? 'ready' : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
+        status: row ? 'ready' : q.asOf ? 'none' : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
         estimator: payload?.estimator ?? null, metric: q.metric, metrics: PRIMARY_METRICS, track: q.track, view: q.view, asOf: q.asOf ?? null,
         counts: result?.counts ?? null,
         entries: ranked,

@@ -9,7 +9,7 @@ import type { MarkKind } from '@/features/challenges/charts/theme';
 import type { DepthGuide, DepthSeries } from '@/features/targets/components/depth-chart';
 import { breakCell, gridAxes, type BreakCell } from '@/features/targets/lib/depth';
 import { ChartTableToggle, EmptyState, ErrorState, PageHeader, PageLoading, Panel, Table, Td, Th, TrackMark, cx, inputClass } from '@/components/ui';
-import { formatAngle, formatMeasurement, formatSig } from '@/lib/format';
+import { formatAngle, formatMeasurement } from '@/lib/format';
 import { useDocumentTitle } from '@/lib/use-document-title';
 
 const DepthChart = lazy(() => import('@/features/targets/components/depth-chart'));
@@ -196,7 +196,7 @@ function BreakMaps({ slug, est, targets }: { slug: string; est: EstimatesRespons
           );
         })}
       </div>
-      <p className="mt-3 text-xs text-ink-soft">Open a target from the <Link to={`/challenges/${encodeURIComponent(slug)}?view=verifiability`}>verifiability view</Link> or the table above for every estimate of it. {formatSig(targets.length, 3)} targets of this observable.</p>
+      <p className="mt-3 text-xs text-ink-soft">Open a target from the <Link to={`/challenges/${encodeURIComponent(slug)}?view=verifiability`}>verifiability view</Link> or the table above for every estimate of it. <span className="num">{targets.length}</span> targets of this observable.</p>
     </Panel>
   );
 }

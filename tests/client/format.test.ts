@@ -61,3 +61,14 @@ describe('names in words', () => {
     expect(chiSquaredText(null, 4)).toBe('—');
   });
 });
+
+describe('endOfLocalDay', () => {
+  it('reads a picked date as the end of that day in the reader\'s time zone', async () => {
+    const { endOfLocalDay } = await import('@/lib/format-time');
+    const iso = endOfLocalDay('2026-12-04');
+    const d = new Date(iso);
+    // local calendar fields, whatever zone the test runs in
+    expect([d.getFullYear(), d.getMonth() + 1, d.getDate(), d.getHours(), d.getMinutes()]).toEqual([2026, 12, 4, 23, 59]);
+    expect(endOfLocalDay('2026-12-04T10:00:00Z')).toBe('2026-12-04T10:00:00Z');
+  });
+});

@@ -13,7 +13,7 @@ export interface StandingsEntry {
   metrics: StandingsMetrics; onFront: boolean;
 }
 export interface Standings {
-  challenge: string; version: number; checksum: string; status: 'ready' | 'pending';
+  challenge: string; version: number; checksum: string; status: 'ready' | 'pending' | 'none';
   computedAt: string | null; engineVersion: string | null; estimator: string | null;
   metric: string; metrics: string[]; track: string; asOf: string | null;
   counts: { targets: number; verifiable: number; unverifiable: number; disputed: number; entries: number } | null;

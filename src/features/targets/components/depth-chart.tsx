@@ -56,7 +56,12 @@ export default function DepthChart({ series, guides, yLabel, label, height = 320
   const bars = ({ nodes, yScale, innerHeight }: ScatterPlotLayerProps<DepthPoint>) => {
     const sy = yScale as unknown as Scale;
     const clamp = (y: number) => Math.max(0, Math.min(innerHeight, y));
-    return <g>{nodes.filter((n) => n.data.u > 0).map((n) => <line key={n.id} x1={n.x} x2={n.x} y1={clamp(sy(n.data.y + n.data.u))} y2={clamp(sy(n.data.y - n.data.u))} stroke={markColor(n.data.mark)} strokeWidth={1.2} />)}</g>;
+    // an interval that runs off both edges says little: drawn faint and dashed, so that it does not hide the others
+    return <g>{nodes.filter((n) => n.data.u > 0).map((n) => {
+      const top = sy(n.data.y + n.data.u), bottom = sy(n.data.y - n.data.u);
+      const wide = top < 0 && bottom > innerHeight;
+      return <line key={n.id} x1={n.x} x2={n.x} y1={clamp(top)} y2={clamp(bottom)} stroke={markColor(n.data.mark)} strokeWidth={1.2} strokeOpacity={wide ? 0.3 : 1} strokeDasharray={wide ? '3 3' : undefined} />;
+    })}</g>;
   };
   return (
     <div role="img" aria-label={label} style={{ height }} className="w-full">
