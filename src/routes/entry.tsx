@@ -9,6 +9,7 @@ import { useStandings } from '@/features/standings/api/get-standings';
 import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig, metricName, naturalCompare, zneModelName } from '@/lib/format';
 import { Badge, ChartTableToggle, EmptyState, ErrorState, Measured, PageHeader, PageLoading, Panel, Provenance, ProvenanceList, TrackBadge, buttonClass, cx, inputClass } from '@/components/ui';
 import { COLORS } from '@/features/challenges/charts/theme';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 const ConvergenceChart = lazy(() => import('@/features/entries/components/convergence-chart'));
 
@@ -57,6 +58,7 @@ function softwareText(s: { name?: string; version?: string } | string): string {
 export function Component() {
   const { entryId = '' } = useParams();
   const q = useEntry(entryId);
+  useDocumentTitle(q.data ? `${q.data.label} (entry)` : 'Entry');
   const slug = q.data?.challenge.slug ?? '';
   const tq = useTargets(slug);
   const st = useStandings(slug, { track: 'all' });
