@@ -75,18 +75,19 @@ function Comparison({ a, b }: { a: Entry; b: Entry | null }) {
           <span className="sr-only">Filter targets</span>
           <input type="search" placeholder="Filter targets, e.g. t4- or :z3" value={filter} onChange={(e) => setFilter(e.target.value)} className={inputClass(false, 'w-full sm:w-64', true)} aria-label="Filter targets" />
         </label>
+        <p className="mb-2 text-xs text-ink-soft sm:hidden">A = {a.label}; B = {bName}.</p>
         <Table aria-label={`${a.label} and ${bName}, target by target`} data-testid="compare-table">
-          <thead><tr><Th>Target</Th><Th num>{a.label}</Th><Th num>{bName}</Th><Th num>d</Th><Th num>U</Th><Th num>|d|/U</Th></tr></thead>
+          <thead><tr><Th>Target</Th><Th num><span className="sm:hidden" aria-hidden="true">A</span><span className="sr-only sm:not-sr-only">{a.label}</span></Th><Th num><span className="sm:hidden" aria-hidden="true">B</span><span className="sr-only sm:not-sr-only">{bName}</span></Th><Th num>d</Th><Th num className="hidden sm:table-cell">U</Th><Th num>|d|/U</Th></tr></thead>
           <tbody>
             {page.map((r) => {
               const ratio = r.d !== null && r.U ? Math.abs(r.d) / r.U : null;
               return (
                 <tr key={r.target}>
-                  <Td><Link to={`/challenges/${encodeURIComponent(slug)}/targets/${encodeURIComponent(r.target)}`}><code className="text-xs whitespace-nowrap">{r.target}</code></Link></Td>
+                  <Td><Link to={`/challenges/${encodeURIComponent(slug)}/targets/${encodeURIComponent(r.target)}`}><code className="text-[11px] break-all sm:text-xs sm:break-normal sm:whitespace-nowrap">{r.target}</code></Link></Td>
                   <Td num>{r.a ? <Measured value={r.a.value} u={r.a.uncertainty} /> : '—'}</Td>
                   <Td num>{r.b ? <Measured value={r.b.value} u={r.b.uncertainty} /> : '—'}</Td>
                   <Td num>{r.d === null ? '—' : formatSig(r.d, 2)}</Td>
-                  <Td num>{r.U === null ? '—' : formatSig(r.U, 2)}</Td>
+                  <Td num className="hidden sm:table-cell">{r.U === null ? '—' : formatSig(r.U, 2)}</Td>
                   <Td num>{ratio === null ? '—' : ratio > 1 ? <Badge tone="danger">{formatSig(ratio, 2)}</Badge> : formatSig(ratio, 2)}</Td>
                 </tr>
               );
