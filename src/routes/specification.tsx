@@ -38,7 +38,7 @@ export function Component() {
         <Panel title="Lattice" id="spec-print-lattice" className="break-inside-avoid">
           <LatticeDrawing lattice={c.lattice} title={`Lattice of ${c.title}`} indices />
         </Panel>
-        <NumberingPanel c={c} />
+        <NumberingPanel c={c} hint={false} />
       </div>
       <InstancesPanel c={c} showAll />
     </article>

@@ -208,7 +208,7 @@ export function ObservablesPanel({ c, all = false }: { c: ChallengeDetail; all?:
 }
 
 /** how the lattice numbers its qubits (shared/physics/lattices.ts, latticeNumbering) */
-export function NumberingPanel({ c }: { c: ChallengeDetail }) {
+export function NumberingPanel({ c, hint = true }: { c: ChallengeDetail; hint?: boolean }) {
   const spec = c.spec as unknown as ChallengeSpec;
   const ranges = latticeNumbering(spec.lattice as LatticeSpec);
   const l = spec.lattice as LatticeSpec;
@@ -220,7 +220,7 @@ export function NumberingPanel({ c }: { c: ChallengeDetail }) {
           <li key={r.from}><span className="num font-medium whitespace-nowrap">{r.from === r.to ? r.from : `${r.from}–${r.to}`}</span>: {r.what}</li>
         ))}
       </ul>
-      <p className="mt-2 text-xs text-ink-soft">&ldquo;Show qubit numbers&rdquo; below the drawing writes them on the lattice.</p>
+      {hint && <p className="mt-2 text-xs text-ink-soft">&ldquo;Show qubit numbers&rdquo; below the drawing writes them on the lattice.</p>}
     </Panel>
   );
 }
