@@ -11,7 +11,7 @@ export default {
   theme: {
     extend: {
       colors: {
-        ink: { DEFAULT: '#1b2130', soft: '#4b5466', faint: '#7a8294' },
+        ink: { DEFAULT: '#1b2130', soft: '#4b5466', faint: '#646c7d' },
         paper: { DEFAULT: '#faf9f6', raised: '#ffffff', sunk: '#f1efe9' },
         rule: { DEFAULT: '#dedad1', strong: '#c3bdb0' },
         hardware: { DEFAULT: '#c25a12', soft: '#fbeadc', ink: '#8a3d08' },

@@ -39,6 +39,16 @@ export default defineConfig({
         },
       },
       {
+        // the client's helpers and components, in a browser-like DOM
+        plugins: [react()],
+        resolve: { alias },
+        test: {
+          name: 'client',
+          include: ['tests/client/**/*.test.{ts,tsx}'],
+          environment: 'jsdom',
+        },
+      },
+      {
         resolve: { alias },
         test: {
           name: 'e2e',

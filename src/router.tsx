@@ -26,6 +26,10 @@ export const router = createBrowserRouter([
           { path: 'challenges', loader: challenges.loader, Component: challenges.Component },
           // the challenge and entry pages (tables, charts) load on first visit only
           { path: 'challenges/:slug', lazy: () => import('@/routes/challenge') },
+          { path: 'challenges/:slug/specification', lazy: () => import('@/routes/specification') },
+          { path: 'challenges/:slug/targets/:targetKey', lazy: () => import('@/routes/target') },
+          { path: 'challenges/:slug/depth', lazy: () => import('@/routes/depth') },
+          { path: 'compare', lazy: () => import('@/routes/compare') },
           { path: 'entries/:entryId', lazy: () => import('@/routes/entry') },
           // submitting and the team's entries (editable table) load on first visit only
           { path: 'challenges/:slug/submit', lazy: () => import('@/routes/submit') },

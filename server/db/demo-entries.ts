@@ -96,8 +96,11 @@ registerJobHandler('demo-entries', async (job, w) => {
   await w.progress(0.1, 'computing stand-in values for targets without exact references');
   const ts = await truths(w.db, versionId, v.spec);
   const seed = [...v.challengeSlug].reduce((a, ch) => a * 31 + ch.charCodeAt(0), 7) >>> 0;
-  const day = 86400_000;
-  const base = Date.now() - 20 * day;
+  // the entries arrive after the challenge was published (not weeks before it): spread between
+  // its publication and now, in list order
+  const now = Date.now();
+  const published = v.publishedAt?.getTime() ?? now;
+  const at = (k: number) => new Date(published + ((Math.max(now, published) - published) * (k + 1)) / (list.length + 1));
   const list: DemoEntry[] = [
     { team: 'cobalt-qubit-lab', state: 'published', track: 'hardware', family: 'error-mitigated-hardware', label: 'Juniper-156, ZNE (linear, 4 scales)',
       document: { method: { family: 'error-mitigated-hardware', settings: { noiseScaleFactors: [1, 1.5, 2, 3], extrapolation: 'weighted linear', amplification: 'gate folding', shots: 4096, twirls: 32 } }, resources: { qpuSeconds: 5400, qubitsUsed: 68, device: 'Juniper-156 (fictional)', hardware: 'fictional superconducting device' }, license: 'CC-BY-4.0' },
@@ -113,7 +116,7 @@ registerJobHandler('demo-entries', async (job, w) => {
       estimates: tensorNetwork(ts, seed + 4, 256).filter((_, i) => i % 3 !== 2) },
   ];
   let n = 0;
-  for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(base + (n++) * 3 * day));
+  for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, at(n++));
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
   return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length };
 });

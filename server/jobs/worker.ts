@@ -90,7 +90,7 @@ async function baselineJob(job: JobRow, w: WorkerContext) {
       label: `House baseline: truncated Pauli propagation (|c| < ${BASELINE_SETTINGS.delta} dropped after every gate, at most ${BASELINE_SETTINGS.maxTerms} terms)`,
       document: {
         method: { family: 'pauli-propagation', settings: { coefficientThreshold: BASELINE_SETTINGS.delta, maxTerms: BASELINE_SETTINGS.maxTerms, truncation: 'after every gate' } },
-        resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [ENGINE_VERSION] },
+        resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [{ name: ENGINE_VERSION }] },
         uncertaintyNote: 'Each uncertainty is the triangle-inequality bound: the sum of |c| over every dropped term.',
       },
       submittedAt: new Date(), publishedAt: new Date(),

@@ -1,12 +1,17 @@
 /** Public data behind the challenge page's plots: estimates, light cones, and the history. */
 import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm';
+import { ENGINE_VERSION } from '@shared/physics/reference';
+import { degreesOfEquivalence } from '@shared/scoring/equivalence';
+import { zneSummary } from '@shared/scoring/zne';
 import type { AppContext } from '../context';
-import { auditLog, challengeVersions, entries, estimates, jobs, organization, standings } from '../db/schema';
-import { badRequest } from '../errors';
+import { auditLog, challengeVersions, entries, estimates, instances, jobs, observables, organization, references, standings, targets } from '../db/schema';
+import { badRequest, notFound } from '../errors';
 import { computeForVersion } from '../services/challenge-computations';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import { publicEntries } from '../queries/entries';
-import { PUBLIC_VIEWER, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
+import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
+import { presentReference } from '../presenters/reference';
+import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
 
 export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -44,6 +49,63 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
       const { version: v } = await loadChallengeVersion(db, req);
       // computed in a document thread once per version and target (server/services/challenge-computations.ts)
       return computeForVersion(ctx.threads, ctx.versionCache, v, 'challenge.lightCone', { targetKey: String(req.params.targetKey) }, (r) => 100 + 8 * r.qubits.length);
+    },
+  });
+
+  routes.add({
+    method: 'get', path: '/challenges/:slug/targets/:targetKey', access: 'public',
+    summary: "One target: its reference with provenance (sealed values withheld until their date) or the consensus with its tests, every public estimate with its degree of equivalence and raw zero-noise data with the server's fits, and the same observable at neighbouring depths and angles",
+    handler: async (req) => {
+      const { version: v } = await loadChallengeVersion(db, req);
+      const key = String(req.params.targetKey);
+      const [t] = await db.select({ id: targets.id, key: targets.key, instance: instances.key, params: instances.params, observable: observables.key, spec: observables.spec, bound: observables.bound, disputed: targets.disputed, disputeNote: targets.disputeNote, ref: references })
+        .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))
+        .leftJoin(references, eq(references.targetId, targets.id)).where(and(eq(targets.versionId, v.id), eq(targets.key, key))).limit(1);
+      if (!t) throw notFound(`The target "${key}"`);
+      const now = ctx.now();
+      const st = await latestStandings(db, v.id);
+      const payload = st?.payload as StandingsPayload | undefined;
+      const c = payload?.public.targets.find((x) => x.key === key) ?? null;
+      // the same rule as every public view: hidden entries are left out, and the house baseline's
+      // estimate of a sealed target is withheld (it would reveal the sealed value)
+      const sealedSet = sealedKeys([{ key, sealedUntil: t.ref?.sealedUntil ?? null }], PUBLIC_VIEWER, now);
+      const es = (await publicEntries(db, v.id)).filter((e) => !isEstimateWithheld({ isBaseline: e.isBaseline, target: key }, sealedSet));
+      const rows = es.length ? await db.select({ entryId: estimates.entryId, value: estimates.value, uncertainty: estimates.uncertainty, kind: estimates.kind, raw: estimates.raw })
+        .from(estimates).where(and(inArray(estimates.entryId, es.map((e) => e.id)), eq(estimates.targetKey, key))) : [];
+      const byEntry = new Map(rows.map((r) => [r.entryId, r]));
+      const reference = presentReference(t.ref, now);
+      const doeOf = (entryId: string, m: { value: number; uncertainty: number }) => {
+        if (reference.status === 'exact') {
+          const d = m.value - reference.value;
+          const u = Math.sqrt(m.uncertainty ** 2 + reference.uncertainty ** 2);
+          return { against: 'reference' as const, d, u, U: 2 * u, included: false };
+        }
+        if (!c || c.value === null || c.uncertainty === null) return null;
+        const included = !c.excluded.includes(entryId);
+        const [x] = degreesOfEquivalence([m], { value: c.value, uncertainty: c.uncertainty, included: included ? [0] : [], tau2: c.tau2 ?? 0 });
+        return { against: 'consensus' as const, d: x.d, u: x.u, U: x.U, included };
+      };
+      const list = es.flatMap((e) => {
+        const r = byEntry.get(e.id);
+        if (!r) return [];
+        const raw = (r.raw ?? null) as { unmitigated?: number; noiseScaled?: { scale: number; value: number; uncertainty: number }[] } | null;
+        const points = Array.isArray(raw?.noiseScaled) ? raw.noiseScaled.filter((p) => Number.isFinite(p.scale) && Number.isFinite(p.value) && Number.isFinite(p.uncertainty)) : [];
+        const zne = points.length ? { points, unmitigated: raw?.unmitigated ?? null, fits: zneSummary(points).models.map((m) => ({ model: m.model, ok: m.ok, value: m.ok ? m.value : null, uncertainty: m.ok ? m.uncertainty : null, reason: m.reason ?? null, chi2: Number.isFinite(m.chi2) ? m.chi2 : null, nu: m.nu ?? null })) } : null;
+        const m = { value: r.value, uncertainty: r.uncertainty };
+        return [{ entry: { id: e.id, label: e.label, teamId: e.teamId, teamName: e.teamName, track: e.track, methodFamily: e.methodFamily, isBaseline: e.isBaseline, publishedAt: e.publishedAt }, value: r.value, uncertainty: r.uncertainty, kind: r.kind, equivalence: doeOf(e.id, m), zne }];
+      });
+      // the same observable at the other depths and angles of the grid (keys only; their pages say the rest)
+      const siblings = await db.select({ key: targets.key, params: instances.params }).from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))
+        .where(and(eq(targets.versionId, v.id), eq(observables.key, t.observable)));
+      return {
+        version: v.version, checksum: v.checksum, engineVersion: ENGINE_VERSION,
+        key: t.key, instance: t.instance, params: t.params, observable: { key: t.observable, spec: t.spec, bound: t.bound },
+        disputed: t.disputed || Boolean(c?.disputed), disputeNote: t.disputeNote ?? c?.disputedNote ?? null,
+        reference,
+        consensus: c ? { estimator: c.estimator, entries: c.entries, includedCount: c.includedCount, excluded: c.excluded, value: c.value, uncertainty: c.uncertainty, chi2: c.chi2, nu: c.nu, p: c.p, birgeRatio: c.birgeRatio, tau2: c.tau2, I2: c.I2, disputed: c.disputed, computedAt: st!.computedAt, engineVersion: st!.engineVersion } : null,
+        estimates: list,
+        siblings: siblings.map((s) => ({ key: s.key, steps: (s.params as { steps?: number }).steps ?? null, thetaH: (s.params as { thetaH?: number }).thetaH ?? null })),
+      };
     },
   });
 

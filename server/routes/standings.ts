@@ -61,7 +61,7 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
       const ranked = rankRows(rows, q.metric, q.track).map(({ row: r, rank, tiedWithPrevious, rankInterval }) => ({ ...r, rank, tiedWithPrevious, rankInterval }));
       const body = JSON.stringify({
         challenge: c.slug, version: v.version, checksum: v.checksum,
-        status: row ? (row.scoringRulesVersion === SCORING_RULES_VERSION ? 'ready' : 'rescoring') : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
+        status: row ? (row.scoringRulesVersion === SCORING_RULES_VERSION ? 'ready' : 'rescoring') : q.asOf ? 'none' : 'pending', computedAt: row?.computedAt ?? null, engineVersion: row?.engineVersion ?? null,
         // the rules these numbers were computed under, and where they are written down
         scoringRulesVersion: row?.scoringRulesVersion ?? null, currentScoringRulesVersion: SCORING_RULES_VERSION, rulesPage: '/scoring',
         exactTolerance: result?.exactTolerance ?? EXACT_TOLERANCE, minIndependentTeams: MIN_INDEPENDENT_TEAMS, bootstrapReplicates: result?.bootstrapReplicates ?? null,

@@ -298,3 +298,40 @@ export function isProperColouring(edges: readonly Edge[], layers: readonly (read
   for (const c of want.values()) if (c !== 0) return false;
   return true;
 }
+
+export interface NumberingRange {
+  /** first and last qubit of the range, inclusive */
+  from: number;
+  to: number;
+  /** what these qubits are, in words */
+  what: string;
+}
+
+/**
+ * How a lattice numbers its qubits, in words, range by range: the rule the generators above
+ * follow, stated once for pages and documents (the test checks it against the coordinates).
+ */
+export function latticeNumbering(spec: LatticeSpec): NumberingRange[] {
+  const n = latticeQubits(spec);
+  if (n === 0) return [];
+  switch (spec.kind) {
+    case 'chain':
+      return [{ from: 0, to: n - 1, what: 'along the chain; qubit i is coupled to i − 1 and i + 1 (open ends)' }];
+    case 'ring':
+      return [{ from: 0, to: n - 1, what: `around the ring; qubit i is coupled to i ± 1, and ${n - 1} to 0` }];
+    case 'square':
+      return [{ from: 0, to: n - 1, what: `row by row from the top, left to right: qubit r·${spec.cols} + c sits in row r, column c` }];
+    case 'edges':
+      return [{ from: 0, to: n - 1, what: 'as the edge list names them; drawn on a circle in index order' }];
+    case 'heavy-hex': {
+      const R = spec.rows, C = spec.cols;
+      const V = 2 * R * C + 2 * R + 2 * C;
+      const H = 4 * C + (R - 1) * (2 * C + 1);
+      return [
+        { from: 0, to: V - 1, what: `the hexagon corners (degree 2 or 3), line by line from the top and left to right in each line: ${2 * C + 1} on the first and last lines, ${2 * C + 2} on the ${R - 1} lines between` },
+        { from: V, to: V + H - 1, what: 'one qubit on each horizontal bond between two corners, line by line from the top, left to right' },
+        { from: V + H, to: n - 1, what: `the bridges: one qubit on each vertical bond, hexagon row by hexagon row from the top, left to right (${C + 1} per row)` },
+      ];
+    }
+  }
+}

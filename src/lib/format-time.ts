@@ -28,3 +28,14 @@ export function formatFromNow(d: string | Date | null | undefined, now = Date.no
   if (!span) return ms >= 0 ? 'in under a minute' : 'just now';
   return ms >= 0 ? `in ${span}` : `${span} ago`;
 }
+
+/**
+ * "As of 2026-12-04" as the reader means it: the end of that day in their own time zone, as an
+ * instant (ISO). A full ISO instant passes through unchanged; anything else is returned as given
+ * (the server names the problem).
+ */
+export function endOfLocalDay(date: string): string {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(date);
+  if (!m) return date;
+  return new Date(Number(m[1]), Number(m[2]) - 1, Number(m[3]), 23, 59, 59, 999).toISOString();
+}

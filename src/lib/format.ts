@@ -1,3 +1,6 @@
+import type { ConsensusEstimator } from '@shared/scoring/consensus';
+import { resolveMetric, type PrimaryMetric } from '@shared/scoring/standings';
+
 const dateFmt = new Intl.DateTimeFormat('en-GB', { year: 'numeric', month: 'short', day: '2-digit' });
 const dateTimeFmt = new Intl.DateTimeFormat('en-GB', { year: 'numeric', month: 'short', day: '2-digit', hour: '2-digit', minute: '2-digit' });
 
@@ -20,12 +23,26 @@ export function decimalsFor(u: number, sig = 2): number {
   return Math.max(0, Math.min(12, sig - 1 - exp));
 }
 
-/** a plain number to `sig` significant digits, without exponent for ordinary magnitudes */
+const SUPERSCRIPT: Record<string, string> = { '-': '\u207B', '0': '\u2070', '1': '\u00B9', '2': '\u00B2', '3': '\u00B3', '4': '\u2074', '5': '\u2075', '6': '\u2076', '7': '\u2077', '8': '\u2078', '9': '\u2079' };
+
+/** "·10⁻⁵": a power of ten as a reader writes it, never "e-5" */
+export function powerOfTen(e: number): string {
+  return `\u00B710${String(e).split('').map((ch) => SUPERSCRIPT[ch] ?? ch).join('')}`;
+}
+
+/** the decimal exponent of |x| (x ≠ 0) */
+const exponentOf = (x: number) => Math.floor(Math.log10(Math.abs(x)));
+
+/** a plain number to `sig` significant digits; very large or small magnitudes as m·10ⁿ */
 export function formatSig(x: number | null | undefined, sig = 3): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
   if (x === 0) return '0';
   const ax = Math.abs(x);
-  if (ax >= 1e6 || ax < 1e-4) return sign(x.toExponential(sig - 1).replace('e+', 'e'));
+  if (ax >= 1e6 || ax < 1e-4) {
+    // toExponential rounds the mantissa and may carry into the exponent (9.99e-5 → 1.00e-4)
+    const [m, e] = x.toExponential(sig - 1).split('e');
+    return sign(m) + powerOfTen(Number(e));
+  }
   const d = Math.max(0, Math.min(12, sig - 1 - Math.floor(Math.log10(ax))));
   return sign(x.toFixed(d));
 }
@@ -34,29 +51,41 @@ export interface FormattedMeasurement {
   value: string;
   /** null when no uncertainty was given */
   u: string | null;
-  /** "0.1234 ± 0.0012" */
+  /** a common power of ten for value and u ("·10⁻⁵"), or '' */
+  scale: string;
+  /** "0.1234 ± 0.0012", "(6.29 ± 0.12)·10⁻⁵" */
   text: string;
 }
 
-/** value ± u with the significant digits that follow u */
+/**
+ * value ± u with the significant digits that follow u. When that would need more than six
+ * decimals, or the value reaches a million, both are written over one power of ten:
+ * (6.29 ± 0.12)·10⁻⁵, never 6.29e-5.
+ */
 export function formatMeasurement(value: number | null | undefined, u?: number | null): FormattedMeasurement {
-  if (value === null || value === undefined || !Number.isFinite(value)) return { value: '—', u: null, text: '—' };
+  if (value === null || value === undefined || !Number.isFinite(value)) return { value: '—', u: null, scale: '', text: '—' };
   if (u === null || u === undefined || !Number.isFinite(u)) {
     const v = formatSig(value, 4);
-    return { value: v, u: null, text: v };
+    return { value: v, u: null, scale: '', text: v };
   }
   if (u === 0) {
     const v = formatSig(Math.abs(value) < 1e-12 ? 0 : value, 6);
-    return { value: v, u: '0', text: `${v} (exact)` };
+    return { value: v, u: '0', scale: '', text: `${v} (exact)` };
   }
   const d = decimalsFor(u);
-  if (Math.abs(value) >= 1e6 || u < 1e-10) {
-    const v = sign(value.toExponential(3)), s = u.toExponential(1);
-    return { value: v, u: s, text: `${v} ± ${s}` };
+  const big = Math.abs(value) >= 1e6;
+  if (big || d > 6) {
+    const e = value !== 0 && Math.abs(value) >= u ? exponentOf(value) : exponentOf(u);
+    const dd = Math.max(0, Math.min(15, 1 - exponentOf(u) + e)); // u's second significant digit, over 10^e
+    const mv = value / 10 ** e, mu = u / 10 ** e;
+    const v = sign((Math.abs(mv) < 0.5 * 10 ** -dd ? 0 : mv).toFixed(dd));
+    const s = mu.toFixed(dd);
+    const scale = e === 0 ? '' : powerOfTen(e);
+    return { value: v, u: s, scale, text: scale ? `(${v} ± ${s})${scale}` : `${v} ± ${s}` };
   }
   const v = sign((Math.abs(value) < 0.5 * 10 ** -d ? 0 : value).toFixed(d));
   const s = u.toFixed(d);
-  return { value: v, u: s, text: `${v} ± ${s}` };
+  return { value: v, u: s, scale: '', text: `${v} ± ${s}` };
 }
 
 /** a metric (error, ratio, …) to three significant digits; null reads as a dash */
@@ -93,4 +122,48 @@ export function formatRelative(d: string | Date | null | undefined, now = Date.n
   if (days === 1) return 'yesterday';
   if (days < 30) return `${days} days ago`;
   return formatDate(d);
+}
+
+/**
+ * Natural order for keys that mix text and numbers: t1, t2, t12 (not t1, t12, t2); "t4-h0.785398:z9"
+ * before "t4-h0.785398:z10". Case-insensitive; ties keep a stable, plain comparison.
+ */
+const collator = new Intl.Collator('en', { numeric: true, sensitivity: 'base' });
+export function naturalCompare(a: string, b: string): number {
+  return collator.compare(a, b) || (a < b ? -1 : a > b ? 1 : 0);
+}
+
+/** the consensus estimators in words (shared/scoring/consensus.ts names them by id) */
+const ESTIMATOR_NAMES: Record<ConsensusEstimator, string> = {
+  'weighted-mean': 'weighted mean',
+  'random-effects-dl': 'random-effects mean (DerSimonian–Laird)',
+  'random-effects-pm': 'random-effects mean (Paule–Mandel)',
+  'largest-consistent-subset': 'weighted mean of the largest consistent subset',
+  median: 'median',
+};
+export const estimatorName = (id: string | null | undefined) => (id ? ESTIMATOR_NAMES[id as ConsensusEstimator] ?? id.replace(/-/g, ' ') : '—');
+
+/** the ranking metrics in words */
+const METRIC_NAMES: Record<PrimaryMetric, string> = {
+  overall: 'proper score on every ranked target',
+  'crps-verifiable': 'CRPS on targets with an exact reference',
+  agreement: 'proper score against the consensus',
+};
+/** older metric names (rmse-verifiable, ...) are named by the metric they now rank by (scoring rules) */
+export const metricName = (id: string | null | undefined) => (id ? METRIC_NAMES[resolveMetric(id) ?? (id as PrimaryMetric)] ?? id.replace(/-/g, ' ') : '—');
+
+/** chi-squared per degree of freedom: "χ²/ν = 12.3/4" */
+export const chiSquaredText = (chi2: number | null | undefined, nu: number | null | undefined) =>
+  chi2 === null || chi2 === undefined || !nu ? '—' : `${formatSig(chi2, 3)}/${nu}`;
+
+/** the zero-noise extrapolation models (shared/scoring/zne.ts) in words */
+const ZNE_MODEL_NAMES: Record<string, string> = { richardson: 'Richardson', linear: 'linear fit', 'polynomial-2': 'quadratic fit', exponential: 'exponential (asymptote 0)', 'exponential-free-asymptote': 'exponential (free asymptote)' };
+export const zneModelName = (id: string) => ZNE_MODEL_NAMES[id] ?? id.replace(/-/g, ' ');
+
+/** a duration in milliseconds as a reader says it: 840 ms, 3.2 s, 6.5 min */
+export function formatMs(ms: number | null | undefined): string {
+  if (ms === null || ms === undefined || !Number.isFinite(ms)) return '—';
+  if (ms < 1000) return `${Math.round(ms)} ms`;
+  if (ms < 60_000) return `${Number((ms / 1000).toPrecision(2))} s`;
+  return formatHours(ms / 3_600_000);
 }

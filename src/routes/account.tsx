@@ -8,6 +8,7 @@ import { signOut } from '@/features/auth/api/sign-out';
 import { MIN_PASSWORD, passwordProblem } from '@/features/auth/components/password-rules';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { Badge, Button, EmptyState, Field, FormMessage, PageHeader, PageLoading, Panel } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireUser(request);
@@ -15,6 +16,7 @@ export async function loader({ request }: LoaderFunctionArgs) {
 }
 
 export function Component() {
+  useDocumentTitle('Your account');
   const { user, teams, isPending } = useUser();
   const qc = useQueryClient();
   const navigate = useNavigate();

@@ -6,6 +6,7 @@ import { getUsersQueryOptions, useUsers } from '@/features/admin/api/get-users';
 import { UsersTable } from '@/features/admin/components/users-table';
 import { useUser } from '@/features/me/api/get-me';
 import { EmptyState, ErrorState, inputClass, PageHeader, PageLoading, Spinner } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireUser(request, ['admin']);
@@ -14,6 +15,7 @@ export async function loader({ request }: LoaderFunctionArgs) {
 }
 
 export function Component() {
+  useDocumentTitle('Administration');
   const [q, setQ] = useState('');
   const deferred = useDeferredValue(q.trim());
   const users = useUsers(deferred);

@@ -7,6 +7,7 @@ import { StandingsSection } from '@/features/standings/components/standings-sect
 import { SpecSection } from '@/features/challenges/components/spec-section';
 import { SubmissionsStatusLine, SubmitEntryButton } from '@/features/challenges/components/submissions-status';
 import { formatDate } from '@/lib/format';
+import { useDocumentTitle } from '@/lib/use-document-title';
 import { CopyButton, ErrorState, PageHeader, PageLoading, Tabs } from '@/components/ui';
 
 // the chart views (and nivo with them) load when a visitor opens them
@@ -51,6 +52,7 @@ export function Component() {
   const { slug = '' } = useParams();
   const [params, setParams] = useSearchParams();
   const q = useChallenge(slug);
+  useDocumentTitle(q.data ? `${q.data.title}${params.get('view') ? ` · ${TABS.find((t) => t.id === params.get('view'))?.label ?? ''}` : ''}` : 'Challenge');
   const tab = (TABS.find((t) => t.id === params.get('view'))?.id ?? 'standings') as TabId;
   const setTab = (id: string) =>
     setParams((p) => {
@@ -73,6 +75,10 @@ export function Component() {
           <div className="flex flex-col items-start gap-2 text-sm sm:items-end">
             <span className="num text-ink-soft">v{c.version.version} · {formatDate(c.version.publishedAt)}</span>
             <SubmitEntryButton slug={c.slug} state={c.state} s={c.submissions} />
+            <span className="flex gap-3 text-sm">
+              <Link to={`/challenges/${encodeURIComponent(c.slug)}/depth`}>Depth view</Link>
+              <Link to={`/challenges/${encodeURIComponent(c.slug)}/specification`}>Specification</Link>
+            </span>
           </div>
         }
       >

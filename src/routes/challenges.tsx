@@ -2,6 +2,7 @@ import { queryClient } from '@/lib/query-client';
 import { getChallengesQueryOptions } from '@/features/challenges/api/get-challenges';
 import { ChallengeCatalogue } from '@/features/challenges/components/challenge-catalogue';
 import { PageHeader } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader() {
   void queryClient.prefetchQuery(getChallengesQueryOptions());
@@ -9,6 +10,7 @@ export async function loader() {
 }
 
 export function Component() {
+  useDocumentTitle('Challenges');
   return (
     <div>
       <PageHeader title="Challenges">

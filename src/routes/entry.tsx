@@ -1,13 +1,15 @@
 import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
-import { Link, useParams, type LoaderFunctionArgs } from 'react-router';
+import { Link, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router';
+import { useCompareChoices } from '@/features/compare/api/use-compare-choices';
 import { zneSummary } from '@shared/scoring/zne';
 import { queryClient } from '@/lib/query-client';
 import { getEntryQueryOptions, useEntry, type EntryDocumentEstimate, type EstimateScore } from '@/features/entries/api/get-entry';
 import { useTargets, type Target } from '@/features/challenges/api/get-targets';
 import { useStandings } from '@/features/standings/api/get-standings';
-import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig } from '@/lib/format';
+import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetric, formatPercent, formatSig, metricName, naturalCompare, zneModelName } from '@/lib/format';
 import { Badge, ChartTableToggle, EmptyState, ErrorState, Measured, PageHeader, PageLoading, Panel, Provenance, ProvenanceList, TrackBadge, buttonClass, cx, inputClass } from '@/components/ui';
 import { COLORS } from '@/features/challenges/charts/theme';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 const ConvergenceChart = lazy(() => import('@/features/entries/components/convergence-chart'));
 
@@ -47,9 +49,16 @@ function dOverU(c: NonNullable<EstimateScore['consensus']>): number {
 
 const PAGE = 30;
 
+/** a software item as the document gives it: { name, version }, or a plain string (older house baselines) */
+function softwareText(s: { name?: string; version?: string } | string): string {
+  if (typeof s === 'string') return s;
+  return [s.name, s.version].filter(Boolean).join(' ') || 'not named';
+}
+
 export function Component() {
   const { entryId = '' } = useParams();
   const q = useEntry(entryId);
+  useDocumentTitle(q.data ? `${q.data.label} (entry)` : 'Entry');
   const slug = q.data?.challenge.slug ?? '';
   const tq = useTargets(slug);
   const st = useStandings(slug, { track: 'all' });
@@ -61,7 +70,7 @@ export function Component() {
     const ests = q.data?.document?.estimates ?? [];
     const byKey = new Map((tq.data?.targets ?? []).map((t) => [t.key, t]));
     const scoreOf = new Map((q.data?.scores ?? []).map((x) => [x.target, x]));
-    return ests.map((e) => ({ e, t: byKey.get(e.target), s: scoreOf.get(e.target) }));
+    return ests.map((e) => ({ e, t: byKey.get(e.target), s: scoreOf.get(e.target) })).sort((x, y) => naturalCompare(x.e.target, y.e.target));
   }, [q.data, tq.data]);
 
   if (q.isPending) return <PageLoading label="Loading the entry…" />;
@@ -85,6 +94,7 @@ export function Component() {
         actions={
           <div className="flex flex-wrap gap-2">
             <a className={buttonClass('secondary', 'sm')} href={`/api/entries/${encodeURIComponent(en.id)}/cite.bib`} download>BibTeX</a>
+            {en.state === 'published' && <CompareWith slug={slug} id={en.id} />}
           </div>
         }
       >
@@ -99,7 +109,7 @@ export function Component() {
 
       <div className="grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
         <div className="min-w-0 space-y-6">
-          <Panel title="Scores" id="entry-scores" description={row ? (row.rank === null ? 'The house baseline: a reference row, never ranked' : `Rank ${row.rank} of ${st.data!.entries.filter((x) => x.rank !== null).length} by ${st.data!.metric}${row.rankInterval ? ` (95% interval ${row.rankInterval[0]}–${row.rankInterval[1]})` : ''}, scoring rules ${st.data!.scoringRulesVersion ?? ''}`) : 'From the current standings'}>
+          <Panel title="Scores" id="entry-scores" description={row ? (row.rank === null ? 'The house baseline: a reference row, never ranked' : `Rank ${row.rank} of ${st.data!.entries.filter((x) => x.rank !== null).length} by ${metricName(st.data!.metric)}${row.rankInterval ? ` (95% interval ${row.rankInterval[0]}–${row.rankInterval[1]})` : ''}, scoring rules ${st.data!.scoringRulesVersion ?? ''}`) : 'From the current standings'}>
             {st.isPending ? <PageLoading label="Loading the standings…" /> : !row ? (
               <EmptyState title="Not in the current standings">The standings are being computed, or this entry is not ranked (withdrawn or superseded).</EmptyState>
             ) : (
@@ -116,7 +126,8 @@ export function Component() {
                   ['Agreement |d|/U', formatMetric(row.metrics.agreementMedianRatio)],
                   ['Outside interval', String(row.metrics.outsideInterval)],
                   ['Grid coverage', formatPercent(row.metrics.gridCoverage)],
-                  ['Declared cost', formatHours(row.metrics.costHours)],
+                  ['Classical compute', classicalText(row.cost)],
+                  ['QPU time', row.cost.qpuSeconds === undefined ? '—' : formatHours(row.cost.qpuSeconds / 3600)],
                 ] as [string, string][]).map(([k, v]) => (
                   <div key={k}><dt className="text-xs text-ink-soft">{k}</dt><dd className="num text-lg">{v}</dd></div>
                 ))}
@@ -141,7 +152,7 @@ export function Component() {
               <table className="w-full border-collapse text-sm sm:min-w-[40rem] lg:min-w-0" data-testid="entry-estimates">
                 <caption className="sr-only">Every estimate of this entry with its score against the exact reference or the consensus</caption>
                 <thead>
-                  <tr className="text-xs text-ink-soft uppercase">
+                  <tr className="text-xs text-ink-soft">
                     <th scope="col" className="border-b border-rule-strong py-2 pr-2 text-left font-semibold">Target</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Estimate</th>
                     <th scope="col" className="border-b border-rule-strong px-2 py-2 text-right font-semibold">Reference</th>
@@ -239,7 +250,7 @@ export function Component() {
                 {res.qpuSeconds !== undefined && <><dt className="text-ink-soft">QPU seconds</dt><dd className="num">{formatSig(res.qpuSeconds, 3)}</dd></>}
                 {res.wallTimeSeconds !== undefined && <><dt className="text-ink-soft">Wall time</dt><dd className="num">{formatHours(res.wallTimeSeconds / 3600)}</dd></>}
                 {res.memoryGiB !== undefined && <><dt className="text-ink-soft">Memory</dt><dd className="num">{formatSig(res.memoryGiB, 3)} GiB</dd></>}
-                {res.software?.length ? <><dt className="text-ink-soft">Software</dt><dd>{res.software.map((s) => `${s.name}${s.version ? ` ${s.version}` : ''}`).join(', ')}</dd></> : null}
+                {res.software?.length ? <><dt className="text-ink-soft">Software</dt><dd>{res.software.map((s) => softwareText(s)).join(', ')}</dd></> : null}
                 {res.commit && <><dt className="text-ink-soft">Commit</dt><dd><code className="text-xs break-all">{res.commit}</code></dd></>}
               </dl>
             )}
@@ -281,8 +292,6 @@ export function Component() {
   );
 }
 
-const MODEL_LABEL: Record<string, string> = { richardson: 'Richardson', linear: 'linear fit', 'polynomial-2': 'quadratic fit', exponential: 'exponential (asymptote 0)', 'exponential-free-asymptote': 'exponential (free asymptote)' };
-
 function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' }) {
   const [table, setTable] = useState(false);
   useEffect(() => { document.getElementById('entry-detail')?.scrollIntoView({ block: 'nearest' }); }, [s.e.target]);
@@ -297,7 +306,7 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
           <p className="mb-2 text-sm text-ink-soft">The same noise-scaled data ({s.e.noiseScaled!.length} factors{s.e.unmitigated !== undefined ? `, unmitigated ${formatMeasurement(s.e.unmitigated).text}` : ''}) extrapolated by Parallax with several models, beside the team's own value.</p>
           <table className="w-full border-collapse text-sm">
             <thead>
-              <tr className="text-xs text-ink-soft uppercase">
+              <tr className="text-xs text-ink-soft">
                 <th scope="col" className="border-b border-rule-strong py-1 pr-2 text-left font-semibold">Model</th>
                 <th scope="col" className="border-b border-rule-strong px-2 py-1 text-right font-semibold">E(0)</th>
                 <th scope="col" className="border-b border-rule-strong py-1 pl-2 text-right font-semibold">{ref !== null ? 'Error' : 'χ²/ν'}</th>
@@ -311,7 +320,7 @@ function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' 
               </tr>
               {zne.models.map((m) => (
                 <tr key={m.model}>
-                  <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-normal">{MODEL_LABEL[m.model] ?? m.model}</th>
+                  <th scope="row" className="border-b border-rule py-1 pr-2 text-left font-normal">{zneModelName(m.model)}</th>
                   <td className="border-b border-rule px-2 py-1 text-right">{m.ok ? <Measured value={m.value} u={m.uncertainty} /> : <span className="text-ink-faint" title={m.reason}>not fitted: {m.reason}</span>}</td>
                   <td className="num border-b border-rule py-1 pl-2 text-right">{m.ok ? (ref !== null ? formatSig(m.value - ref, 2) : m.chi2 !== undefined && Number.isFinite(m.chi2) && m.nu ? `${formatSig(m.chi2, 2)}/${m.nu}` : '') : ''}</td>
                 </tr>
@@ -355,4 +364,25 @@ function LinkOrText({ url }: { url: string }) {
   return /^https?:\/\//i.test(url)
     ? <a href={url} rel="noopener noreferrer" className="break-all">{url}</a>
     : <span className="break-all">{url}</span>;
+}
+
+/** CPU core-hours and GPU hours, never added to QPU time */
+function classicalText(c: { cpuCoreHours?: number; gpuHours?: number }): string {
+  const parts = [c.cpuCoreHours !== undefined ? `${formatHours(c.cpuCoreHours)} CPU` : '', c.gpuHours !== undefined ? `${formatHours(c.gpuHours)} GPU` : ''].filter(Boolean);
+  return parts.length ? parts.join(' + ') : '—';
+}
+
+function CompareWith({ slug, id }: { slug: string; id: string }) {
+  const choices = useCompareChoices(slug);
+  const navigate = useNavigate();
+  return (
+    <label className="inline-flex items-center gap-2 text-sm">
+      <span className="text-ink-soft">Compare with</span>
+      <select defaultValue="" onChange={(e) => e.target.value && navigate(`/compare?a=${encodeURIComponent(id)}&b=${encodeURIComponent(e.target.value)}`)} className={inputClass(false, 'w-48', true)} data-testid="compare-with">
+        <option value="" disabled>choose…</option>
+        <option value="consensus">the consensus</option>
+        {choices.filter((x) => x.id !== id).map((x) => <option key={x.id} value={x.id}>{x.label}</option>)}
+      </select>
+    </label>
+  );
 }

@@ -6,8 +6,10 @@ import { AuthCard } from '@/features/auth/components/auth-card';
 import { emailProblem } from '@/features/auth/components/password-rules';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { Button, Field, FormMessage } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export function Component() {
+  useDocumentTitle('Forgotten password');
   const [email, setEmail] = useState('');
   const [error, setError] = useState<string>();
   const m = useMutation({ mutationFn: requestPasswordReset });

@@ -6,6 +6,7 @@ import { getMeQueryOptions, useUser } from '@/features/me/api/get-me';
 import { getChallengesQueryOptions, useChallenges } from '@/features/challenges/api/get-challenges';
 import { Button, EmptyState, FormMessage, PageHeader, inputClass } from '@/components/ui';
 import { TeamEntries } from '@/features/submit/components/my-entries';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader({ request }: LoaderFunctionArgs) {
   await requireUser(request);
@@ -30,6 +31,7 @@ function StartEntry() {
 }
 
 export function Component() {
+  useDocumentTitle('Your entries');
   const { teams } = useUser();
   const [search] = useSearchParams();
   const submitted = search.get('submitted');

@@ -6,8 +6,10 @@ import { AuthCard } from '@/features/auth/components/auth-card';
 import { MIN_PASSWORD, passwordProblem } from '@/features/auth/components/password-rules';
 import { errorMessage } from '@/lib/api-client';
 import { Button, buttonClass, Field, FormMessage } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export function Component() {
+  useDocumentTitle('Choose a new password');
   const [params] = useSearchParams();
   const token = params.get('token') ?? '';
   const linkError = params.get('error');

@@ -8,8 +8,10 @@ import { meQueryKey } from '@/features/me/api/get-me';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { safeNext } from '@/lib/guards';
 import { Button, Field, FormMessage } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export function Component() {
+  useDocumentTitle('Sign in');
   const [params] = useSearchParams();
   const next = safeNext(params.get('next'));
   const navigate = useNavigate();

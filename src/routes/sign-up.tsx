@@ -7,10 +7,12 @@ import { emailProblem, MIN_PASSWORD, passwordProblem } from '@/features/auth/com
 import { ApiError } from '@/lib/api-client';
 import { safeNext } from '@/lib/guards';
 import { Button, Field, FormMessage } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 type Errors = Partial<Record<'name' | 'email' | 'password' | 'confirm', string>>;
 
 export function Component() {
+  useDocumentTitle('Sign up');
   const [params] = useSearchParams();
   const next = safeNext(params.get('next'), '');
   const [form, setForm] = useState({ name: '', email: params.get('email') ?? '', password: '', confirm: '' });

@@ -8,6 +8,7 @@ import { ApiKeysPanel } from '@/features/teams/components/api-keys-panel';
 import { TeamEntries } from '@/features/entries/components/team-entries';
 import { formatDate } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, isTrack, PageHeader, PageLoading, Panel, Table, Td, Th, TrackBadge } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader({ params }: LoaderFunctionArgs) {
   void queryClient.prefetchQuery(getTeamQueryOptions(params.teamId!));
@@ -17,6 +18,7 @@ export async function loader({ params }: LoaderFunctionArgs) {
 export function Component() {
   const { teamId = '' } = useParams();
   const q = useTeam(teamId);
+  useDocumentTitle(q.data?.name ?? 'Team');
   const { teams } = useUser();
   const myRole = teams.find((t) => t.id === teamId)?.role;
 

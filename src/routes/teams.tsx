@@ -4,6 +4,7 @@ import { getTeamsQueryOptions, useTeams } from '@/features/teams/api/get-teams';
 import { useUser } from '@/features/me/api/get-me';
 import { CreateTeamForm } from '@/features/teams/components/create-team-form';
 import { EmptyState, ErrorState, isTrack, PageHeader, PageLoading, Panel, TrackBadge } from '@/components/ui';
+import { useDocumentTitle } from '@/lib/use-document-title';
 
 export async function loader() {
   void queryClient.prefetchQuery(getTeamsQueryOptions());
@@ -11,6 +12,7 @@ export async function loader() {
 }
 
 export function Component() {
+  useDocumentTitle('Teams');
   const q = useTeams();
   const { user } = useUser();
   return (

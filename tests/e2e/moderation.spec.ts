@@ -81,8 +81,8 @@ describe('moderation in the browser', () => {
     await mod.getByRole('navigation', { name: 'Moderation' }).getByRole('link', { name: 'Challenges' }).click();
     await mod.getByTestId('file-input').setInputFiles({ name: `${SLUG}.json`, mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(spec, null, 2)) });
     await mod.getByTestId('spec-preview').waitFor();
-    await mod.getByTestId('lattice-svg').waitFor();
-    expect(await mod.getByTestId('lattice-svg').locator('circle').count()).toBe(12);
+    await mod.getByTestId('lattice-drawing').waitFor();
+    expect(await mod.getByTestId('lattice-drawing').locator('circle').count()).toBe(12);
     expect(await mod.getByTestId('instance-grid').locator('tbody tr').count()).toBe(3);
     await mod.getByTestId('plan-summary').getByText('free-fermion').waitFor();
     await shots(mod, 'moderation-02-spec-preview');

@@ -70,6 +70,7 @@ const MATRIX: Record<string, Probe> = {
   'GET /challenges/:slug/standings': { row: ALL_200, path: () => '/api/challenges/seeded-chain/standings' },
   'GET /challenges/:slug/agreement': { row: ALL_200, path: () => '/api/challenges/seeded-chain/agreement' },
   'GET /challenges/:slug/estimates': { row: ALL_200, path: () => '/api/challenges/seeded-chain/estimates' },
+  'GET /challenges/:slug/targets/:targetKey': { row: ALL_200, path: () => '/api/challenges/seeded-chain/targets/t1-h0.100000:z1' },
   'GET /challenges/:slug/targets/:targetKey/light-cone': { row: ALL_200, path: () => '/api/challenges/seeded-chain/targets/t1-h0.100000:z1/light-cone' },
   'GET /challenges/:slug/history': { row: ALL_200, path: () => '/api/challenges/seeded-chain/history' },
   'GET /challenges/:slug/export.csv': { row: ALL_200, path: () => '/api/challenges/seeded-chain/export.csv' },

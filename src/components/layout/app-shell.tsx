@@ -17,7 +17,7 @@ export function AppShell() {
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:z-50 focus:rounded focus:bg-paper-raised focus:px-3 focus:py-2">
         Skip to content
       </a>
-      <header className="sticky top-0 z-10 border-b border-rule bg-paper/95 backdrop-blur">
+      <header className="sticky top-0 z-10 border-b border-rule bg-paper/95 backdrop-blur print:hidden">
         <div className="mx-auto flex h-14 max-w-page items-center gap-1 px-4 sm:gap-4 sm:px-6">
           <NavLink to="/" className="mr-1 no-underline sm:mr-2" aria-label="Parallax, home">
             <Wordmark />
@@ -46,7 +46,7 @@ export function AppShell() {
       <main id="main" className="mx-auto w-full max-w-page flex-1 px-4 py-6 sm:px-6 sm:py-10">
         <Outlet />
       </main>
-      <footer className="border-t border-rule">
+      <footer className="border-t border-rule print:hidden">
         <div className="mx-auto flex max-w-page flex-wrap items-center justify-between gap-2 px-4 py-4 text-xs text-ink-soft sm:px-6">
           <span>Parallax — one quantity, two viewpoints.</span>
           <span className="flex items-center gap-3">

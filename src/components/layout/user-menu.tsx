@@ -55,7 +55,7 @@ export function UserMenu({ user, teams }: { user: MeUser; teams: MeTeam[] }) {
           {teams.length > 0 && <Link role="menuitem" to="/my-entries" className={item}>My entries</Link>}
           {teams.length > 0 && (
             <div className="border-t border-rule py-1">
-              <p className="px-3 pt-1 text-xs text-ink-faint uppercase tracking-wide">Your teams</p>
+              <p className="px-3 pt-1 text-xs text-ink-faint">Your teams</p>
               {teams.map((t) => (
                 <Link key={t.id} role="menuitem" to={`/teams/${t.id}`} className={cx(item, 'flex justify-between gap-2')}>
                   <span className="truncate">{t.name}</span>

@@ -10,8 +10,9 @@ export function Measured({ value, u, className, exactLabel = true }: { value: nu
   const f = formatMeasurement(value, u);
   return (
     <span className={cx('num whitespace-nowrap', className)}>
-      <span>{f.value}</span>
+      {f.scale && '('}<span>{f.value}</span>
       {f.u !== null && f.u !== '0' && <span className="text-ink-soft"> ± {f.u}</span>}
+      {f.scale && `)${f.scale}`}
       {f.u === '0' && exactLabel && <span className="text-ink-faint"> exact</span>}
     </span>
   );

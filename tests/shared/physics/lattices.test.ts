@@ -8,6 +8,7 @@ import {
   heavyHex,
   honeycomb,
   isProperColouring,
+  latticeNumbering,
   latticeQubits,
   maxDegree,
   ring,
@@ -203,5 +204,46 @@ describe('edge colouring', () => {
   it('isProperColouring rejects a clash and a missing edge', () => {
     expect(isProperColouring([[0, 1], [1, 2]], [[[0, 1], [1, 2]]])).toBe(false);
     expect(isProperColouring([[0, 1], [1, 2]], [[[0, 1]]])).toBe(false);
+  });
+});
+
+describe('qubit numbering in words (latticeNumbering)', () => {
+  it('heavy-hex: corners, then horizontal bonds, then bridges, as the coordinates place them', () => {
+    for (const [rows, cols] of [[1, 1], [2, 3], [3, 2], [4, 4]] as const) {
+      const g = heavyHex(rows, cols);
+      const r = latticeNumbering({ kind: 'heavy-hex', rows, cols });
+      expect(r).toHaveLength(3);
+      expect(r[0].from).toBe(0);
+      expect(r[2].to).toBe(g.n - 1);
+      expect(r[1].from).toBe(r[0].to + 1);
+      expect(r[2].from).toBe(r[1].to + 1);
+      const deg = new Int32Array(g.n);
+      for (const [a, b] of g.edges) { deg[a]++; deg[b]++; }
+      // corners sit at even x and y (honeycomb vertices doubled) and have degree 2 or 3
+      for (let q = r[0].from; q <= r[0].to; q++) {
+        expect(g.coords[q][0] % 2 === 0 && g.coords[q][1] % 2 === 0).toBe(true);
+        expect(deg[q]).toBeGreaterThanOrEqual(2);
+      }
+      // horizontal-bond qubits on even lines, bridges on odd lines; both have degree 2
+      for (let q = r[1].from; q <= r[1].to; q++) { expect(g.coords[q][1] % 2).toBe(0); expect(deg[q]).toBe(2); }
+      for (let q = r[2].from; q <= r[2].to; q++) { expect(Math.abs(g.coords[q][1] % 2)).toBe(1); expect(deg[q]).toBe(2); }
+      // each range reads top to bottom, then left to right
+      for (const x of r) {
+        for (let q = x.from + 1; q <= x.to; q++) {
+          const [x0, y0] = g.coords[q - 1], [x1, y1] = g.coords[q];
+          expect(y1 > y0 || (y1 === y0 && x1 > x0)).toBe(true);
+        }
+      }
+      expect(r[2].to - r[2].from + 1).toBe(rows * (cols + 1));
+    }
+  });
+
+  it('square: row-major; chain and ring: one range over every qubit', () => {
+    const g = square(3, 4);
+    const r = latticeNumbering({ kind: 'square', rows: 3, cols: 4 });
+    expect(r).toEqual([{ from: 0, to: 11, what: expect.stringContaining('r·4 + c') }]);
+    expect(g.coords[6]).toEqual([2, 1]); // r = 1, c = 2: 1·4 + 2 = 6
+    expect(latticeNumbering({ kind: 'chain', n: 5 })).toEqual([{ from: 0, to: 4, what: expect.any(String) }]);
+    expect(latticeNumbering({ kind: 'ring', n: 6 })[0].what).toContain('5 to 0');
   });
 });

@@ -5,10 +5,13 @@ export interface EstimateEntry { id: string; label: string; teamName: string; tr
 export interface SweepEstimate { entryId: string; target: string; value: number; uncertainty: number; kind: string; raw?: unknown }
 export interface EstimatesResponse { entries: EstimateEntry[]; estimates: SweepEstimate[] }
 
-export const getEstimates = (slug: string, q: { observable?: string; steps?: number }, signal?: AbortSignal) =>
-  api.get<EstimatesResponse>(`/challenges/${encodeURIComponent(slug)}/estimates`, { query: q, signal });
+/** raw: 0 leaves out the noise-scaled data and convergence traces (smaller answers for tables) */
+export interface EstimatesQuery { observable?: string; steps?: number; raw?: 0 }
 
-export const getEstimatesQueryOptions = (slug: string, q: { observable?: string; steps?: number }) =>
-  queryOptions({ queryKey: ['challenges', slug, 'estimates', q.observable ?? '', q.steps ?? ''], queryFn: ({ signal }) => getEstimates(slug, q, signal), placeholderData: keepPreviousData });
-export const useEstimates = (slug: string, q: { observable?: string; steps?: number }, enabled = true) =>
+export const getEstimates = (slug: string, q: EstimatesQuery, signal?: AbortSignal) =>
+  api.get<EstimatesResponse>(`/challenges/${encodeURIComponent(slug)}/estimates`, { query: { ...q }, signal });
+
+export const getEstimatesQueryOptions = (slug: string, q: EstimatesQuery) =>
+  queryOptions({ queryKey: ['challenges', slug, 'estimates', q.observable ?? '', q.steps ?? '', q.raw ?? ''], queryFn: ({ signal }) => getEstimates(slug, q, signal), placeholderData: keepPreviousData });
+export const useEstimates = (slug: string, q: EstimatesQuery, enabled = true) =>
   useQuery({ ...getEstimatesQueryOptions(slug, q), enabled });

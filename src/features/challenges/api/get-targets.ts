@@ -39,7 +39,7 @@ export function describeSize(size: Record<string, number> | null | undefined): s
   const parts: string[] = [];
   if (size.sites !== undefined) parts.push(`${size.sites} sites`);
   if (size.qubits !== undefined) parts.push(`${size.qubits} qubits`);
-  if (size.terms !== undefined) parts.push(`${size.terms} terms`);
+  if (size.terms !== undefined) parts.push(`${size.terms} term${size.terms === 1 ? '' : 's'}`);
   for (const [k, v] of Object.entries(size)) if (!['sites', 'qubits', 'terms'].includes(k)) parts.push(`${v} ${k}`);
   return parts.join(', ');
 }

@@ -22,7 +22,7 @@ const decades = (lo: number, hi: number) => {
   return out;
 };
 
-export default function CostChart({ points, yLabel, height = 360 }: { points: CostPoint[]; yLabel: string; height?: number }) {
+export default function CostChart({ points, yLabel, xLabel = 'declared cost (log scale)', label, height = 320 }: { points: CostPoint[]; yLabel: string; xLabel?: string; label?: string; height?: number }) {
   const xs = points.map((p) => p.x), ys = points.map((p) => p.y);
   const xMin = Math.min(...xs) / 2, xMax = Math.max(...xs) * 2, yMin = Math.min(...ys) / 2, yMax = Math.max(...ys) * 2;
   const front = points.filter((p) => p.onFront).sort((a, b) => a.x - b.x);
@@ -36,7 +36,7 @@ export default function CostChart({ points, yLabel, height = 360 }: { points: Co
     return <path d={d} fill="none" stroke={COLORS.ok} strokeWidth={1.6} strokeDasharray="5 3" />;
   };
   return (
-    <div style={{ height }}>
+    <div style={{ height }} role="img" aria-label={label ?? `${yLabel} against ${xLabel}`}>
       <ResponsiveScatterPlot<CostPoint>
         data={[{ id: 'entries', data: points }]}
         animate={false}
@@ -46,7 +46,7 @@ export default function CostChart({ points, yLabel, height = 360 }: { points: Co
         theme={chartTheme}
         gridXValues={decades(xMin, xMax)}
         gridYValues={decades(yMin, yMax)}
-        axisBottom={{ legend: 'declared cost (log scale)', legendOffset: 36, legendPosition: 'middle', tickValues: decades(xMin, xMax), format: (v) => formatHours(Number(v)) }}
+        axisBottom={{ legend: xLabel, legendOffset: 36, legendPosition: 'middle', tickValues: decades(xMin, xMax), format: (v) => formatHours(Number(v)) }}
         axisLeft={{ legend: yLabel, legendOffset: -52, legendPosition: 'middle', tickValues: decades(yMin, yMax), format: (v) => formatSig(Number(v), 1) }}
         nodeComponent={Node}
         layers={['grid', 'axes', frontLayer, 'nodes', 'mesh']}

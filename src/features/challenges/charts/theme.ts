@@ -1,6 +1,6 @@
 /** The charts' look, from the design tokens in tailwind.config.ts (nivo needs literal colours). */
 export const COLORS = {
-  ink: '#1b2130', inkSoft: '#4b5466', inkFaint: '#7a8294', rule: '#dedad1', ruleStrong: '#c3bdb0', paper: '#ffffff',
+  ink: '#1b2130', inkSoft: '#4b5466', inkFaint: '#646c7d', rule: '#dedad1', ruleStrong: '#c3bdb0', paper: '#ffffff',
   hardware: '#c25a12', classical: '#2766a3', exact: '#111621', consensus: '#7667a8', consensusSoft: '#ebe8f4', disputed: '#a1356e', ok: '#2b7a4b',
 };
 

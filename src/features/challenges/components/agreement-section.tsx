@@ -3,7 +3,7 @@ import { Link, useSearchParams } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { useAgreement, type AgreementEntry } from '@/features/challenges/api/get-agreement';
 import { useTargets } from '@/features/challenges/api/get-targets';
-import { formatDateTime, formatSig } from '@/lib/format';
+import { estimatorName, formatDateTime, formatSig } from '@/lib/format';
 import { ChartTableToggle, EmptyState, ErrorState, Measured, PageLoading, Panel, Spinner, TrackMark, inputClass } from '@/components/ui';
 import AgreementHeatmap, { ratioColor, type HeatRow } from '@/features/challenges/charts/agreement-heatmap';
 
@@ -108,7 +108,7 @@ export default function AgreementSection({ c }: { c: ChallengeDetail }) {
             </ol>
             {d!.mode === 'target' && d!.consensus && (
               <p className="mt-4 rounded border border-consensus/30 bg-consensus-soft px-3 py-2">
-                Consensus ({d!.consensus.estimator}): <Measured value={d!.consensus.value} u={d!.consensus.uncertainty} />
+                Consensus ({estimatorName(d!.consensus.estimator)}): <Measured value={d!.consensus.value} u={d!.consensus.uncertainty} />
                 {d!.consensus.disputed && <span className="ml-1 text-disputed-ink">· disputed</span>}
               </p>
             )}

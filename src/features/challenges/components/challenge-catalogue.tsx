@@ -169,9 +169,9 @@ function CatalogueTable({ list, sort, setSort }: { list: ChallengeSummary[]; sor
   const head = (key: SortKey | null, label: string, num = false) => {
     const on = key && sort.key === key;
     return (
-      <th scope="col" aria-sort={on ? (sort.desc ? 'descending' : 'ascending') : undefined} className={cx('border-b border-rule-strong px-2 py-2 text-xs font-semibold tracking-wide text-ink-soft uppercase first:pl-0 last:pr-0', num ? 'text-right' : 'text-left')}>
+      <th scope="col" aria-sort={on ? (sort.desc ? 'descending' : 'ascending') : undefined} className={cx('border-b border-rule-strong px-2 py-2 text-xs font-semibold text-ink-soft first:pl-0 last:pr-0', num ? 'text-right' : 'text-left')}>
         {key ? (
-          <button type="button" onClick={() => setSort({ key, desc: on ? !sort.desc : key !== 'title' })} className="inline-flex items-center gap-1 uppercase hover:text-ink">
+          <button type="button" onClick={() => setSort({ key, desc: on ? !sort.desc : key !== 'title' })} className="inline-flex items-center gap-1 hover:text-ink">
             {label}
             <span aria-hidden="true" className="w-2 text-ink">{on ? (sort.desc ? '↓' : '↑') : ''}</span>
           </button>

@@ -1,18 +1,24 @@
 import { useMemo, useState } from 'react';
+import { Link } from 'react-router';
+import type { ChallengeSpec } from '@shared/physics/challenge';
+import { DEFAULT_THETA_J } from '@shared/physics/kicked-ising';
+import { latticeNumbering, edgeColouring, type LatticeSpec } from '@shared/physics/lattices';
+import { RZZ_DEFINITION } from '@shared/physics/qasm';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { useLightCone } from '@/features/challenges/api/get-light-cone';
-import { ApiError } from '@/lib/api-client';
-import { formatAngle, formatDate, formatDateTime } from '@/lib/format';
+import { formatAngle, formatDate, formatDateTime, formatSig } from '@/lib/format';
 import { Badge, CopyButton, Panel, Progress, Table, Td, Th, buttonClass, inputClass } from '@/components/ui';
-import { LatticeDrawing, graphLightCone, observableSupport } from './lattice-drawing';
+import { LatticeDrawing } from './lattice-drawing';
+import { ObservableFormula, observableText } from './observable-formula';
+import { BROWSER_CONE_GATE_LIMIT, parseObservables, supportOf, targetLightCone } from '../lib/spec-physics';
 
 const api = (slug: string, rest: string) => `/api/challenges/${encodeURIComponent(slug)}${rest}`;
 
+/** "w3 = X3 Y4 Z9" for option labels and headings (the one Pauli grammar: shared/physics/observable.ts) */
 export function observableLabel(o: ChallengeDetail['observables'][number]): string {
-  const t = o.spec.terms;
-  if (t && t.length === 1) return `${o.key} = ${t[0].pauli}`;
-  if (t && t.length > 1) return `${o.key} (${t.length} terms)`;
-  return o.key;
+  const [p] = parseObservables({ observables: [o], lattice: { kind: '', qubits: Number.POSITIVE_INFINITY, edges: [], coords: [] } }).values();
+  const text = observableText(p);
+  return text ? `${o.key} = ${text}` : o.key;
 }
 
 export function SpecSection({ c }: { c: ChallengeDetail }) {
@@ -32,18 +38,22 @@ export function SpecSection({ c }: { c: ChallengeDetail }) {
             <dt className="text-ink-soft">Lattice</dt>
             <dd>{c.lattice.kind}, <span className="num">{c.lattice.qubits}</span> qubits, <span className="num">{c.lattice.edges.length}</span> couplings</dd>
             <dt className="text-ink-soft">Observables</dt>
-            <dd>{c.observables.map((o) => <span key={o.key} className="mr-2 inline-block"><code>{observableLabel(o)}</code></span>)}</dd>
+            <dd><span className="num">{c.observables.length}</span>, written out below</dd>
             <dt className="text-ink-soft">Licence</dt>
             <dd>{c.settings.license ?? 'not stated'}</dd>
           </dl>
           <div className="mt-4 flex flex-wrap gap-2">
             <a className={buttonClass('secondary', 'sm')} href={api(c.slug, `/spec.json?version=${c.version.version}`)} download>Download the JSON spec</a>
+            <Link className={buttonClass('ghost', 'sm')} to={`/challenges/${encodeURIComponent(c.slug)}/specification`}>Printable specification</Link>
           </div>
         </Panel>
+        <CircuitPanel c={c} />
+        <ObservablesPanel c={c} />
         <InstancesPanel c={c} />
       </div>
       <div className="space-y-6">
         <LatticePanel c={c} />
+        <NumberingPanel c={c} />
         <VersionsPanel c={c} />
         <JobsPanel c={c} />
       </div>
@@ -54,29 +64,29 @@ export function SpecSection({ c }: { c: ChallengeDetail }) {
 function LatticePanel({ c }: { c: ChallengeDetail }) {
   const steps = useMemo(() => [...new Set(c.instances.map((i) => i.params.steps ?? 0))].sort((a, b) => a - b), [c.instances]);
   const thetas = useMemo(() => [...new Set(c.instances.map((i) => i.params.thetaH ?? 0))].sort((a, b) => a - b), [c.instances]);
+  const parsed = useMemo(() => parseObservables(c), [c]);
   // start from a one-site observable near the middle of the lattice: its cone is the clearest
   const central = useMemo(() => {
     const mid = c.lattice.qubits / 2;
-    const single = c.observables.map((o) => ({ o, s: [...observableSupport(o.spec)] })).filter((x) => x.s.length === 1);
+    const single = c.observables.map((o) => ({ o, s: [...supportOf(parsed.get(o.key))] })).filter((x) => x.s.length === 1);
     single.sort((a, b) => Math.abs(a.s[0] - mid) - Math.abs(b.s[0] - mid));
     return single[0]?.o.key ?? c.observables[0]?.key ?? '';
-  }, [c]);
+  }, [c, parsed]);
   const [obs, setObs] = useState(central);
   const [step, setStep] = useState(steps[Math.min(2, steps.length - 1)] ?? 1);
   const [theta, setTheta] = useState(thetas[Math.min(1, thetas.length - 1)] ?? 0);
   const inst = c.instances.find((i) => i.params.steps === step && i.params.thetaH === theta) ?? c.instances[0];
   const target = inst && obs ? `${inst.key}:${obs}` : '';
-  const lc = useLightCone(c.slug, target);
-  const o = c.observables.find((x) => x.key === obs);
-  const support = useMemo(() => observableSupport(o?.spec), [o]);
-  const fallback = lc.isError && lc.error instanceof ApiError && lc.error.status === 404;
-  const cone = useMemo(() => {
-    if (lc.data) return new Set(lc.data.qubits);
-    if (fallback) return graphLightCone(c.lattice.qubits, c.lattice.edges, support, step);
-    return null;
-  }, [lc.data, fallback, c.lattice, support, step]);
+  const o = parsed.get(obs) ?? null;
+  const support = useMemo(() => supportOf(o), [o]);
+  // the light cone by the shared rule (shared/physics/light-cone.ts), in the browser for ordinary
+  // sizes; the server computes the same for the largest instances
+  const local = Boolean(inst && o && inst.gateCount <= BROWSER_CONE_GATE_LIMIT);
+  const localCone = useMemo(() => (local && inst && o ? targetLightCone(c.spec as unknown as ChallengeSpec, inst.key, o) : null), [local, inst, o, c.spec]);
+  const lc = useLightCone(c.slug, local ? '' : target);
+  const cone = localCone ?? (lc.data ? new Set(lc.data.qubits) : null);
   return (
-    <Panel title="Lattice and light cone" id="spec-lattice" description="The qubits that can influence the selected target.">
+    <Panel title="Lattice and light cone" id="spec-lattice" description="The qubits that can influence the selected target (its backward light cone).">
       <div className="mb-3 grid grid-cols-3 gap-2 text-sm">
         <label>
           <span className="block text-xs text-ink-soft">Observable</span>
@@ -87,7 +97,7 @@ function LatticePanel({ c }: { c: ChallengeDetail }) {
         <label>
           <span className="block text-xs text-ink-soft">Steps</span>
           <select value={step} onChange={(e) => setStep(Number(e.target.value))} className={inputClass(false, 'w-full', true)}>
-            {steps.map((s) => <option key={s} value={s}>{s}</option>)}
+            {steps.map((x) => <option key={x} value={x}>{x}</option>)}
           </select>
         </label>
         <label>
@@ -99,17 +109,124 @@ function LatticePanel({ c }: { c: ChallengeDetail }) {
       </div>
       <LatticeDrawing lattice={c.lattice} cone={cone} support={support} title={`Lattice of ${c.title}`} />
       <p className="mt-2 text-xs text-ink-soft" aria-live="polite">
-        Target <code>{target}</code>
-        {lc.isPending && ' · loading the light cone…'}
-        {fallback && ' · light cone estimated in the browser (graph distance ≤ steps); the server gave none.'}
-        {lc.isError && !fallback && ' · the light cone could not be loaded.'}
+        Target <Link to={`/challenges/${encodeURIComponent(c.slug)}/targets/${encodeURIComponent(target)}`}><code>{target}</code></Link>
+        {o && <> · <ObservableFormula o={o} max={3} /></>}
+        {!local && lc.isPending && ' · loading the light cone…'}
+        {!local && lc.isError && ' · the light cone could not be loaded.'}
+      </p>
+      <p className="mt-1 text-xs text-ink-soft">
+        A Z site&rsquo;s cone has graph radius t&nbsp;−&nbsp;1 (the last RZZ layer commutes with Z), an X or Y site&rsquo;s radius t: an upper bound on the qubits that can change the value.
       </p>
     </Panel>
   );
 }
 
-function InstancesPanel({ c }: { c: ChallengeDetail }) {
-  const [all, setAll] = useState(false);
+/** the circuit as a formula, the gate conventions and the grid */
+export function CircuitPanel({ c }: { c: ChallengeDetail }) {
+  const spec = c.spec as unknown as ChallengeSpec;
+  const colours = useMemo(() => edgeColouring(c.lattice.qubits, c.lattice.edges).length, [c.lattice]);
+  if (spec.circuit.family === 'gates') {
+    return (
+      <Panel title="Circuit" id="spec-circuit">
+        <p className="text-sm">An explicit list of <span className="num">{spec.circuit.gates.length.toLocaleString('en-GB')}</span> gates on <span className="num">{spec.circuit.qubits}</span> qubits, applied in order to |0…0⟩; each target is ⟨ψ|O|ψ⟩ in the final state |ψ⟩. The gate list is in the JSON spec and in the OpenQASM 3 file of the instance <code>base</code>.</p>
+        <GateConventions />
+      </Panel>
+    );
+  }
+  const k = spec.circuit;
+  const thetaJ = k.thetaJ ?? DEFAULT_THETA_J;
+  return (
+    <Panel title="Circuit" id="spec-circuit" description="Kicked transverse-field Ising: first-order Trotter steps from |0…0⟩.">
+      <div className="space-y-3 text-sm" data-testid="circuit-formula">
+        <p className="overflow-x-auto rounded border border-rule bg-paper px-3 py-2 font-serif text-base whitespace-nowrap">
+          ⟨<i>O</i>⟩<sub><i>t</i></sub> = ⟨0…0| (<i>U</i><sup>†</sup>)<sup><i>t</i></sup> <i>O</i> <i>U</i><sup><i>t</i></sup> |0…0⟩,&ensp;
+          <i>U</i> = ∏<sub>⟨<i>ij</i>⟩∈<i>E</i></sub> R<sub>ZZ</sub><sup>(<i>ij</i>)</sup>(θ<sub>J</sub>) · ∏<sub><i>q</i></sub> R<sub>X</sub><sup>(<i>q</i>)</sup>(θ<sub>h</sub>)
+        </p>
+        <p>
+          Each step applies R<sub>X</sub>(θ<sub>h</sub>) to every qubit, then R<sub>ZZ</sub>(θ<sub>J</sub>) to every coupling of the lattice, in{' '}
+          <span className="num">{colours}</span> edge-colour layers (all R<sub>ZZ</sub> gates commute: the colouring sets the depth, not the values).
+          An instance id reads <code>t</code><i>steps</i><code>-h</code><i>θ<sub>h</sub></i> (six decimals), e.g. <code>{c.instances[0]?.key}</code>; a target id adds <code>:</code><i>observable</i>.
+        </p>
+        <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1">
+          <dt className="text-ink-soft">θ<sub>J</sub></dt>
+          <dd className="num">{formatAngle(thetaJ)} <span className="text-ink-soft">({formatSig(thetaJ, 7)} rad{k.thetaJ === undefined ? ', the default' : ''})</span></dd>
+          <dt className="text-ink-soft">θ<sub>h</sub></dt>
+          <dd className="num">{k.thetaH.map((t) => formatAngle(t)).join(', ')}</dd>
+          <dt className="text-ink-soft">Steps <i>t</i></dt>
+          <dd className="num">{k.steps.join(', ')}</dd>
+        </dl>
+        <GateConventions />
+      </div>
+    </Panel>
+  );
+}
+
+function GateConventions() {
+  return (
+    <div className="text-sm">
+      <h3 className="mt-2 text-sm font-semibold">Gate conventions</h3>
+      <ul className="mt-1 list-disc space-y-0.5 pl-5">
+        <li>R<sub>X</sub>(θ) = exp(−iθX/2); R<sub>Z</sub>(θ) = exp(−iθZ/2); R<sub>ZZ</sub>(θ) = exp(−iθ Z⊗Z/2). At θ<sub>J</sub> = −π/2, R<sub>ZZ</sub> is a Clifford gate.</li>
+        <li>The OpenQASM 3 files define <code className="text-xs">{RZZ_DEFINITION}</code>, which equals exp(−iθ Z⊗Z/2) exactly.</li>
+        <li>Qubits are numbered from 0; the initial state is |0…0⟩ (Z = +1 on every qubit); a target is the exact expectation value, without shot noise.</li>
+      </ul>
+    </div>
+  );
+}
+
+/** every observable written out */
+export function ObservablesPanel({ c, all = false }: { c: ChallengeDetail; all?: boolean }) {
+  const parsed = useMemo(() => parseObservables(c), [c]);
+  const [more, setMore] = useState(all);
+  const rows = more ? c.observables : c.observables.slice(0, 16);
+  return (
+    <Panel title="Observables" id="spec-observables" description={<>Each target is the expectation value of one of these <span className="num">{c.observables.length}</span> observables (Pauli letters carry their qubit as a subscript).</>}>
+      <Table aria-label="Observables" data-testid="observables">
+        <thead><tr><Th>Id</Th><Th>Observable</Th><Th num>Weight</Th><Th num>Bound on |⟨O⟩|</Th></tr></thead>
+        <tbody>
+          {rows.map((o) => {
+            const p = parsed.get(o.key);
+            const label = (o.spec as { label?: string }).label;
+            return (
+              <tr key={o.key}>
+                <Td><code className="text-xs">{o.key}</code>{label && <span className="block text-xs text-ink-soft">{label}</span>}</Td>
+                <Td><ObservableFormula o={p} max={all ? 1000 : 6} /></Td>
+                <Td num>{p ? supportOf(p).size : '—'}</Td>
+                <Td num>{o.bound === null ? '—' : formatSig(o.bound, 4)}</Td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </Table>
+      {!all && c.observables.length > 16 && (
+        <button type="button" className={buttonClass('ghost', 'sm', 'mt-2')} onClick={() => setMore(!more)} aria-expanded={more}>
+          {more ? 'Show fewer' : `Show all ${c.observables.length} observables`}
+        </button>
+      )}
+    </Panel>
+  );
+}
+
+/** how the lattice numbers its qubits (shared/physics/lattices.ts, latticeNumbering) */
+export function NumberingPanel({ c, hint = true }: { c: ChallengeDetail; hint?: boolean }) {
+  const spec = c.spec as unknown as ChallengeSpec;
+  const ranges = latticeNumbering(spec.lattice as LatticeSpec);
+  const l = spec.lattice as LatticeSpec;
+  const size = l.kind === 'square' || l.kind === 'heavy-hex' ? `${l.rows} × ${l.cols}` : `n = ${l.n}`;
+  return (
+    <Panel title="Qubit numbering" id="spec-numbering" description={<>{l.kind}, {size}: <span className="num">{c.lattice.qubits}</span> qubits</>}>
+      <ul className="space-y-1.5 text-sm" data-testid="numbering">
+        {ranges.map((r) => (
+          <li key={r.from}><span className="num font-medium whitespace-nowrap">{r.from === r.to ? r.from : `${r.from}–${r.to}`}</span>: {r.what}</li>
+        ))}
+      </ul>
+      {hint && <p className="mt-2 text-xs text-ink-soft">&ldquo;Show qubit numbers&rdquo; below the drawing writes them on the lattice.</p>}
+    </Panel>
+  );
+}
+
+export function InstancesPanel({ c, showAll = false }: { c: ChallengeDetail; showAll?: boolean }) {
+  const [all, setAll] = useState(showAll);
   const sorted = useMemo(() => [...c.instances].sort((a, b) => (a.params.steps ?? 0) - (b.params.steps ?? 0) || (a.params.thetaH ?? 0) - (b.params.thetaH ?? 0)), [c.instances]);
   const rows = all ? sorted : sorted.slice(0, 12);
   return (
@@ -131,7 +248,7 @@ function InstancesPanel({ c }: { c: ChallengeDetail }) {
           ))}
         </tbody>
       </Table>
-      {c.instances.length > 12 && (
+      {!showAll && c.instances.length > 12 && (
         <button type="button" className={buttonClass('ghost', 'sm', 'mt-2')} onClick={() => setAll(!all)} aria-expanded={all}>
           {all ? 'Show fewer' : `Show all ${c.instances.length} instances`}
         </button>

@@ -2,7 +2,7 @@ import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { describeSize, useTargets, type Target } from '@/features/challenges/api/get-targets';
-import { formatAngle, formatDate, formatDateTime, formatSig } from '@/lib/format';
+import { chiSquaredText, estimatorName, formatAngle, formatDate, formatDateTime, formatMs, formatSig } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, Measured, PageLoading, Panel, ProvenanceList, cx } from '@/components/ui';
 import { observableLabel } from './spec-section';
 
@@ -51,7 +51,7 @@ export default function VerifiabilitySection({ c }: { c: ChallengeDetail }) {
         id="verifiability"
         description={
           <span className="num">
-            {count('exact')} exact · {count('none')} without exact reference · {count('sealed')} sealed · {count('pending')} pending · {ts.filter((t) => t.disputed).length} disputed. Consensus estimator: <strong>{tq.data.estimator ?? c.settings.estimator ?? '—'}</strong>.
+            {count('exact')} exact · {count('none')} without exact reference · {count('sealed')} sealed · {count('pending')} pending · {ts.filter((t) => t.disputed).length} disputed. Consensus estimator: <strong>{estimatorName(tq.data.estimator ?? c.settings.estimator)}</strong>.
           </span>
         }
       >
@@ -130,7 +130,7 @@ function TargetDetail({ t, slug }: { t: Target; slug: string }) {
             ['Value', <Measured key="v" value={r.value} u={r.uncertainty} />],
             ['Method', r.method],
             ['Size', describeSize(r.size) || '—'],
-            ['Wall time', r.wallMs !== null ? `${formatSig(r.wallMs, 3)} ms` : '—'],
+            ['Wall time', formatMs(r.wallMs)],
             ['Engine', r.engineVersion ?? '—'],
             ['Computed', formatDateTime(r.createdAt)],
           ]}
@@ -141,11 +141,11 @@ function TargetDetail({ t, slug }: { t: Target; slug: string }) {
       {r.status === 'pending' && <p>The reference computation has not reached this target yet.</p>}
       {t.consensus && (
         <div className="mt-3 border-t border-rule pt-2">
-          <p className="mb-1 font-medium">Consensus of {t.consensus.entries} entries ({t.consensus.estimator})</p>
+          <p className="mb-1 font-medium">Consensus of {t.consensus.entries} entries ({estimatorName(t.consensus.estimator)})</p>
           <ProvenanceList
             items={[
               ['Value', <Measured key="c" value={t.consensus.value} u={t.consensus.uncertainty} />],
-              ['χ² / ν', t.consensus.chi2 !== null ? `${formatSig(t.consensus.chi2, 3)} / ${t.consensus.nu}` : '—'],
+              ['χ² per degree of freedom', chiSquaredText(t.consensus.chi2, t.consensus.nu)],
               ['p', formatSig(t.consensus.p, 2)],
               ['Birge ratio', formatSig(t.consensus.birgeRatio, 3)],
               ['τ²', formatSig(t.consensus.tau2, 2)],
@@ -155,6 +155,7 @@ function TargetDetail({ t, slug }: { t: Target; slug: string }) {
         </div>
       )}
       {t.disputeNote && <p className="mt-2 text-disputed-ink">Dispute: {t.disputeNote}</p>}
+      <p className="mt-2"><Link to={`/challenges/${encodeURIComponent(slug)}/targets/${encodeURIComponent(t.key)}`}>Every estimate of this target</Link></p>
     </div>
   );
 }

@@ -12,7 +12,7 @@ import { Badge, Button, Field, FormMessage, Panel, Progress, Spinner, Table, Td,
 import { DropZone } from '@/features/submit/components/drop-zone';
 import { ProblemList } from '@/features/submit/components/problem-list';
 import { usePreviewSpec, usePublishChallenge, useJob, useStoreDraft, type PlanRow, type SpecPreview, type StoredDraft } from '../api/author-challenge';
-import { LatticeSvg } from './lattice-svg';
+import { LatticeDrawing } from '@/features/challenges/components/lattice-drawing';
 
 interface SpecShape { title?: string; circuit?: { family?: string; steps?: number[]; thetaH?: number[] }; observables?: { id: string }[] }
 
@@ -114,7 +114,7 @@ function PreviewView({ p, spec }: { p: SpecPreview; spec: SpecShape | null }) {
       <div>
         <h3 className="text-sm font-semibold">Lattice <span className="font-normal text-ink-soft">({p.lattice.kind}, {p.lattice.qubits} qubits, {p.lattice.edges.length} couplings)</span></h3>
         <div className="mt-2 overflow-x-auto rounded border border-rule bg-paper p-2 text-ink">
-          <LatticeSvg coords={p.lattice.coords} edges={p.lattice.edges} className="mx-auto max-h-72 w-full max-w-3xl" />
+          <LatticeDrawing lattice={p.lattice} title={`Lattice of ${p.id}`} className="mx-auto w-full max-w-3xl" />
         </div>
       </div>
       <InstanceGrid plans={p.plans} spec={spec} />

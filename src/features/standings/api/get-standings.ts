@@ -23,7 +23,7 @@ export interface StandingsEntry {
 }
 export interface Coverage { answered: number; ranked: number }
 export interface Standings {
-  challenge: string; version: number; checksum: string; status: 'ready' | 'pending' | 'rescoring';
+  challenge: string; version: number; checksum: string; status: 'ready' | 'pending' | 'rescoring' | 'none';
   computedAt: string | null; engineVersion: string | null; estimator: string | null;
   scoringRulesVersion: string | null; currentScoringRulesVersion: string; exactTolerance: number; minIndependentTeams: number; bootstrapReplicates: number | null;
   metric: string; metrics: string[]; track: string; asOf: string | null;

@@ -1,3 +1,4 @@
+import { endOfLocalDay } from '@/lib/format-time';
 import { Link, useSearchParams } from 'react-router';
 import { METRIC_LABEL, useStandings } from '@/features/standings/api/get-standings';
 import { formatDateTime } from '@/lib/format';
@@ -20,7 +21,7 @@ export function useStandingsParams() {
 
 export function StandingsSection({ slug }: { slug: string }) {
   const { q, set } = useStandingsParams();
-  const s = useStandings(slug, { track: q.track, metric: q.metric || undefined, asOf: q.asOf || undefined });
+  const s = useStandings(slug, { track: q.track, metric: q.metric || undefined, asOf: q.asOf ? endOfLocalDay(q.asOf) : undefined });
   const d = s.data;
   return (
     <Panel
