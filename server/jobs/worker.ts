@@ -12,6 +12,7 @@ import type { Logger } from '../log';
 import { claimJob, enqueueJob, failJob, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind, type JobRow } from './queue';
 import { runCompute } from './run-compute';
 import { recordAudit } from '../services/record-audit';
+import { challengeLink, notifyFollowers } from '../services/notify-followers';
 
 export const HOUSE_TEAM = { id: 'parallax-house', name: 'Parallax house baseline', slug: 'parallax-house' };
 export const BASELINE_SETTINGS = { delta: 5e-3, maxTerms: 20_000 };
@@ -61,6 +62,10 @@ async function referencesJob(job: JobRow, w: WorkerContext) {
   });
   await enqueueJob(w.db, 'baseline', { versionId }, `baseline:${versionId}`);
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
+  if (exact) {
+    await notifyFollowers(w.db, { slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
+      lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${all.length - already - exact} target(s) have none and are scored against the consensus.`, '', `The challenge: ${challengeLink(w.db, v.challengeSlug)}`] });
+  }
   return { targets: all.length, computed: stored, exact, engine: ENGINE_VERSION };
 }
 

@@ -47,6 +47,8 @@ export function isPublicEntry(e: Pick<EntryRow, 'state' | 'publishedAt'>): boole
 }
 
 export async function entryDocument(db: Db, e: EntryRow): Promise<EntryDocument> {
+  // a draft saved with problems keeps its document as sent, estimates included
+  if (e.problems) return e.document as EntryDocument;
   const rows = await db.select({ t: estimates.targetKey, v: estimates.value, u: estimates.uncertainty, k: estimates.kind, raw: estimates.raw })
     .from(estimates).where(eq(estimates.entryId, e.id)).orderBy(asc(estimates.id));
   const ests: EntryEstimate[] = rows.map((r) => ({ target: r.t, value: r.v, uncertainty: r.u, uncertaintyKind: r.k as EntryEstimate['uncertaintyKind'], ...((r.raw as object | null) ?? {}) }));
@@ -81,6 +83,8 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
       warnings: opts.privileged ? (h.details as { warnings?: unknown }).warnings : undefined,
     })),
     document: doc,
-    scores: doc ? await estimateScores(db, e, doc.estimates, opts.now ?? new Date()) : undefined,
+    /** a draft saved with problems: what must be fixed before it can be submitted */
+    problems: opts.privileged && Array.isArray(e.problems) ? (e.problems as { path: string; message: string }[]) : undefined,
+    scores: doc && !e.problems ? await estimateScores(db, e, doc.estimates, opts.now ?? new Date()) : undefined,
   };
 }
