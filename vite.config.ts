@@ -41,6 +41,14 @@ export default defineConfig({
       {
         resolve: { alias },
         test: {
+          name: 'client',
+          include: ['tests/client/**/*.test.{ts,tsx}'],
+          environment: 'jsdom',
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.spec.ts'],
           environment: 'node',

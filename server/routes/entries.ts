@@ -30,6 +30,7 @@ import { documentBody as readDocumentBody } from '../util/document-body';
 import { loadChallengeVersion } from './challenges';
 import type { RouteTable } from './registry';
 import { entryAccess } from './entry-access';
+import { teamTrack as teamTrackOf } from '../util/team-meta';
 
 /** The routes whose body is an entry document, read as raw text by the route itself. */
 export function takesEntryDocument(method: string, path: string): boolean {
@@ -86,7 +87,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   /** the team's kind (hardware or classical) from its metadata; classical when unstated */
   const teamTrack = async (teamId: string): Promise<string> => {
     const [o] = await db.select({ metadata: organization.metadata }).from(organization).where(eq(organization.id, teamId));
-    try { const t = (JSON.parse(o?.metadata ?? '{}') as { track?: unknown }).track; return t === 'hardware' ? 'hardware' : 'classical'; } catch { return 'classical'; }
+    return teamTrackOf(o?.metadata ?? null);
   };
 
   /** ?incomplete=1: a draft is stored even when the document has problems (it cannot be submitted then) */

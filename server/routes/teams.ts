@@ -12,10 +12,8 @@ import { notFound } from '../errors';
 import { recordAudit } from '../services/record-audit';
 import { parseBody } from '../validate';
 import type { RouteTable } from './registry';
+import { teamMeta } from '../util/team-meta';
 
-const teamMeta = (m: string | null): { track?: string; description?: string } => {
-  try { return m ? JSON.parse(m) : {}; } catch { return {}; }
-};
 
 const createKeyBody = z.object({
   name: z.string().trim().min(1, 'give the key a name, e.g. "sweep script"').max(32, 'at most 32 characters'),

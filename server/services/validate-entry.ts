@@ -17,7 +17,8 @@ import { parseStrictJson, DEFAULT_MAX_DEPTH } from '../util/strict-json';
 
 export const ENTRY_SCHEMA = JSON.parse(readFileSync(new URL('../../schemas/entry.schema.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 export const MAX_ESTIMATES = 100_000;
-export const MAX_PROBLEMS = 50;
+/** problems listed in one answer: enough that a realistic upload shows all of its errors at once (issue 13) */
+export const MAX_PROBLEMS = 500;
 export const MAX_DEPTH = DEFAULT_MAX_DEPTH;
 
 export type UncertaintyKind = 'statistical' | 'systematic' | 'bound' | 'none';

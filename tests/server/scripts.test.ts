@@ -8,12 +8,15 @@ import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { and, count, desc, eq } from 'drizzle-orm';
-import { JSDOM } from 'jsdom';
+import { createRequire } from 'node:module';
 import { agent, lastMailTo, ORIGIN } from './helpers';
 import { fullSweep, makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
 import { auditLog, entries, estimates, mailMessages } from '../../server/db/schema';
 import { reordered } from '../../server/jobs/standings-job';
 import type { StandingsPayload } from '../../server/services/recompute-standings';
+
+// jsdom (a dev dependency) ships no TypeScript types: the one constructor used here, typed by hand
+const { JSDOM } = createRequire(import.meta.url)('jsdom') as { JSDOM: new (text: string, opts: { contentType: string }) => { window: Window } };
 
 let w: EntryWorld;
 beforeAll(async () => { w = await makeEntryWorld('s'); }, 120_000);

@@ -10,7 +10,7 @@ export function Table({ className, ...rest }: HTMLAttributes<HTMLTableElement>) 
   );
 }
 export function Th({ className, num, ...rest }: ThHTMLAttributes<HTMLTableCellElement> & { num?: boolean }) {
-  return <th scope="col" className={cx('border-b border-rule-strong px-2 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft uppercase first:pl-0 last:pr-0', num && 'text-right', className)} {...rest} />;
+  return <th scope="col" className={cx('border-b border-rule-strong px-2 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft first:pl-0 last:pr-0', num && 'text-right', className)} {...rest} />;
 }
 export function Td({ className, num, ...rest }: TdHTMLAttributes<HTMLTableCellElement> & { num?: boolean }) {
   return <td className={cx('border-b border-rule px-2 py-2 align-top first:pl-0 last:pr-0', num && 'num text-right', className)} {...rest} />;

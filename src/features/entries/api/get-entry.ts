@@ -43,6 +43,8 @@ export interface Entry {
   document?: EntryDocument;
   /** one per estimate of the document (sent with the document) */
   scores?: EstimateScore[];
+  /** a draft saved with problems (the team sees them): it cannot be submitted until they are fixed */
+  problems?: { path: string; message: string }[];
 }
 
 export const getEntry = (entryId: string, signal?: AbortSignal) => api.get<Entry>(`/entries/${encodeURIComponent(entryId)}`, { signal });

@@ -1,6 +1,6 @@
 /**
  * A team's entries in every state, with the actions each state allows: edit and submit a draft or
- * a returned entry, withdraw (with a reason), revise a published one. A returned entry shows the
+ * a returned entry, delete a draft, withdraw (with a reason) anything submitted, revise a published one. A returned entry shows the
  * moderator's reason.
  */
 import { useState } from 'react';
@@ -32,6 +32,7 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
   const act = useEntryAction();
   const navigate = useNavigate();
   const [withdrawing, setWithdrawing] = useState(false);
+  const [deleting, setDeleting] = useState(false);
   const [reason, setReason] = useState('');
   const editable = e.state === 'draft' || e.state === 'returned';
   const editHref = `/challenges/${e.challenge.slug}/submit?entry=${e.id}`;
@@ -59,7 +60,8 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
               Revise
             </Button>
           )}
-          {!['withdrawn', 'rejected', 'superseded'].includes(e.state) && !withdrawing && <Button size="sm" variant="ghost" onClick={() => setWithdrawing(true)}>Withdraw…</Button>}
+          {e.state !== 'draft' && !['withdrawn', 'rejected', 'superseded'].includes(e.state) && !withdrawing && <Button size="sm" variant="ghost" onClick={() => setWithdrawing(true)}>Withdraw…</Button>}
+          {e.state === 'draft' && !deleting && <Button size="sm" variant="ghost" onClick={() => setDeleting(true)}>Delete…</Button>}
         </div>
       </div>
       {withdrawing && (
@@ -71,6 +73,13 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
           <Button size="sm" variant="danger" type="submit" busy={act.isPending} disabled={!reason.trim()}>Withdraw</Button>
           <Button size="sm" variant="ghost" onClick={() => setWithdrawing(false)}>Cancel</Button>
         </form>
+      )}
+      {deleting && (
+        <div className="mt-2 flex flex-wrap items-center gap-2" role="group" aria-label="Delete this draft">
+          <span className="text-sm">Delete this draft and its estimates? This cannot be undone.</span>
+          <Button size="sm" variant="danger" busy={act.isPending && act.variables?.action === 'delete'} onClick={() => act.mutate({ action: 'delete', entryId: e.id, teamId }, { onSuccess: () => setDeleting(false) })}>Delete draft</Button>
+          <Button size="sm" variant="ghost" onClick={() => setDeleting(false)}>Cancel</Button>
+        </div>
       )}
       {act.isError && <p className="mt-1 text-sm text-danger" role="alert">{errorMessage(act.error)}</p>}
     </li>
