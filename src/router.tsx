@@ -30,6 +30,8 @@ export const router = createBrowserRouter([
           // submitting and the team's entries (editable table) load on first visit only
           { path: 'challenges/:slug/submit', lazy: () => import('@/routes/submit') },
           { path: 'my-entries', lazy: () => import('@/routes/my-entries') },
+          { path: 'api-reference', lazy: () => import('@/routes/api-reference') },
+          { path: 'unfollow/:token', lazy: () => import('@/routes/unfollow') },
           { path: 'sign-up', Component: signUp.Component },
           { path: 'sign-in', Component: signIn.Component },
           { path: 'verified', Component: verified.Component },

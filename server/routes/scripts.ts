@@ -8,18 +8,13 @@ import type { AppContext } from '../context';
 import { targets } from '../db/schema';
 import { badRequest, notFound } from '../errors';
 import { canonicalJson } from '@shared/physics/challenge';
+import { CHECKSUM_RECIPE } from '@shared/physics/checksum-recipe';
 import { entryDocument, isPublicEntry } from '../presenters/entry';
 import { loadChallengeVersion } from './challenges';
 import { entryAccess } from './entry-access';
 import type { RouteTable } from './registry';
 
 const byKey = (a: string, b: string) => a.localeCompare(b, 'en', { numeric: true });
-
-/**
- * How the checksum is made, in words (the challenge page and the API reference show it): the
- * version's spec without its "$schema" member, serialised canonically, hashed with SHA-256.
- */
-export const CHECKSUM_RECIPE = 'SHA-256 (lower-case hex) of the canonical JSON of the spec without its "$schema" member: UTF-8, no whitespace, object keys sorted by UTF-16 code units at every level, array order kept, strings and numbers written as JavaScript\'s JSON.stringify writes them (shortest round-trip numbers, e.g. 1.5707963267948966, 0.25, 1e-7). GET /api/challenges/<id>/spec.canonical.json returns exactly these bytes, so `sha256sum` of that download prints the checksum.';
 
 export function registerScriptRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
@@ -34,7 +29,6 @@ export function registerScriptRoutes(routes: RouteTable, ctx: AppContext): void 
       if (track !== 'classical' && track !== 'hardware') throw badRequest('track must be "hardware" or "classical", e.g. ?track=hardware', [{ path: '/track', message: `"${track}" is not a track` }]);
       const keys = (await db.select({ key: targets.key }).from(targets).where(eq(targets.versionId, v.id))).map((t) => t.key).sort(byKey);
       const doc = {
-        $schema: `${ctx.config.baseUrl.replace(/\/$/, '')}/schemas/entry.schema.json`,
         challenge: { id: v.challengeSlug, version: v.version, checksum: `sha256:${v.checksum}` },
         track,
         label: 'Sample entry: replace this label and every value',
@@ -54,7 +48,7 @@ export function registerScriptRoutes(routes: RouteTable, ctx: AppContext): void 
 
   routes.add({
     method: 'get', path: '/challenges/:slug/spec.canonical.json', access: 'public',
-    summary: 'The canonical serialisation of a version\'s spec (the bytes its checksum is the SHA-256 of): sha256sum of this download equals the checksum',
+    summary: `The canonical serialisation of a version's spec: sha256sum of this download equals the checksum. The checksum is the ${CHECKSUM_RECIPE}`,
     handler: async (req, res) => {
       const { version: v } = await loadChallengeVersion(db, req);
       const { $schema: _drop, ...rest } = v.spec as Record<string, unknown>;

@@ -8,6 +8,8 @@ import { SpecSection } from '@/features/challenges/components/spec-section';
 import { SubmissionsStatusLine, SubmitEntryButton } from '@/features/challenges/components/submissions-status';
 import { formatDate } from '@/lib/format';
 import { CopyButton, ErrorState, PageHeader, PageLoading, Tabs } from '@/components/ui';
+import { FollowButton } from '@/features/follows/components/follow-button';
+import { ChecksumNote } from '@/features/api-docs/checksum-note';
 
 // the chart views (and nivo with them) load when a visitor opens them
 const SweepSection = lazy(() => import('@/features/challenges/components/sweep-section'));
@@ -73,6 +75,7 @@ export function Component() {
           <div className="flex flex-col items-start gap-2 text-sm sm:items-end">
             <span className="num text-ink-soft">v{c.version.version} · {formatDate(c.version.publishedAt)}</span>
             <SubmitEntryButton slug={c.slug} state={c.state} s={c.submissions} />
+            <FollowButton subjectType="challenge" subjectId={c.slug} name={c.title} />
           </div>
         }
       >
@@ -81,6 +84,7 @@ export function Component() {
           <code className="min-w-0 truncate text-ink-faint" title={`sha256:${c.version.checksum}`}>sha256:{c.version.checksum.slice(0, 16)}…</code>
           <CopyButton text={`sha256:${c.version.checksum}`} label="Copy checksum" />
           {c.settings.license && <span className="text-ink-soft">Data licence {c.settings.license}</span>}
+          <ChecksumNote slug={c.slug} version={c.version.version} />
         </p>
         <SubmissionsStatusLine state={c.state} s={c.submissions} receivedAt={q.dataUpdatedAt} />
       </PageHeader>

@@ -41,7 +41,7 @@ describe('row mapping and the form model', () => {
   it('a misspelt method family stays as typed and is reported with the allowed families; it never becomes another family', () => {
     const f = formFromDocument({ track: 'classical', label: 'x', method: { family: 'tensor-netwrok' }, estimates: [{ target: 't1:z0', value: 1, uncertainty: 0, uncertaintyKind: 'syst' }] }, challenge);
     expect(f.family).toBe('tensor-netwrok');
-    expect(documentFromForm(f).method.family).toBe('tensor-netwrok');
+    expect(documentFromForm(f).method?.family).toBe('tensor-netwrok');
     const ps = localProblems(f);
     expect(ps.map((p) => p.path)).toEqual(['/method/family', '/estimates/0/uncertaintyKind']);
     expect(ps[0].message).toContain('"tensor-netwrok" is not a method family; use one of error-mitigated-hardware, tensor-network');
