@@ -278,6 +278,10 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
       <div className="space-y-6">
         <Panel title="Start from a file" description="An entry document (schemas/entry.schema.json). It is checked as it is; small entries can then be edited below.">
           <DropZone onFile={onFile} disabled={busy || frozen}>Up to {EDITABLE_ROWS.toLocaleString('en')} estimates can be edited here; larger files are checked and stored as they are.</DropZone>
+          <p className="mt-2 text-sm">
+            <a href={`/api/challenges/${encodeURIComponent(challenge.slug)}/sample-entry.json?version=${challenge.version.version}&track=${form.track === 'hardware' ? 'hardware' : 'classical'}`} download data-testid="sample-entry">Download a sample file</a>{' '}
+            with every target of version {challenge.version.version} and its checksum, to fill in by script (see the <Link to="/api-reference">API reference</Link>).
+          </p>
           {file && (
             <p className="mt-2 text-sm text-ink-soft" data-testid="file-info">
               {file.file.name} · {kib(file.file.size)}{file.estimates !== null && ` · ${file.estimates} estimates`}
