@@ -10,7 +10,8 @@ import request from 'supertest';
 import { and, count, desc, eq } from 'drizzle-orm';
 import { createRequire } from 'node:module';
 import { agent, lastMailTo, ORIGIN } from './helpers';
-import { fullSweep, makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
+import { CHAIN_SPEC, fullSweep, makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
+import { startWorker } from '../../server/jobs/worker';
 import { auditLog, entries, estimates, mailMessages } from '../../server/db/schema';
 import { reordered } from '../../server/jobs/standings-job';
 import type { StandingsPayload } from '../../server/services/recompute-standings';
@@ -178,6 +179,23 @@ describe('following and the Atom feed', () => {
     const n = await w.t.database.db.select().from(mailMessages).where(and(eq(mailMessages.to, 'fan@s.test'), eq(mailMessages.subject, 'Parallax: new entry on chain-12: team entry'))).orderBy(desc(mailMessages.receivedAt));
     expect(n).toHaveLength(1);
     await settle(w.t, w.worker);
+  });
+
+  it('a follower hears when the exact references of a new challenge are computed', async () => {
+    const reader = await (await import('./helpers')).signUpVerified(w.t, 'refs@s.test');
+    // the worker waits while the challenge is published and followed, so the mail cannot come first
+    await w.worker.stop();
+    const spec = { ...CHAIN_SPEC, id: 'chain-12-followed', title: 'Followed chain' };
+    expect((await w.mod.post('/api/challenges', spec)).status).toBe(201);
+    expect((await w.mod.post('/api/challenges/chain-12-followed/publish', {})).status).toBe(200);
+    expect((await reader.post('/api/follows', { subjectType: 'challenge', subjectId: 'chain-12-followed' })).status).toBe(201);
+    w.worker = await startWorker(w.t.database.db, w.t.ctx.log, { pollMs: 50 });
+    w.t.ctx.jobs.kick = () => w.worker.kick();
+    await settle(w.t, w.worker);
+    const mail = await lastMailTo(w.t, 'refs@s.test');
+    expect(mail.subject).toBe('Parallax: exact references computed for chain-12-followed');
+    expect(mail.text).toMatch(/^\d+ exact reference value\(s\) of chain-12-followed version 1 were computed/);
+    expect(mail.text).toContain('/unfollow/');
   });
 
   it('standings count as rescored when the order of the entries ranked before and after changes, not when one is added', () => {

@@ -50,10 +50,11 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
             <Link to={`/challenges/${e.challenge.slug}`}>{e.challenge.slug}</Link> v{e.challenge.version} · {e.estimates} estimates ({formatPercent(e.coverage.fraction)} of the targets) · updated {formatDateTime(e.updatedAt)}
           </p>
           {e.state === 'returned' && <ReturnedReason entryId={e.id} />}
+          {e.problems && e.problems.length > 0 && <p className="mt-1 text-sm text-danger-ink" data-testid="draft-problems">Saved with {e.problems.length === 1 ? 'one problem' : `${e.problems.length} problems`}: fix {e.problems.length === 1 ? 'it' : 'them'} (Edit) before submitting.</p>}
         </div>
         <div className="flex flex-wrap gap-2">
           {editable && <ButtonLink size="sm" to={editHref}>Edit</ButtonLink>}
-          {editable && <Button size="sm" busy={act.isPending && act.variables?.action === 'submit'} onClick={() => act.mutate({ action: 'submit', entryId: e.id, teamId })}>Submit for review</Button>}
+          {editable && !e.problems?.length && <Button size="sm" busy={act.isPending && act.variables?.action === 'submit'} onClick={() => act.mutate({ action: 'submit', entryId: e.id, teamId })}>Submit for review</Button>}
           {e.state === 'published' && (
             <Button size="sm" variant="secondary" busy={act.isPending && act.variables?.action === 'revise'}
               onClick={() => act.mutate({ action: 'revise', entryId: e.id, teamId }, { onSuccess: (r) => navigate(`/challenges/${e.challenge.slug}/submit?entry=${r.id}`) })}>
