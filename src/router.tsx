@@ -36,6 +36,8 @@ export const router = createBrowserRouter([
           { path: 'my-entries', lazy: () => import('@/routes/my-entries') },
           // the public statement of the scoring rules, linked from every standings table
           { path: 'scoring', lazy: () => import('@/routes/scoring') },
+          { path: 'api-reference', lazy: () => import('@/routes/api-reference') },
+          { path: 'unfollow/:token', lazy: () => import('@/routes/unfollow') },
           { path: 'sign-up', Component: signUp.Component },
           { path: 'sign-in', Component: signIn.Component },
           { path: 'verified', Component: verified.Component },

@@ -7,38 +7,45 @@ import { randomUUID } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
 import { createRng } from '@shared/scoring/prng';
 import type { Db } from './client';
-import { challengeVersions, entries, estimates, organization, references, targets, instances } from './schema';
+import { challengeVersions, entries, estimates, observables, organization, references, targets, instances } from './schema';
 import { runCompute } from '../jobs/run-compute';
 import { registerJobHandler } from '../jobs/worker';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit } from '../services/record-audit';
 
+/**
+ * Truncated propagation settings for the stand-in values where no exact reference exists (tighter
+ * than the house baseline, loose enough that the seed's background work stays short).
+ */
+const STAND_IN = { delta: 2e-3, maxTerms: 10_000 };
+
 type Est = { targetKey: string; value: number; uncertainty: number; kind: string; raw: Record<string, unknown> | null };
 
-const clamp = (x: number) => Math.max(-1, Math.min(1, x));
+/** an estimate stays within the observable's physical bound (the sum of |coef|) */
+const clampTo = (x: number, bound: number) => Math.max(-bound, Math.min(bound, x));
 const round = (x: number, d = 5) => Math.round(x * 10 ** d) / 10 ** d;
 
 async function truths(db: Db, versionId: string, spec: unknown) {
-  const rows = await db.select({ key: targets.key, value: references.value, steps: instances.params })
-    .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).leftJoin(references, eq(references.targetId, targets.id))
+  const rows = await db.select({ key: targets.key, value: references.value, steps: instances.params, bound: observables.bound })
+    .from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId)).leftJoin(references, eq(references.targetId, targets.id))
     .where(eq(targets.versionId, versionId)).orderBy(targets.key);
   const missing = rows.filter((r) => r.value === null || r.value === undefined).map((r) => r.key);
   const standIn = new Map<string, number>();
   if (missing.length) {
-    await runCompute({ mode: 'baseline', spec, targetIds: missing, baseline: { delta: 5e-4, maxTerms: 100_000 } }, (m) => {
+    await runCompute({ mode: 'baseline', spec, targetIds: missing, baseline: STAND_IN }, (m) => {
       if (m.type === 'baseline') standIn.set(m.targetId, m.value);
     });
   }
-  return rows.map((r) => ({ key: r.key, steps: (r.steps as { steps?: number }).steps ?? 1, truth: r.value ?? standIn.get(r.key) ?? 0, exact: r.value !== null && r.value !== undefined }));
+  return rows.map((r) => ({ key: r.key, steps: (r.steps as { steps?: number }).steps ?? 1, bound: r.bound, truth: r.value ?? standIn.get(r.key) ?? 0, exact: r.value !== null && r.value !== undefined }));
 }
 
 function hardware(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[] {
   const rng = createRng(seed);
-  const scales = [1, 1.5, 2, 3];
+  const scales = [1, 2, 3];
   return ts.map((t) => {
-    const gamma = 0.035 * t.steps; // invented decay per unit noise scale
-    const shotsSigma = 0.012;
-    const noisy = scales.map((c) => ({ scale: c, value: round(t.truth * Math.exp(-gamma * c) + shotsSigma * rng.normal()), uncertainty: shotsSigma, shots: 4096 }));
+    const gamma = 0.028 * t.steps; // invented decay per unit noise scale
+    const shotsSigma = 0.01;
+    const noisy = scales.map((c) => ({ scale: c, value: round(t.truth * Math.exp(-gamma * c) + shotsSigma * rng.normal()), uncertainty: shotsSigma, shots: 8192 }));
     // the invented team extrapolates with a weighted linear fit in c (its stated model)
     const w = noisy.map(() => 1 / shotsSigma ** 2);
     const sw = w.reduce((a, b) => a + b, 0);
@@ -48,26 +55,29 @@ function hardware(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[] {
     const slope = noisy.reduce((a, p, i) => a + w[i] * (p.scale - mx) * (p.value - my), 0) / sxx;
     const e0 = my - slope * mx;
     const u0 = Math.sqrt(1 / sw + (mx * mx) / sxx);
-    return { targetKey: t.key, value: round(clamp(e0)), uncertainty: round(u0, 6), kind: 'statistical', raw: { unmitigated: noisy[0].value, noiseScaled: noisy } };
+    return { targetKey: t.key, value: round(clampTo(e0, t.bound)), uncertainty: round(u0, 6), kind: 'statistical', raw: { unmitigated: noisy[0].value, noiseScaled: noisy } };
   });
 }
 
-function tensorNetwork(ts: Awaited<ReturnType<typeof truths>>, seed: number, chiMax: number): Est[] {
+function snakeMps(ts: Awaited<ReturnType<typeof truths>>, seed: number, chiMax: number, twoD: boolean): Est[] {
   const rng = createRng(seed);
   return ts.map((t) => {
-    const err = 0.002 * Math.exp(t.steps / 5) * (128 / chiMax); // invented: grows with depth, shrinks with bond dimension
-    const chis = [16, 32, 64, chiMax];
-    const trace = chis.map((chi) => ({ parameter: chi, value: round(t.truth + err * (chiMax / chi) * (0.5 + rng.uniform())), cost: round(0.02 * (chi / 16) ** 3, 4) }));
+    // invented: the truncation error grows with depth (much faster on a 2D lattice in a snake ordering) and shrinks with chi
+    const err = 0.0015 * Math.exp(t.steps / (twoD ? 3.5 : 6)) * (256 / chiMax);
+    const chis = [32, 64, 128, chiMax];
+    const trace = chis.map((chi) => ({ parameter: chi, value: round(t.truth + Math.min(0.5, err * (chiMax / chi)) * (0.5 + rng.uniform())), cost: round(0.01 * (chi / 32) ** 3, 4) }));
     const final = trace[trace.length - 1].value;
-    return { targetKey: t.key, value: round(clamp(final)), uncertainty: round(Math.abs(final - trace[trace.length - 2].value) + 1e-4, 6), kind: 'systematic', raw: { convergence: trace } };
+    return { targetKey: t.key, value: round(clampTo(final, t.bound)), uncertainty: round(Math.abs(final - trace[trace.length - 2].value) + 1e-4, 6), kind: 'systematic', raw: { convergence: trace } };
   });
 }
 
-function propagation(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[] {
+function neuralState(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[] {
   const rng = createRng(seed);
   return ts.map((t) => {
-    const bound = 1e-4 * 2 ** Math.min(t.steps, 12) / 8; // invented truncation weight
-    return { targetKey: t.key, value: round(clamp(t.truth + bound * 0.4 * rng.normal()), 6), uncertainty: round(bound, 7), kind: 'bound', raw: null };
+    // invented: Monte Carlo sampling noise plus a variational bias that grows with the number of time steps
+    const sampling = 0.004 * t.bound;
+    const bias = 0.002 * t.steps * t.bound * (rng.uniform() - 0.3);
+    return { targetKey: t.key, value: round(clampTo(t.truth + bias + sampling * rng.normal(), t.bound), 6), uncertainty: round(sampling * Math.sqrt(1 + t.steps / 4), 7), kind: 'statistical', raw: null };
   });
 }
 
@@ -80,10 +90,10 @@ async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry
     const id = randomUUID();
     await tx.insert(entries).values({
       id, lineageId: id, challengeSlug: slug, versionId, teamId: team.id, state: e.state, track: e.track, methodFamily: e.family, label: e.label,
-      document: { ...e.document, demo: 'invented demo data' }, submittedAt: at, publishedAt: e.state === 'published' ? at : null, createdAt: at,
+      document: { ...e.document, demo: 'invented demo data' }, submittedAt: at, publishedAt: e.state === 'published' ? at : null, createdAt: at, updatedAt: at,
     });
     for (let i = 0; i < e.estimates.length; i += 1000) await tx.insert(estimates).values(e.estimates.slice(i, i + 1000).map((x) => ({ ...x, entryId: id })));
-    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: e.state === 'published' ? 'entry.publish' : 'entry.submit', subjectType: 'entry', subjectId: id, details: { demo: true } });
+    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: e.state === 'published' ? 'entry.publish' : 'entry.submit', subjectType: 'entry', subjectId: id, at, details: { demo: true } });
   });
 }
 
@@ -96,27 +106,28 @@ registerJobHandler('demo-entries', async (job, w) => {
   await w.progress(0.1, 'computing stand-in values for targets without exact references');
   const ts = await truths(w.db, versionId, v.spec);
   const seed = [...v.challengeSlug].reduce((a, ch) => a * 31 + ch.charCodeAt(0), 7) >>> 0;
-  // the entries arrive after the challenge was published (not weeks before it): spread between
-  // its publication and now, in list order
-  const now = Date.now();
-  const published = v.publishedAt?.getTime() ?? now;
-  const at = (k: number) => new Date(published + ((Math.max(now, published) - published) * (k + 1)) / (list.length + 1));
+  const day = 86400_000;
+  // the entries follow the challenge's opening (the version's publication), a few days apart
+  const opened = (v.publishedAt ?? new Date()).getTime();
+  const spec = v.spec as { lattice: { kind: string; n?: number; rows?: number; cols?: number } };
+  const qubits = spec.lattice.n ?? (spec.lattice.rows ?? 1) * (spec.lattice.cols ?? 1);
+  const twoD = v.challengeSlug.includes('square');
   const list: DemoEntry[] = [
-    { team: 'cobalt-qubit-lab', state: 'published', track: 'hardware', family: 'error-mitigated-hardware', label: 'Juniper-156, ZNE (linear, 4 scales)',
-      document: { method: { family: 'error-mitigated-hardware', settings: { noiseScaleFactors: [1, 1.5, 2, 3], extrapolation: 'weighted linear', amplification: 'gate folding', shots: 4096, twirls: 32 } }, resources: { qpuSeconds: 5400, qubitsUsed: 68, device: 'Juniper-156 (fictional)', hardware: 'fictional superconducting device' }, license: 'CC-BY-4.0' },
+    { team: 'cobalt-qubit-lab', state: 'published', track: 'hardware', family: 'error-mitigated-hardware', label: 'Marram array, ZNE (linear, 3 scales)',
+      document: { method: { family: 'error-mitigated-hardware', settings: { noiseScaleFactors: [1, 2, 3], extrapolation: 'weighted linear', amplification: 'pulse stretching', shots: 8192, twirls: 24 } }, resources: { qpuSeconds: 3600 + 40 * qubits, qubitsUsed: qubits, device: 'Marram (fictional superconducting array)', hardware: 'fictional superconducting array' }, license: 'CC-BY-4.0' },
       estimates: hardware(ts, seed + 1) },
-    { team: 'lattice-ledger', state: 'published', track: 'classical', family: 'tensor-network', label: 'BP-gauged PEPS, chi = 128',
-      document: { method: { family: 'tensor-network', settings: { bondDimension: 128, gauge: 'belief propagation', contraction: 'boundary MPS' } }, resources: { cpuCoreHours: 310, memoryGiB: 96, wallTimeSeconds: 14400, software: [{ name: 'ledger-tn', version: '2.3' }] }, links: { code: 'https://example.org/lattice-ledger/code' }, license: 'CC-BY-4.0' },
-      estimates: tensorNetwork(ts, seed + 2, 128) },
-    { team: 'heisenberg-sprint', state: 'published', track: 'classical', family: 'pauli-propagation', label: 'Sparse Pauli dynamics, delta = 1e-5',
-      document: { method: { family: 'pauli-propagation', settings: { coefficientThreshold: 1e-5, maxWeight: 12 } }, resources: { cpuCoreHours: 42, memoryGiB: 48, wallTimeSeconds: 3000, software: [{ name: 'sprint-pauli', version: '0.9' }] }, license: 'CC-BY-4.0' },
-      estimates: propagation(ts, seed + 3) },
-    { team: 'lattice-ledger', state: 'in-review', track: 'classical', family: 'tensor-network', label: 'BP-gauged PEPS, chi = 256',
-      document: { method: { family: 'tensor-network', settings: { bondDimension: 256, gauge: 'belief propagation' } }, resources: { cpuCoreHours: 2400, memoryGiB: 380 }, license: 'CC-BY-4.0' },
-      estimates: tensorNetwork(ts, seed + 4, 256).filter((_, i) => i % 3 !== 2) },
+    { team: 'lattice-ledger', state: 'published', track: 'classical', family: 'tensor-network', label: 'Snake-ordered MPS + TEBD, chi = 256',
+      document: { method: { family: 'tensor-network', settings: { bondDimension: 256, ordering: 'snake', evolution: 'TEBD', truncation: 'singular values below 1e-10' } }, resources: { cpuCoreHours: 180, memoryGiB: 64, wallTimeSeconds: 9000, software: [{ name: 'ledger-mps', version: '1.4' }] }, links: { code: 'https://example.org/lattice-ledger/code' }, license: 'CC-BY-4.0' },
+      estimates: snakeMps(ts, seed + 2, 256, twoD) },
+    { team: 'heisenberg-sprint', state: 'published', track: 'classical', family: 'neural-quantum-state', label: 'Convolutional NQS, 6 layers, 4096 samples',
+      document: { method: { family: 'neural-quantum-state', settings: { architecture: 'convolutional', layers: 6, samples: 4096, integrator: 'variational, second order' } }, resources: { gpuHours: 36, memoryGiB: 40, wallTimeSeconds: 5400, software: [{ name: 'sprint-nqs', version: '0.7' }] }, license: 'CC-BY-4.0' },
+      estimates: neuralState(ts, seed + 3) },
+    { team: 'lattice-ledger', state: 'in-review', track: 'classical', family: 'tensor-network', label: 'Snake-ordered MPS + TEBD, chi = 1024',
+      document: { method: { family: 'tensor-network', settings: { bondDimension: 1024, ordering: 'snake', evolution: 'TEBD' } }, resources: { cpuCoreHours: 2100, memoryGiB: 310 }, license: 'CC-BY-4.0' },
+      estimates: snakeMps(ts, seed + 4, 1024, twoD).filter((_, i) => i % 3 !== 2) },
   ];
   let n = 0;
-  for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, at(n++));
+  for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(opened + (2 + 3 * n++) * day));
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
   return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length };
 });

@@ -223,7 +223,17 @@ export const entries = pgTable('entries', {
   updatedAt: ts('updated_at').notNull().defaultNow(),
   submittedAt: ts('submitted_at'),
   publishedAt: ts('published_at'),
-}, (t) => [index('entries_challenge_idx').on(t.challengeSlug, t.state), index('entries_team_idx').on(t.teamId)]);
+  /**
+   * A draft saved with problems (POST/PUT ?incomplete=1): the problems the validation found, and
+   * the document as sent in `document` (estimates included, none in the estimates table). Null
+   * for a valid entry. A draft with problems cannot be submitted.
+   */
+  problems: jsonb('problems'),
+  /** the Idempotency-Key header of the request that created it (unique per team) */
+  idempotencyKey: text('idempotency_key'),
+  /** SHA-256 of the request body sent with that key: the same key with another body is refused */
+  idempotencyHash: text('idempotency_hash'),
+}, (t) => [index('entries_challenge_idx').on(t.challengeSlug, t.state), index('entries_team_idx').on(t.teamId), uniqueIndex('entries_idempotency_uq').on(t.teamId, t.idempotencyKey)]);
 
 export const estimates = pgTable('estimates', {
   id: bigserial('id', { mode: 'number' }).primaryKey(),
@@ -365,3 +375,19 @@ export const mailQuota = pgTable('mail_quota', {
   recipient: text('recipient').notNull(),
   at: ts('at').notNull(),
 }, (t) => [index('mail_quota_sender_idx').on(t.kind, t.senderId, t.at), index('mail_quota_recipient_idx').on(t.kind, t.recipient, t.at)]);
+
+// ---------------------------------------------------------------- follows
+/**
+ * A signed-in user following a challenge (subject_id = slug) or a team (subject_id = team id):
+ * e-mail when an entry is published, a reference is revealed or computed, or the standings are
+ * rescored. The token signs the one-click unfollow link in every message.
+ */
+export const follows = pgTable('follows', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  userId: text('user_id').notNull().references(() => user.id, { onDelete: 'cascade' }),
+  /** challenge | team */
+  subjectType: text('subject_type').notNull(),
+  subjectId: text('subject_id').notNull(),
+  token: text('token').notNull().unique(),
+  createdAt: created(),
+}, (t) => [uniqueIndex('follows_user_subject_uq').on(t.userId, t.subjectType, t.subjectId), index('follows_subject_idx').on(t.subjectType, t.subjectId)]);

@@ -7,7 +7,8 @@ import { randomUUID } from 'node:crypto';
 import { count, eq, inArray } from 'drizzle-orm';
 import type { AppContext } from '../context';
 import { member, organization, user } from './schema';
-import { DEMO_SPECS } from './demo-challenges';
+import { DEMO_REFERENCE_BUDGET, DEMO_SPECS } from './demo-challenges';
+import { challenges } from './schema';
 import { createChallengeVersion } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { enqueueJob } from '../jobs/queue';
@@ -15,13 +16,15 @@ import './demo-entries';
 import { recordAudit } from '../services/record-audit';
 
 export const DEMO_PASSWORD = 'parallax-demo-2026';
+/** how many days before the seed the first demo challenge opened */
+export const DEMO_OPENED_DAYS_AGO = 28;
 
 export interface DemoAccount { email: string; name: string; role: 'admin' | 'moderator' | 'lead' | 'member'; team?: string }
 
 export const DEMO_TEAMS = [
-  { slug: 'cobalt-qubit-lab', name: 'Cobalt Qubit Lab', track: 'hardware', description: 'An invented hardware group running error-mitigated kicked-Ising circuits on a fictional 156-qubit device.' },
-  { slug: 'lattice-ledger', name: 'Lattice Ledger', track: 'classical', description: 'An invented tensor-network group (belief-propagation-gauged PEPS and MPS).' },
-  { slug: 'heisenberg-sprint', name: 'Heisenberg Sprint', track: 'classical', description: 'An invented Pauli-propagation group with a sparse-string engine.' },
+  { slug: 'cobalt-qubit-lab', name: 'Cobalt Qubit Lab', track: 'hardware', description: 'An invented hardware group running error-mitigated circuits on Marram, a fictional superconducting array.' },
+  { slug: 'lattice-ledger', name: 'Lattice Ledger', track: 'classical', description: 'An invented tensor-network group (matrix product states in a snake ordering, TEBD).' },
+  { slug: 'heisenberg-sprint', name: 'Heisenberg Sprint', track: 'classical', description: 'An invented group simulating the circuits with neural quantum states (convolutional networks, variational time steps).' },
 ] as const;
 
 export const DEMO_ACCOUNTS: DemoAccount[] = [
@@ -60,9 +63,17 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
     await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: 'demo.seed', subjectType: 'site', subjectId: 'demo', details: { teams: DEMO_TEAMS.length, accounts: DEMO_ACCOUNTS.length } });
   });
   const seedActor = { kind: 'system' as const, label: 'seed' };
-  for (const spec of DEMO_SPECS) {
-    await createChallengeVersion(db, spec, seedActor, ctx.now());
-    const pub = await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: ctx.now() });
+  // the demo challenges opened four weeks ago (a week apart); their invented entries follow
+  // (demo-entries.ts), so every date of the scenario lies between the opening and today
+  const opened = (i: number) => new Date(ctx.now().getTime() - (DEMO_OPENED_DAYS_AGO - 7 * i) * 86400_000);
+  for (const [i, spec] of DEMO_SPECS.entries()) {
+    await createChallengeVersion(db, spec, seedActor, opened(i));
+    const budget = DEMO_REFERENCE_BUDGET[spec.id];
+    if (budget) {
+      const [c] = await db.select({ settings: challenges.settings }).from(challenges).where(eq(challenges.slug, spec.id));
+      await db.update(challenges).set({ settings: { ...(c.settings as object), referenceSecondsBudget: budget } }).where(eq(challenges.slug, spec.id));
+    }
+    const pub = await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: opened(i) });
     // queued after the reference job, so the invented entries are made from computed references
     await enqueueJob(db, 'demo-entries', { versionId: pub.versionId }, `demo-entries:${pub.versionId}`);
   }

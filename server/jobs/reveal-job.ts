@@ -19,6 +19,7 @@ import { sendAll, teamEmails } from '../services/decide-entry';
 import { standingsCache } from '../services/standings-cache';
 import { enqueueJob } from './queue';
 import { registerJobHandler } from './worker';
+import { challengeLink, notifyFollowers } from '../services/notify-followers';
 
 export const REVEAL_POLL_MS = 10_000;
 const contexts = new WeakMap<Db, AppContext>();
@@ -70,6 +71,8 @@ registerJobHandler('reveal', async (job, w) => {
   } else {
     w.log.warn('reveal.no-mailer', { sealId: out.sealId });
   }
+  await notifyFollowers(w.db, { slug: out.slug!, event: 'references.revealed', subject: `Parallax: reference values of ${out.slug} revealed`,
+    lines: [`The sealed reference values of ${out.slug} (${out.targets} target(s)) became public at ${now.toISOString()}; the standings were rescored with them.`, '', `The standings: ${challengeLink(w.db, out.slug!)}`] });
   w.log.info('references.unseal', { sealId: out.sealId, challenge: out.slug, targets: out.targets, commitments: out.commitments?.length ?? 0, mailed });
   return { ...out, mailed };
 });

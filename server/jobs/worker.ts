@@ -7,11 +7,12 @@ import { randomUUID } from 'node:crypto';
 import { and, eq, isNull, sql } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db } from '../db/client';
-import { challengeVersions, entries, estimates, references, targets } from '../db/schema';
+import { challengeVersions, challenges, entries, estimates, references, targets } from '../db/schema';
 import type { Logger } from '../log';
 import { claimJob, enqueueJob, failJob, PublicJobError, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind, type JobRow } from './queue';
 import { runCompute } from './run-compute';
 import { recordAudit } from '../services/record-audit';
+import { challengeLink, notifyFollowers } from '../services/notify-followers';
 
 /**
  * The house team. Its row is created by the schema (migration 0005 inserts it), never by a job, so no
@@ -40,6 +41,17 @@ async function versionSpec(db: Db, versionId: string) {
   return v;
 }
 
+/**
+ * The planner budget for a challenge: the server's, lowered by the challenge's own cap
+ * (settings.referenceSecondsBudget, seconds per target) when it has one.
+ */
+async function plannerFor(w: WorkerContext, slug: string): Promise<PlannerBudget | undefined> {
+  const [c] = await w.db.select({ settings: challenges.settings }).from(challenges).where(eq(challenges.slug, slug));
+  const cap = (c?.settings as { referenceSecondsBudget?: unknown } | undefined)?.referenceSecondsBudget;
+  if (typeof cap !== 'number' || !(cap > 0)) return w.planner;
+  return { secondsBudget: Math.min(cap, w.planner?.secondsBudget ?? Infinity), coneQubitLimit: w.planner?.coneQubitLimit ?? 26 };
+}
+
 async function referencesJob(job: JobRow, w: WorkerContext) {
   const versionId = String(job.payload && (job.payload as { versionId: string }).versionId);
   const v = await versionSpec(w.db, versionId);
@@ -51,7 +63,8 @@ async function referencesJob(job: JobRow, w: WorkerContext) {
   let stored = 0;
   let exact = 0;
   await w.progress(already / Math.max(1, all.length), `${already} of ${all.length} targets done`);
-  await runCompute({ mode: 'references', spec: v.spec, targetIds: todo, planner: w.planner }, async (m) => {
+  const planner = await plannerFor(w, v.challengeSlug);
+  await runCompute({ mode: 'references', spec: v.spec, targetIds: todo, planner }, async (m) => {
     if (m.type === 'progress') await w.progress((already + m.done) / Math.max(1, all.length), m.note);
     if (m.type !== 'reference') return;
     const r = m.result;
@@ -65,6 +78,10 @@ async function referencesJob(job: JobRow, w: WorkerContext) {
   });
   await enqueueJob(w.db, 'baseline', { versionId }, `baseline:${versionId}`);
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
+  if (exact) {
+    await notifyFollowers(w.db, { slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
+      lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${all.length - already - exact} target(s) have none and are scored against the consensus.`, '', `The challenge: ${challengeLink(w.db, v.challengeSlug)}`] });
+  }
   return { targets: all.length, computed: stored, exact, engine: ENGINE_VERSION };
 }
 

@@ -49,6 +49,8 @@ export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[],
 
 /** The document as stored, without the estimates the caller may not see (`sealed`: from visibleReferences). */
 export async function entryDocument(db: Db, e: EntryRow, sealed: ReadonlySet<string> = new Set()): Promise<EntryDocument & { withheld: number }> {
+  // a draft saved with problems keeps its document as sent, estimates included (no baseline is ever a draft)
+  if (e.problems) return { ...(e.document as EntryDocument), withheld: 0 };
   const rows = await db.select({ t: estimates.targetKey, v: estimates.value, u: estimates.uncertainty, k: estimates.kind, raw: estimates.raw })
     .from(estimates).where(eq(estimates.entryId, e.id)).orderBy(asc(estimates.id));
   const shown = rows.filter((r) => !isEstimateWithheld({ isBaseline: e.isBaseline, target: r.t }, sealed));
@@ -98,7 +100,9 @@ export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boole
     document: doc ? document as EntryDocument : undefined,
     /** house-baseline estimates of sealed targets left out of the document until the reveal */
     withheld: doc && withheld ? { estimates: withheld, reason: 'the house baseline is exact here: its estimates of sealed targets are as sealed as the references until their date', until: refs!.rows.filter((r) => refs!.sealed.has(r.key)).map((r) => r.sealedUntil!).sort((a, b) => b.getTime() - a.getTime())[0]?.toISOString() ?? null } : null,
-    scores: doc && refs ? await estimateScores(db, e, doc.estimates, refs) : undefined,
+    /** a draft saved with problems: what must be fixed before it can be submitted */
+    problems: opts.privileged && Array.isArray(e.problems) ? (e.problems as { path: string; message: string }[]) : undefined,
+    scores: doc && refs && !e.problems ? await estimateScores(db, e, doc.estimates, refs) : undefined,
     // the rules the scores above follow (shared/scoring/rules.ts; /scoring states them)
     scoringRulesVersion: doc ? SCORING_RULES_VERSION : undefined,
   };

@@ -10,19 +10,22 @@
  * duplicate keys, integers beyond 2^53, deep nesting and NUL characters, which JSON.parse would
  * hide, and the checks run without holding the event loop.
  */
+import { createHash } from 'node:crypto';
 import { type Request, type Response } from 'express';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
 import { entries, member, organization } from '../db/schema';
-import { AppError, badRequest, forbidden, notFound } from '../errors';
+import { AppError, badRequest, forbidden, notFound, type FieldProblem } from '../errors';
 import { entrySummary, presentEntry } from '../presenters/entry';
 import { entryListContext, isPublicEntry, versionEntries } from '../queries/entries';
 import { isModeratorActor, loadChallengeVersion } from '../queries/challenge-version';
 import { viewerOf } from '../queries/visibility';
 import { validateEntryDocument, previewScores, MAX_ESTIMATES, MAX_DEPTH } from '../services/validate-entry';
-import { createEntry } from '../services/create-entry';
-import { updateEntry } from '../services/update-entry';
+import { createEntry, createIncompleteEntry, type Idempotency } from '../services/create-entry';
+import { updateEntry, updateIncompleteEntry } from '../services/update-entry';
+import { deleteDraft } from '../services/delete-entry';
+import { parseStrictJson } from '../util/strict-json';
 import { submitEntry } from '../services/submit-entry';
 import { withdrawEntry } from '../services/withdraw-entry';
 import { reviseEntry } from '../services/revise-entry';
@@ -30,6 +33,22 @@ import { parseBody } from '../validate';
 import { documentBody as readDocumentBody } from '../util/document-body';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
+import { teamTrack as teamTrackOf } from '../util/team-meta';
+
+/** A draft with problems is stored only up to this size (its parse runs on the event loop: ~1 MiB is a few ms). */
+export const INCOMPLETE_DRAFT_MAX_BYTES = 1024 * 1024;
+
+/**
+ * The Idempotency-Key header of an entry creation (1 to 200 visible ASCII characters, e.g. a UUID)
+ * with the SHA-256 of the body, or null when none is sent.
+ */
+export function idempotencyOf(req: Request, body: Uint8Array): Idempotency | null {
+  const raw = req.get('idempotency-key');
+  if (raw === undefined) return null;
+  const key = raw.trim();
+  if (!/^[\x21-\x7e]{1,200}$/.test(key)) throw badRequest('The Idempotency-Key header must be 1 to 200 visible ASCII characters without spaces, e.g. a UUID from uuid.uuid4().', [{ path: '', message: 'Idempotency-Key header malformed' }]);
+  return { key, hash: createHash('sha256').update(body).digest('hex') };
+}
 
 const withdrawBody = z.object({ reason: z.string().trim().min(1, 'say why the entry is withdrawn (it stays visible with the reason)').max(2000) }).strict();
 const mib = (b: number) => `${(b / 1024 / 1024).toFixed(b % (1024 * 1024) ? 1 : 0)} MiB`;
@@ -64,18 +83,76 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
 
   const { loadEntry, entryTeam, privileged } = entryAccess(db);
 
+  /** the team's kind (hardware or classical) from its metadata; classical when unstated */
+  const teamTrack = async (teamId: string): Promise<string> => {
+    const [o] = await db.select({ metadata: organization.metadata }).from(organization).where(eq(organization.id, teamId));
+    return teamTrackOf(o?.metadata ?? null);
+  };
+
+  /** ?incomplete=1: a draft is stored even when the document has problems (it cannot be submitted then) */
+  const incompleteWanted = (req: Request) => req.query.incomplete === '1' || req.query.incomplete === 'true';
+
+  /**
+   * The document of a request that failed validation, when it is saved as an incomplete draft: the
+   * strictly parsed value (a body that is not JSON, or too deep, cannot be stored) and its problems.
+   */
+  const incompleteOf = (bytes: Uint8Array, err: unknown): { raw: unknown; problems: FieldProblem[] } | null => {
+    if (!(err instanceof AppError) || err.code !== 'validation_failed') return null;
+    // parsed here, on the event loop: only documents small enough to parse in a few milliseconds
+    // (a larger one with problems must be fixed before it is stored)
+    if (bytes.byteLength > INCOMPLETE_DRAFT_MAX_BYTES) return null;
+    const parsed = parseStrictJson(bytes, { maxDepth: MAX_DEPTH, maxProblems: 1 });
+    if (!parsed.ok || !parsed.value || typeof parsed.value !== 'object' || Array.isArray(parsed.value)) return null;
+    return { raw: parsed.value, problems: err.problems };
+  };
+
   routes.add({
     method: 'post', path: '/challenges/:slug/entries', access: 'team-member', apiKey: true, team: postingTeam,
-    summary: 'Create a draft entry from a document (schemas/entry.schema.json) as the JSON body or multipart field "file"; ?team=<teamId> when you are in several teams',
+    summary: 'Create a draft entry from a document (schemas/entry.schema.json) as the JSON body or multipart field "file"; ?team=<teamId> when you are in several teams. Idempotency-Key header: a retry with the same key and body returns the same entry (200), the same key with another body is refused (409). ?incomplete=1 stores a document with problems as a draft that cannot be submitted until fixed',
     body: documentBody,
     handler: async (req, res) => {
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(res), { slug: String(req.params.slug), now, purpose: 'create', threads: ctx.threads });
-      const doc = check.document;
+      const bytes = documentText(res);
       const teamId = (await postingTeam(req))!;
-      const out = await createEntry(db, { check, teamId, actor: req.actor, now });
-      res.status(201);
-      return { ...out, challenge: { slug: check.version.slug, version: check.version.version }, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings, next: `POST /api/entries/${out.id}/submit sends it to review` };
+      const idem = idempotencyOf(req, bytes);
+      const replay = async () => {
+        if (!idem) return null;
+        const [prior] = await db.select({ id: entries.id, state: entries.state, hash: entries.idempotencyHash, slug: entries.challengeSlug }).from(entries)
+          .where(and(eq(entries.teamId, teamId), eq(entries.idempotencyKey, idem.key)));
+        if (!prior) return null;
+        if (prior.hash !== idem.hash) {
+          throw new AppError('conflict', `The Idempotency-Key header "${idem.key}" was already used by this team for another request body (entry ${prior.id}): send a new key for a new entry, or the same body to get that entry back.`, [{ path: '', message: 'Idempotency-Key reused with a different body' }]);
+        }
+        res.status(200);
+        return { id: prior.id, state: prior.state, replayed: true, challenge: { slug: prior.slug }, next: `GET /api/entries/${prior.id}` };
+      };
+      const first = await replay();
+      if (first) return first;
+      try {
+        let out: { id: string; state: 'draft' };
+        let extra: Record<string, unknown>;
+        try {
+          const check = await validateEntryDocument(db, bytes, { slug: String(req.params.slug), now, purpose: 'create', threads: ctx.threads });
+          out = await createEntry(db, { check, teamId, actor: req.actor, now, idempotency: idem });
+          extra = { challenge: { slug: check.version.slug, version: check.version.version }, estimates: check.document.estimates.length, coverage: check.coverage, warnings: check.warnings, next: `POST /api/entries/${out.id}/submit sends it to review` };
+        } catch (err) {
+          const inc = incompleteWanted(req) ? incompleteOf(bytes, err) : null;
+          if (!inc) throw err;
+          const { version: v } = await loadChallengeVersion(db, req);
+          if (v.state !== 'published') throw err;
+          out = await createIncompleteEntry(db, { slug: v.challengeSlug, versionId: v.id, raw: inc.raw, problems: inc.problems, teamId, teamTrack: await teamTrack(teamId), actor: req.actor, now, idempotency: idem });
+          extra = { challenge: { slug: v.challengeSlug, version: v.version }, incomplete: true, problems: inc.problems, next: `PUT /api/entries/${out.id} with a valid document; a draft with problems cannot be submitted` };
+        }
+        res.status(201);
+        return { ...out, ...extra };
+      } catch (err) {
+        // two retries with one key at once: the unique index lets one through; the other returns it
+        if (idem && /entries_idempotency_uq|duplicate key/.test(String((err as Error).message) + String((err as { cause?: Error }).cause?.message ?? ''))) {
+          const again = await replay();
+          if (again) return again;
+        }
+        throw err;
+      }
     },
   });
 
@@ -110,15 +187,31 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
 
   routes.add({
     method: 'put', path: '/entries/:entryId', access: 'team-member', apiKey: true, team: entryTeam,
-    summary: "Replace a draft's (or returned entry's) whole document; submitted and published entries are frozen",
+    summary: "Replace a draft's (or returned entry's) whole document; submitted and published entries are frozen. ?incomplete=1 saves a draft with problems (not submittable)",
     body: documentBody,
     handler: async (req, res) => {
       const e = await loadEntry(req);
       const now = ctx.now();
-      const check = await validateEntryDocument(db, documentText(res), { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state }, threads: ctx.threads });
-      const doc = check.document;
-      const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now });
-      return { ...out, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings };
+      const bytes = documentText(res);
+      try {
+        const check = await validateEntryDocument(db, bytes, { slug: e.challengeSlug, now, purpose: 'update', entry: { track: e.track, state: e.state }, threads: ctx.threads });
+        const out = await updateEntry(db, { entryId: e.id, check, actor: req.actor, now });
+        return { ...out, estimates: check.document.estimates.length, coverage: check.coverage, warnings: check.warnings };
+      } catch (err) {
+        const inc = incompleteWanted(req) ? incompleteOf(bytes, err) : null;
+        if (!inc) throw err;
+        const out = await updateIncompleteEntry(db, { entryId: e.id, raw: inc.raw, problems: inc.problems, actor: req.actor, now });
+        return { ...out, incomplete: true, problems: inc.problems };
+      }
+    },
+  });
+
+  routes.add({
+    method: 'delete', path: '/entries/:entryId', access: 'team-member', apiKey: true, team: entryTeam,
+    summary: 'Delete a draft (never submitted) with its estimates; an audit line records it. Submitted entries are withdrawn instead',
+    handler: async (req) => {
+      const e = await loadEntry(req);
+      return deleteDraft(db, { entryId: e.id, actor: req.actor, now: ctx.now() });
     },
   });
 

@@ -14,6 +14,8 @@ import '../jobs/standings-job';
 import { startRevealClock } from '../jobs/reveal-job';
 import { registerModerationRoutes } from './moderation';
 import { registerAuditRoutes } from './audit';
+import { registerScriptRoutes } from './scripts';
+import { registerFollowRoutes } from './follows';
 
 export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerHealthRoutes(routes, ctx);
@@ -28,5 +30,7 @@ export function registerAllRoutes(routes: RouteTable, ctx: AppContext): void {
   registerExportRoutes(routes, ctx);
   registerModerationRoutes(routes, ctx);
   registerAuditRoutes(routes, ctx);
+  registerScriptRoutes(routes, ctx);
+  registerFollowRoutes(routes, ctx);
   startRevealClock(ctx);
 }

@@ -24,6 +24,7 @@ import { parseBody } from '../validate';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
+import { notifyFollowers } from '../services/notify-followers';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
@@ -79,6 +80,11 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
       ctx.log.info('moderation.decision', { entry: out.entryId, decision: out.decision, from: out.fromState, to: out.state, actor: actorId(req), at: out.decidedAt.toISOString() });
       if (out.jobIds.length) ctx.jobs.kick();
       const mailed = await notifyDecision(db, ctx.mailer, ctx.log, ctx.config.baseUrl, out, body.reason, moderatorName(req));
+      if (out.decision === 'publish') {
+        const base = ctx.config.baseUrl.replace(/\/$/, '');
+        await notifyFollowers(db, { slug: out.challengeSlug, teamId: out.teamId, event: 'entry.published', subject: `Parallax: new entry on ${out.challengeSlug}: ${out.label.slice(0, 120)}`,
+          lines: [`The entry "${out.label}" was published on the challenge ${out.challengeSlug} at ${out.decidedAt.toISOString()}.`, '', `The entry: ${base}/entries/${out.entryId}`, `The standings (recomputed shortly): ${base}/challenges/${out.challengeSlug}`] });
+      }
       return { id: out.entryId, decision: out.decision, state: out.state, reviewId: out.reviewId, decidedAt: out.decidedAt, superseded: out.superseded, jobIds: out.jobIds, mailed };
     },
   });

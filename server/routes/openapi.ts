@@ -34,7 +34,13 @@ export function buildOpenApi(defs: readonly RouteDef[], baseUrl: string) {
   const paths: Record<string, Record<string, unknown>> = {};
   for (const d of defs) {
     const p = '/api' + d.path.replace(/:([A-Za-z0-9_]+)/g, '{$1}');
-    const params = [...d.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
+    const params: Record<string, unknown>[] = [...d.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
+    if (d.method === 'post' && d.path === '/challenges/:slug/entries') {
+      params.push({ name: 'Idempotency-Key', in: 'header', required: false, schema: { type: 'string', maxLength: 200 }, description: 'A retry with the same key and body returns the entry already stored (200); the same key with another body is refused (409)' });
+    }
+    if (bodyRef(d) === 'Entry' && d.path !== '/entries/validate') {
+      params.push({ name: 'incomplete', in: 'query', required: false, schema: { enum: ['1'] }, description: 'Store a draft even when the document has problems (listed with the draft); it cannot be submitted until a valid document replaces it' });
+    }
     const security = d.access === 'public' ? [] : d.apiKey ? [{ session: [] }, { apiKey: [] }] : [{ session: [] }];
     const access = ACCESS_NOTE[d.access] + (d.access === 'team-member' ? (d.apiKey ? ", or the team's API key in x-api-key." : '.') : '');
     const op: Record<string, unknown> = {

@@ -58,7 +58,7 @@ export async function createChallengeVersion(db: Db, spec: unknown, actor: Audit
     const obsId = new Map(obsRows.map((r) => [r.key, r.id]));
     await insertChunks(tx, targets, ch.targets.map((t) => ({ versionId: v.id, key: t.id, instanceId: instId.get(t.instanceId)!, observableId: obsId.get(t.observableId)! })), { id: targets.id });
     await tx.update(challenges).set({ updatedAt: now }).where(and(eq(challenges.slug, slug)));
-    await recordAudit(tx, { actor, action: 'challenge.draft', subjectType: 'challenge', subjectId: slug, details: { version: ch.spec.version, checksum: ch.checksum, targets: ch.targets.length } });
+    await recordAudit(tx, { actor, action: 'challenge.draft', subjectType: 'challenge', subjectId: slug, at: now, details: { version: ch.spec.version, checksum: ch.checksum, targets: ch.targets.length } });
     return { slug, versionId: v.id, version: v.version, checksum: v.checksum, targets: ch.targets.length, instances: ch.instances.length };
   });
 }

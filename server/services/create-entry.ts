@@ -12,7 +12,8 @@ import { sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
 import { entries } from '../db/schema';
 import { recordAudit, type AuditActor } from './record-audit';
-import { gateProblems, loadGate, refuse, type EntryCheck, type EntryDocument, type EntryEstimate } from './validate-entry';
+import type { FieldProblem } from '../errors';
+import { gateProblems, loadGate, refuse, TRACKS, type EntryCheck, type EntryDocument, type EntryEstimate } from './validate-entry';
 
 /** rows per insert statement: fewer, larger statements are faster on PGlite (measured: 20,000 beats 2,000 by about 25 %) */
 export const ESTIMATE_BATCH = 20_000;
@@ -50,7 +51,10 @@ export async function insertEstimates(tx: DbOrTx, entryId: string, ests: EntryEs
   }
 }
 
-export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string; actor: AuditActor; now: Date }) {
+/** The Idempotency-Key of a create request and the SHA-256 of its body (server/routes/entries.ts). */
+export interface Idempotency { key: string; hash: string }
+
+export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string; actor: AuditActor; now: Date; idempotency?: Idempotency | null }) {
   const { check } = p;
   const doc = check.document;
   return db.transaction(async (tx) => {
@@ -60,9 +64,42 @@ export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string
       id, lineageId: id, challengeSlug: check.version.slug, versionId: check.version.versionId, teamId: p.teamId,
       createdBy: p.actor.kind === 'user' ? p.actor.user.id : null, state: 'draft', track: doc.track, methodFamily: doc.method.family,
       label: doc.label, document: entryMetadata(doc), createdAt: p.now, updatedAt: p.now,
+      idempotencyKey: p.idempotency?.key ?? null, idempotencyHash: p.idempotency?.hash ?? null,
     });
     await insertEstimates(tx, id, doc.estimates);
     await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, details: { teamId: p.teamId, versionId: check.version.versionId, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings.slice(0, 20) } });
+    return { id, state: 'draft' as const };
+  });
+}
+
+/** What an incomplete draft records of a document that failed validation (it is stored as sent). */
+export function incompleteFields(raw: unknown, teamTrack: string) {
+  const d = (raw && typeof raw === 'object' && !Array.isArray(raw) ? raw : {}) as Record<string, unknown>;
+  const m = (d.method && typeof d.method === 'object' ? d.method : {}) as Record<string, unknown>;
+  const track = typeof d.track === 'string' && (TRACKS as readonly string[]).includes(d.track) ? d.track : teamTrack;
+  const label = typeof d.label === 'string' && d.label.trim() ? d.label.slice(0, 120) : 'Untitled draft';
+  const methodFamily = typeof m.family === 'string' ? m.family.slice(0, 60) : 'other';
+  return { track, label, methodFamily, document: d };
+}
+
+/**
+ * A draft saved with problems (?incomplete=1): the document is kept as it was sent (estimates
+ * included, none in the estimates table, so nothing reads them as values), with the problems the
+ * validation found. The challenge settings still refuse as for any new entry; the draft cannot be
+ * submitted until a valid document replaces it (PUT).
+ */
+export async function createIncompleteEntry(db: Db, p: { slug: string; versionId: string; raw: unknown; problems: FieldProblem[]; teamId: string; teamTrack: string; actor: AuditActor; now: Date; idempotency?: Idempotency | null }) {
+  const f = incompleteFields(p.raw, p.teamTrack);
+  return db.transaction(async (tx) => {
+    refuse(gateProblems(await loadGate(tx, p.slug), f.track, p.now, 'create'));
+    const id = randomUUID();
+    await tx.insert(entries).values({
+      id, lineageId: id, challengeSlug: p.slug, versionId: p.versionId, teamId: p.teamId,
+      createdBy: p.actor.kind === 'user' ? p.actor.user.id : null, state: 'draft', track: f.track, methodFamily: f.methodFamily,
+      label: f.label, document: f.document, problems: p.problems, createdAt: p.now, updatedAt: p.now,
+      idempotencyKey: p.idempotency?.key ?? null, idempotencyHash: p.idempotency?.hash ?? null,
+    });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, details: { teamId: p.teamId, versionId: p.versionId, incomplete: true, problems: p.problems.length } });
     return { id, state: 'draft' as const };
   });
 }

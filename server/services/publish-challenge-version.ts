@@ -23,7 +23,7 @@ export async function publishChallengeVersion(db: Db, p: { slug: string; version
     if (previous) await tx.update(challengeVersions).set({ state: 'superseded', supersededReason: p.reason!.trim() }).where(eq(challengeVersions.id, previous));
     await tx.update(challenges).set({ currentVersionId: v.id, state: c.state === 'draft' ? 'open' : c.state, title: (v.spec as { title: string }).title, updatedAt: p.now }).where(eq(challenges.slug, p.slug));
     const jobId = await enqueueJob(tx, 'references', { versionId: v.id }, `references:${v.id}`);
-    await recordAudit(tx, { actor: p.actor, action: 'challenge.publish', subjectType: 'challenge', subjectId: p.slug, details: { version: v.version, checksum: v.checksum, supersedes: previous, reason: p.reason ?? null } });
+    await recordAudit(tx, { actor: p.actor, action: 'challenge.publish', subjectType: 'challenge', subjectId: p.slug, at: p.now, details: { version: v.version, checksum: v.checksum, supersedes: previous, reason: p.reason ?? null } });
     return { slug: p.slug, versionId: v.id, version: v.version, checksum: v.checksum, jobId };
   });
 }

@@ -9,7 +9,7 @@
 import { and, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { challengeVersions, entries } from '../db/schema';
-import { AppError, conflict, notFound } from '../errors';
+import { AppError, conflict, notFound, type FieldProblem } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
 import { gateProblems, loadGate, refuse } from './validate-entry';
 
@@ -18,6 +18,10 @@ export async function submitEntry(db: Db, p: { entryId: string; actor: AuditActo
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
     if (e.state !== 'draft' && e.state !== 'returned') throw conflict(`This entry is ${e.state}; only a draft or a returned entry can be submitted.`);
+    const problems = Array.isArray(e.problems) ? (e.problems as FieldProblem[]) : [];
+    if (problems.length) {
+      throw new AppError('conflict', `This draft was saved with ${problems.length} problem(s) and cannot be submitted until a valid document replaces it (PUT /api/entries/${e.id}; check it first with POST /api/entries/validate).`, problems.slice(0, 50));
+    }
     const [v] = await tx.select({ version: challengeVersions.version, state: challengeVersions.state, reason: challengeVersions.supersededReason }).from(challengeVersions).where(eq(challengeVersions.id, e.versionId));
     if (v?.state === 'superseded') {
       const [cur] = await tx.select({ version: challengeVersions.version, checksum: challengeVersions.checksum }).from(challengeVersions).where(and(eq(challengeVersions.challengeSlug, e.challengeSlug), eq(challengeVersions.state, 'published'))).limit(1);

@@ -11,7 +11,8 @@ import type { Db } from '../db/client';
 import { entries, entryCommitments, estimates } from '../db/schema';
 import { AppError, conflict, invalid, notFound } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
-import { entryMetadata, insertEstimates } from './create-entry';
+import { entryMetadata, incompleteFields, insertEstimates } from './create-entry';
+import type { FieldProblem } from '../errors';
 import { closedTrackProblem, loadGate, refuse, type EntryCheck } from './validate-entry';
 import { commitmentHash } from './register-commitment';
 
@@ -42,8 +43,26 @@ export async function updateEntry(db: Db, p: { entryId: string; check: EntryChec
     }
     await tx.delete(estimates).where(eq(estimates.entryId, e.id));
     await insertEstimates(tx, e.id, doc.estimates);
-    await tx.update(entries).set({ versionId: p.check.version.versionId, track: doc.track, methodFamily: doc.method.family, label: doc.label, document: entryMetadata(doc), updatedAt: p.now }).where(eq(entries.id, e.id));
+    await tx.update(entries).set({ versionId: p.check.version.versionId, track: doc.track, methodFamily: doc.method.family, label: doc.label, document: entryMetadata(doc), problems: null, updatedAt: p.now }).where(eq(entries.id, e.id));
     await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, details: { estimates: doc.estimates.length, coverage: p.check.coverage, warnings: p.check.warnings.slice(0, 20) } });
+    return { id: e.id, state: e.state };
+  });
+}
+
+/** Replaces a draft's document by one with problems (?incomplete=1): kept as sent, not submittable. */
+export async function updateIncompleteEntry(db: Db, p: { entryId: string; raw: unknown; problems: FieldProblem[]; actor: AuditActor; now: Date }) {
+  return db.transaction(async (tx) => {
+    const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
+    if (!e) throw notFound('The entry');
+    if (e.state !== 'draft') throw conflict(`This entry is ${e.state}: only a draft can be saved with problems; fix them and send a valid document.`);
+    const f = incompleteFields(p.raw, e.track);
+    if (f.track !== e.track) {
+      const move = closedTrackProblem(await loadGate(tx, e.challengeSlug), f.track, 'move', e.track);
+      if (move) refuse([move]);
+    }
+    await tx.delete(estimates).where(eq(estimates.entryId, e.id));
+    await tx.update(entries).set({ track: f.track, methodFamily: f.methodFamily, label: f.label, document: f.document, problems: p.problems, updatedAt: p.now }).where(eq(entries.id, e.id));
+    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, details: { incomplete: true, problems: p.problems.length } });
     return { id: e.id, state: e.state };
   });
 }

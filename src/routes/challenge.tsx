@@ -9,6 +9,8 @@ import { SubmissionsStatusLine, SubmitEntryButton } from '@/features/challenges/
 import { formatDate } from '@/lib/format';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { CopyButton, ErrorState, PageHeader, PageLoading, Tabs } from '@/components/ui';
+import { FollowButton } from '@/features/follows/components/follow-button';
+import { ChecksumNote } from '@/features/api-docs/checksum-note';
 
 // the chart views (and nivo with them) load when a visitor opens them
 const SweepSection = lazy(() => import('@/features/challenges/components/sweep-section'));
@@ -75,9 +77,10 @@ export function Component() {
           <div className="flex flex-col items-start gap-2 text-sm sm:items-end">
             <span className="num text-ink-soft">v{c.version.version} · {formatDate(c.version.publishedAt)}</span>
             <SubmitEntryButton slug={c.slug} state={c.state} s={c.submissions} />
-            <span className="flex gap-3 text-sm">
+            <span className="flex flex-wrap items-center gap-3 text-sm">
               <Link to={`/challenges/${encodeURIComponent(c.slug)}/depth`}>Depth view</Link>
               <Link to={`/challenges/${encodeURIComponent(c.slug)}/specification`}>Specification</Link>
+              <FollowButton subjectType="challenge" subjectId={c.slug} name={c.title} />
             </span>
           </div>
         }
@@ -87,6 +90,7 @@ export function Component() {
           <code className="min-w-0 truncate text-ink-faint" title={`sha256:${c.version.checksum}`}>sha256:{c.version.checksum.slice(0, 16)}…</code>
           <CopyButton text={`sha256:${c.version.checksum}`} label="Copy checksum" />
           {c.settings.license && <span className="text-ink-soft">Data licence {c.settings.license}</span>}
+          <ChecksumNote slug={c.slug} version={c.version.version} />
         </p>
         <SubmissionsStatusLine state={c.state} s={c.submissions} receivedAt={q.dataUpdatedAt} />
       </PageHeader>

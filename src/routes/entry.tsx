@@ -93,6 +93,7 @@ export function Component() {
         title={en.label}
         actions={
           <div className="flex flex-wrap gap-2">
+            <a className={buttonClass('secondary', 'sm')} href={`/api/entries/${encodeURIComponent(en.id)}/entry.json`} download data-testid="entry-json" title="The entry document as submitted (schemas/entry.schema.json)">JSON</a>
             <a className={buttonClass('secondary', 'sm')} href={`/api/entries/${encodeURIComponent(en.id)}/cite.bib`} download>BibTeX</a>
             {en.state === 'published' && <CompareWith slug={slug} id={en.id} />}
           </div>

@@ -9,6 +9,7 @@ import { TeamEntries } from '@/features/entries/components/team-entries';
 import { formatDate } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, isTrack, PageHeader, PageLoading, Panel, Table, Td, Th, TrackBadge } from '@/components/ui';
 import { useDocumentTitle } from '@/lib/use-document-title';
+import { FollowButton } from '@/features/follows/components/follow-button';
 
 export async function loader({ params }: LoaderFunctionArgs) {
   void queryClient.prefetchQuery(getTeamQueryOptions(params.teamId!));
@@ -30,7 +31,7 @@ export function Component() {
       <PageHeader
         kicker={<Link to="/teams">Teams</Link>}
         title={t.name}
-        actions={myRole && <Badge tone="ok">you are {myRole === 'lead' ? 'a team lead' : 'a member'}</Badge>}
+        actions={<span className="flex flex-wrap items-center gap-2">{myRole && <Badge tone="ok">you are {myRole === 'lead' ? 'a team lead' : 'a member'}</Badge>}<FollowButton subjectType="team" subjectId={t.id} name={t.name} /></span>}
       >
         <div className="flex flex-wrap items-center gap-3">
           {isTrack(t.track) && <TrackBadge track={t.track} />}

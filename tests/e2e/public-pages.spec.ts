@@ -11,7 +11,7 @@ import { DEMO_PASSWORD, DESKTOP, launchBrowser, PHONE, shot, startServer, type R
 let server: RunningServer;
 let browser: Browser;
 const contexts: BrowserContext[] = [];
-const SLUG = 'kicked-chain-60';
+const SLUG = 'ring-36-correlators';
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
   return openPage(browser, server.url, contexts, viewport, { downloads: true });
@@ -65,20 +65,20 @@ describe('the public pages in the browser', () => {
 
     // search and filter
     // each step waits for the table to show its own result, not merely a count the previous step
-    // also produced (the search 'chain' and the lattice 'heavy-hex' both leave one row)
+    // also produced (the search 'vacancy' and the lattice 'ring' both leave one row)
     const linkTexts = () => table.getByRole('link').allTextContents();
-    await p.getByLabel('Search challenges').fill('chain');
-    await expect.poll(linkTexts).toEqual([expect.stringMatching(/chain/i)]);
+    await p.getByLabel('Search challenges').fill('vacancy');
+    await expect.poll(linkTexts).toEqual([expect.stringMatching(/vacancy/i)]);
     await p.getByLabel('Search challenges').fill('');
     await expect.poll(() => table.getByRole('link').count()).toBeGreaterThanOrEqual(3);
-    await p.getByLabel('Lattice').selectOption('heavy-hex');
-    await expect.poll(linkTexts).toEqual([expect.stringMatching(/Heavy-hex/)]);
+    await p.getByLabel('Lattice').selectOption('ring');
+    await expect.poll(linkTexts).toEqual([expect.stringMatching(/Ring of 36/)]);
     await shots(p, '02-catalogue-filtered');
     await p.getByRole('button', { name: 'clear filters' }).click();
     await expect.poll(() => table.getByRole('link').count()).toBeGreaterThanOrEqual(3);
 
     // a challenge: standings first
-    await table.getByRole('link', { name: /Kicked Ising chain/ }).click();
+    await table.getByRole('link', { name: /Ring of 36/ }).click();
     const standings = p.getByTestId('standings-table');
     await standings.waitFor();
     const rows = standings.getByTestId('standings-row');
@@ -127,17 +127,17 @@ describe('the public pages in the browser', () => {
     await p.getByRole('tab', { name: 'Sweep plot' }).click();
     await p.locator('#sweep svg').first().waitFor();
     await shots(p, '06-sweep');
-    await p.getByRole('radio', { name: 'z29', exact: true }).click();
-    await expect.poll(() => new URL(p.url()).searchParams.get('observable')).toBe('z29');
+    await p.getByRole('radio', { name: 'zz3', exact: true }).click();
+    await expect.poll(() => new URL(p.url()).searchParams.get('observable')).toBe('zz3');
     await p.locator('#sweep svg').first().waitFor();
     await p.getByRole('button', { name: 'Show as a table' }).click();
     await p.getByTestId('sweep-table').waitFor();
-    await shots(p, '07-sweep-z29');
+    await shots(p, '07-sweep-zz3');
 
     // the agreement matrix, averaged and for one target
     await p.getByRole('tab', { name: 'Agreement' }).click();
     await p.getByLabel('Compare on').waitFor();
-    await p.getByLabel('Compare on').selectOption('t4-h0.750000:z29');
+    await p.getByLabel('Compare on').selectOption('t4-h0.550000:zz3');
     await p.locator('#agreement svg').first().waitFor();
     await shots(p, '08-agreement');
 
@@ -146,8 +146,8 @@ describe('the public pages in the browser', () => {
     await p.locator('#cost svg').first().waitFor();
     await shots(p, '09-cost');
     await p.getByRole('tab', { name: 'Verifiability' }).click();
-    await p.getByTestId('verifiability-z29').waitFor();
-    await p.getByTestId('verifiability-z29').getByRole('button').first().click();
+    await p.getByTestId('verifiability-zz3').waitFor();
+    await p.getByTestId('verifiability-zz3').getByRole('button').first().click();
     await p.getByTestId('target-detail').waitFor();
     await shots(p, '10-verifiability');
     await p.getByRole('tab', { name: 'History' }).click();
@@ -185,15 +185,15 @@ describe('the public pages in the browser', () => {
     const origin = { origin: server.url };
     expect((await mod.request.post('/api/auth/sign-in/email', { data: { email: 'moderator@parallax.test', password: DEMO_PASSWORD }, headers: origin })).ok()).toBe(true);
     const opensAt = new Date(Date.now() + 2 * 86_400_000).toISOString();
-    const later = await mod.request.post('/api/challenges/square-7x7-echo/settings', { data: { submissionWindow: { opensAt }, reason: 'blind round opens later' }, headers: origin });
+    const later = await mod.request.post('/api/challenges/vacancy-square-6x6/settings', { data: { submissionWindow: { opensAt }, reason: 'blind round opens later' }, headers: origin });
     expect(later.ok(), await later.text()).toBe(true);
-    const closed = await mod.request.post('/api/challenges/hex-patch-3x3/settings', { data: { state: 'closed', reason: 'round over' }, headers: origin });
+    const closed = await mod.request.post('/api/challenges/braid-128/settings', { data: { state: 'closed', reason: 'round over' }, headers: origin });
     expect(closed.ok(), await closed.text()).toBe(true);
-    await p.goto('/challenges/square-7x7-echo');
+    await p.goto('/challenges/vacancy-square-6x6');
     await expect.poll(() => p.getByTestId('submissions-status').textContent()).toMatch(/Opens for submissions on .*drafts can be prepared now/);
     await p.getByText(/Drafts only: submissions open/).waitFor();
     await shots(p, '15-opens-later');
-    await p.goto('/challenges/hex-patch-3x3');
+    await p.goto('/challenges/braid-128');
     await expect.poll(() => p.getByTestId('submissions-status').textContent()).toMatch(/Closed for entries/);
     await shots(p, '16-closed');
 

@@ -1,6 +1,6 @@
 /**
  * Submitting an entry in the browser: a team lead (demo account ines@cobalt.test) drops a file
- * with two errors (an unknown target id and a negative uncertainty) for kicked-chain-60, sees
+ * with two errors (an unknown target id and a negative uncertainty) for ring-36-correlators, sees
  * both beside the cells they name, fixes them in the table, checks (the score preview against
  * the public references) and submits for review. Screenshots at desktop and phone width.
  */
@@ -11,7 +11,7 @@ import { DEMO_PASSWORD, DESKTOP, launchBrowser, startServer, type RunningServer,
 let server: RunningServer;
 let browser: Browser;
 const contexts: BrowserContext[] = [];
-const SLUG = 'kicked-chain-60';
+const SLUG = 'ring-36-correlators';
 
 async function newPage(viewport = DESKTOP): Promise<Page> {
   return openPage(browser, server.url, contexts, viewport);

@@ -21,7 +21,7 @@ const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, membe
 const TEAM_A = (ok: number): Row => ({ anon: 401, memberA: ok, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: ok });
 
 interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
-interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string; entryReview: string }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string; entryReview: string; entryDelete: string }
 // a spec the moderators' routes accept (400 for everyone else never happens: access is checked first)
 const SPEC = { id: 'matrix-chain', version: 1, title: 'Matrix chain', description: 'x', lattice: { kind: 'chain', n: 4 }, circuit: { family: 'kicked-ising', steps: [1], thetaH: [0.1] }, observables: [{ id: 'z1', pauli: 'Z1' }] };
 
@@ -92,6 +92,18 @@ const MATRIX: Record<string, Probe> = {
   // before the reveal: team A and moderators only
   'GET /entries/:entryId/commitment': { row: { anon: 404, memberA: 200, leadA: 200, memberB: 404, moderator: 200, admin: 200, keyA: 200 }, path: (i) => `/api/entries/${i.entryPublished}/commitment` },
   'GET /audit': { row: MODERATOR(200), path: () => '/api/audit' },
+  // for scripts (issue 13)
+  'GET /challenges/:slug/sample-entry.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/sample-entry.json' },
+  'GET /challenges/:slug/spec.canonical.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/spec.canonical.json' },
+  'GET /entries/:entryId/entry.json': { row: { anon: 404, memberA: 200, leadA: 200, memberB: 404, moderator: 200, admin: 200, keyA: 200 }, path: (i) => `/api/entries/${i.entryDraft}/entry.json` },
+  // the first member of team A deletes the draft; after that it is gone for everyone (404)
+  'DELETE /entries/:entryId': { row: { anon: 401, memberA: 200, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: (i) => `/api/entries/${i.entryDelete}` },
+  // following: signed-in users only; API keys are for entries
+  'GET /me/follows': { row: { anon: 401, memberA: 200, leadA: 200, memberB: 200, moderator: 200, admin: 200, keyA: 403 }, path: () => '/api/me/follows' },
+  'POST /follows': { row: { anon: 401, memberA: 201, leadA: 201, memberB: 201, moderator: 201, admin: 201, keyA: 403 }, path: () => '/api/follows', body: () => ({ subjectType: 'challenge', subjectId: 'seeded-chain' }) },
+  'DELETE /follows/:followId': { row: { anon: 401, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 403 }, path: () => '/api/follows/00000000-0000-0000-0000-000000000000' },
+  'POST /follows/unfollow': { row: { anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/follows/unfollow', body: () => ({ token: 'no-such-token-at-all' }) },
+  'GET /challenges/:slug/feed.atom': { row: ALL_200, path: () => '/api/challenges/seeded-chain/feed.atom' },
 };
 
 let t: TestApp;
@@ -128,7 +140,7 @@ beforeAll(async () => {
   expect((await as.moderator.post('/api/challenges', seeded)).status).toBe(201);
   const pub = await as.moderator.post('/api/challenges/seeded-chain/publish', {});
   expect(pub.status).toBe(200);
-  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '', entryReview: '' };
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '', entryReview: '', entryDelete: '' };
   // team A's entries in the states the entry routes need
   const newEntry = async () => {
     const r = await as.memberA!.post('/api/challenges/seeded-chain/entries', ENTRY(ids));
@@ -140,6 +152,7 @@ beforeAll(async () => {
   ids.entryWithdraw = await newEntry();
   ids.entryPublished = await newEntry();
   ids.entryReview = await newEntry();
+  ids.entryDelete = await newEntry();
   expect((await as.memberA!.post(`/api/entries/${ids.entryReview}/submit`)).status).toBe(200);
   expect((await as.memberA!.post(`/api/entries/${ids.entryPublished}/submit`)).status).toBe(200);
   await t.database.db.transaction((tx) => publishEntry(tx, ids.entryPublished, { kind: 'system', label: 'matrix' }));

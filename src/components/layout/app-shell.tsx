@@ -50,6 +50,7 @@ export function AppShell() {
         <div className="mx-auto flex max-w-page flex-wrap items-center justify-between gap-2 px-4 py-4 text-xs text-ink-soft sm:px-6">
           <span>Parallax — one quantity, two viewpoints.</span>
           <span className="flex items-center gap-3">
+            <NavLink to="/api-reference" className="text-ink-soft">API reference</NavLink>
             <Legend />
           </span>
         </div>

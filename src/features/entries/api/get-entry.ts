@@ -48,6 +48,8 @@ export interface Entry {
   scores?: EstimateScore[];
   /** house-baseline estimates of sealed targets left out of the document until the reveal */
   withheld?: { estimates: number; reason: string; until: string | null } | null;
+  /** a draft saved with problems (the team sees them): it cannot be submitted until they are fixed */
+  problems?: { path: string; message: string }[];
 }
 
 export const getEntry = (entryId: string, signal?: AbortSignal) => api.get<Entry>(`/entries/${encodeURIComponent(entryId)}`, { signal });

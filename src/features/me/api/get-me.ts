@@ -16,6 +16,8 @@ export interface MeTeam {
   name: string;
   slug: string;
   role: TeamRole;
+  /** the team's kind: the track its new entries start in */
+  track?: 'hardware' | 'classical';
 }
 export type Me =
   | { kind: 'visitor' }

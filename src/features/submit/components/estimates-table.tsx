@@ -9,6 +9,9 @@ import { Button, cx, inputClass } from '@/components/ui';
 import { emptyRow, rowsFromTsv, UNCERTAINTY_KINDS, type EstimateRow, type Problem } from '../lib/entry-form';
 import { locate } from '../lib/entry-form';
 
+/** what changed in the rows: one removed, or lines pasted over rows from..from+count-1 (with the paste's own problems) */
+export interface RowsChange { removed?: number; pasted?: { from: number; count: number; problems: Problem[] } }
+
 const features = tableFeatures({});
 /** on a phone each row is two lines: # target ×, then value, uncertainty, kind */
 const PHONE_CELL: Record<string, string> = {
@@ -77,7 +80,7 @@ const Cell = memo(function Cell({ index, row, column, error, targets, onChange }
 
 export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
   rows: EstimateRow[];
-  onRowsChange: (rows: EstimateRow[], change: { removed?: number }) => void;
+  onRowsChange: (rows: EstimateRow[], change: RowsChange) => void;
   targets: string[];
   problems: CellProblems;
 }) {
@@ -124,7 +127,7 @@ export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
     if (!text.includes('\n') && !text.includes('\t')) return;
     const m = /^est-(\d+)-/.exec((e.target as HTMLElement).id ?? '');
     const start = m ? Number(m[1]) : latest.current.length;
-    const pasted = rowsFromTsv(text);
+    const { rows: pasted, problems: pastedProblems } = rowsFromTsv(text, 'statistical', start);
     if (!pasted.length) return;
     e.preventDefault();
     const next = latest.current.slice();
@@ -132,7 +135,7 @@ export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
       const at = start + i;
       next[at] = next[at] ? { ...next[at], target: r.target, value: r.value, uncertainty: r.uncertainty, kind: r.kind } : r;
     });
-    change.current(next, {});
+    change.current(next, { pasted: { from: start, count: pasted.length, problems: pastedProblems } });
   };
 
   return (
@@ -143,7 +146,7 @@ export function EstimatesTable({ rows, onRowsChange, targets, problems }: {
             {table.getHeaderGroups().map((g) => (
               <tr key={g.id}>
                 {g.headers.map((h) => (
-                  <th key={h.id} scope="col" className={cx('border-b border-rule-strong px-1.5 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft uppercase first:pl-0', (h.column.id === 'value' || h.column.id === 'uncertainty') && 'text-right')}>
+                  <th key={h.id} scope="col" className={cx('border-b border-rule-strong px-1.5 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft first:pl-0', (h.column.id === 'value' || h.column.id === 'uncertainty') && 'text-right')}>
                     <table.FlexRender header={h} />
                   </th>
                 ))}

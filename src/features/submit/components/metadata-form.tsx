@@ -26,11 +26,14 @@ export function MetadataForm({ form, set, errorFor }: { form: EntryForm; set: (p
         </At>
         <At field="track">
           <SelectField label="Track" value={form.track} error={errorFor('track')} onChange={(e) => set({ track: e.target.value }, 'track')}>
+            {!TRACKS.includes(form.track) && <option value={form.track}>{form.track ? `${form.track} (not a track)` : 'choose a track…'}</option>}
             {TRACKS.map((t) => <option key={t} value={t}>{TRACK_LABELS[t] ?? t}</option>)}
           </SelectField>
         </At>
         <At field="family">
           <SelectField label="Method family" value={form.family} error={errorFor('family')} onChange={(e) => set({ family: e.target.value }, 'family')}>
+            {/* a misspelt family is shown as it is, never as another family */}
+            {!METHOD_FAMILIES.includes(form.family) && <option value={form.family}>{form.family ? `${form.family} (not a method family)` : 'choose a method family…'}</option>}
             {METHOD_FAMILIES.map((t) => <option key={t} value={t}>{FAMILY_LABELS[t] ?? t}</option>)}
           </SelectField>
         </At>

@@ -1,6 +1,6 @@
 /**
  * A team's entries in every state, with the actions each state allows: edit and submit a draft or
- * a returned entry, withdraw (with a reason), revise a published one. A returned entry shows the
+ * a returned entry, delete a draft, withdraw (with a reason) anything submitted, revise a published one. A returned entry shows the
  * moderator's reason.
  */
 import { useState } from 'react';
@@ -32,6 +32,7 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
   const act = useEntryAction();
   const navigate = useNavigate();
   const [withdrawing, setWithdrawing] = useState(false);
+  const [deleting, setDeleting] = useState(false);
   const [reason, setReason] = useState('');
   const editable = e.state === 'draft' || e.state === 'returned';
   const editHref = `/challenges/${e.challenge.slug}/submit?entry=${e.id}`;
@@ -49,17 +50,19 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
             <Link to={`/challenges/${e.challenge.slug}`}>{e.challenge.slug}</Link> v{e.challenge.version} · {e.estimates} estimates ({formatPercent(e.coverage.fraction)} of the targets) · updated {formatDateTime(e.updatedAt)}
           </p>
           {e.state === 'returned' && <ReturnedReason entryId={e.id} />}
+          {e.problems && e.problems.length > 0 && <p className="mt-1 text-sm text-danger-ink" data-testid="draft-problems">Saved with {e.problems.length === 1 ? 'one problem' : `${e.problems.length} problems`}: fix {e.problems.length === 1 ? 'it' : 'them'} (Edit) before submitting.</p>}
         </div>
         <div className="flex flex-wrap gap-2">
           {editable && <ButtonLink size="sm" to={editHref}>Edit</ButtonLink>}
-          {editable && <Button size="sm" busy={act.isPending && act.variables?.action === 'submit'} onClick={() => act.mutate({ action: 'submit', entryId: e.id, teamId })}>Submit for review</Button>}
+          {editable && !e.problems?.length && <Button size="sm" busy={act.isPending && act.variables?.action === 'submit'} onClick={() => act.mutate({ action: 'submit', entryId: e.id, teamId })}>Submit for review</Button>}
           {e.state === 'published' && (
             <Button size="sm" variant="secondary" busy={act.isPending && act.variables?.action === 'revise'}
               onClick={() => act.mutate({ action: 'revise', entryId: e.id, teamId }, { onSuccess: (r) => navigate(`/challenges/${e.challenge.slug}/submit?entry=${r.id}`) })}>
               Revise
             </Button>
           )}
-          {!['withdrawn', 'rejected', 'superseded'].includes(e.state) && !withdrawing && <Button size="sm" variant="ghost" onClick={() => setWithdrawing(true)}>Withdraw…</Button>}
+          {e.state !== 'draft' && !['withdrawn', 'rejected', 'superseded'].includes(e.state) && !withdrawing && <Button size="sm" variant="ghost" onClick={() => setWithdrawing(true)}>Withdraw…</Button>}
+          {e.state === 'draft' && !deleting && <Button size="sm" variant="ghost" onClick={() => setDeleting(true)}>Delete…</Button>}
         </div>
       </div>
       {withdrawing && (
@@ -71,6 +74,13 @@ function EntryRow({ e, teamId }: { e: TeamEntry; teamId: string }) {
           <Button size="sm" variant="danger" type="submit" busy={act.isPending} disabled={!reason.trim()}>Withdraw</Button>
           <Button size="sm" variant="ghost" onClick={() => setWithdrawing(false)}>Cancel</Button>
         </form>
+      )}
+      {deleting && (
+        <div className="mt-2 flex flex-wrap items-center gap-2" role="group" aria-label="Delete this draft">
+          <span className="text-sm">Delete this draft and its estimates? This cannot be undone.</span>
+          <Button size="sm" variant="danger" busy={act.isPending && act.variables?.action === 'delete'} onClick={() => act.mutate({ action: 'delete', entryId: e.id, teamId }, { onSuccess: () => setDeleting(false) })}>Delete draft</Button>
+          <Button size="sm" variant="ghost" onClick={() => setDeleting(false)}>Cancel</Button>
+        </div>
       )}
       {act.isError && <p className="mt-1 text-sm text-danger" role="alert">{errorMessage(act.error)}</p>}
     </li>

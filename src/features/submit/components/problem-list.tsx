@@ -1,8 +1,11 @@
 import type { Problem } from '../lib/entry-form';
-import { controlId } from '../lib/entry-form';
+import { controlId, describePath, rowsInMessage } from '../lib/entry-form';
 import { cx } from '@/components/ui';
 
-/** Problems (errors or warnings) with the JSON pointer they name; a pointer that names a control jumps to it. */
+/**
+ * Problems (errors or warnings) with the place they name: rows of the estimates as the table counts
+ * them (from 1), the JSON pointer beside; a place that names a control jumps to it.
+ */
 export function ProblemList({ problems, tone, testId }: { problems: Problem[]; tone: 'danger' | 'warning'; testId?: string }) {
   if (!problems.length) return null;
   return (
@@ -25,13 +28,14 @@ export function ProblemList({ problems, tone, testId }: { problems: Problem[]; t
                     (control ?? el).focus();
                   }}
                 >
-                  {p.path || '(document)'}
+                  {describePath(p.path)}
                 </a>
               ) : (
-                <span className="break-all">{p.path || '(document)'}</span>
+                <span className="break-all">{describePath(p.path)}</span>
               )}
+              {describePath(p.path) !== (p.path || '(document)') && <span className="block text-ink-soft">{p.path}</span>}
             </code>
-            <span>{p.message}</span>
+            <span>{rowsInMessage(p.message)}</span>
           </li>
         );
       })}

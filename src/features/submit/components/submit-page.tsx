@@ -16,9 +16,9 @@ import { useCreateEntry } from '../api/create-entry';
 import { useUpdateEntry } from '../api/update-entry';
 import { useEntryAction } from '../api/entry-actions';
 import type { DocumentSource } from '../api/send-document';
-import { documentFromForm, EDITABLE_ROWS, emptyForm, formFromDocument, locate, type EntryForm, type EstimateRow, type Problem } from '../lib/entry-form';
+import { documentFromForm, EDITABLE_ROWS, emptyForm, formFromDocument, localProblems, locate, mergeProblems, type EntryForm, type EstimateRow, type Problem } from '../lib/entry-form';
 import { DropZone } from './drop-zone';
-import { EstimatesTable, cellProblems } from './estimates-table';
+import { EstimatesTable, cellProblems, type RowsChange } from './estimates-table';
 import { MetadataForm } from './metadata-form';
 import { ProblemList } from './problem-list';
 import { ScorePreview } from './score-preview';
@@ -32,9 +32,13 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
   const navigate = useNavigate();
   const [, setSearch] = useSearchParams();
   const current = useMemo(() => ({ id: challenge.slug, version: challenge.version.version, checksum: `sha256:${challenge.version.checksum}` }), [challenge]);
-  const [form, setForm] = useState<EntryForm>(() => (entry?.document ? formFromDocument(entry.document, current) : emptyForm(current)));
+  // a new entry starts in the track of its team (a hardware team's in the hardware track)
+  const teamOf = (id: string) => teams.find((t) => t.id === id);
+  const [form, setForm] = useState<EntryForm>(() => (entry?.document ? formFromDocument(entry.document, current)
+    : emptyForm(current, teamOf(teams.length === 1 ? teams[0].id : '')?.track)));
   const [file, setFile] = useState<{ file: File; estimates: number | null; parsed: boolean } | null>(null);
-  const [problems, setProblems] = useState<Problem[]>([]);
+  // a stored draft saved with problems shows them at once
+  const [problems, setProblems] = useState<Problem[]>(() => entry?.problems ?? []);
   const [warnings, setWarnings] = useState<Problem[]>([]);
   const [result, setResult] = useState<ValidateResult | null>(null);
   const [message, setMessage] = useState<{ tone: 'danger' | 'ok' | 'info'; text: string } | null>(null);
@@ -42,6 +46,7 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
   const [entryState, setEntryState] = useState<string | null>(entry?.state ?? null);
   const [teamId, setTeamId] = useState<string>(entry?.team.id ?? (teams.length === 1 ? teams[0].id : ''));
   const [dirty, setDirty] = useState(false);
+  const [savedWithProblems, setSavedWithProblems] = useState<number>(() => entry?.problems?.length ?? 0);
   const [submitting, setSubmitting] = useState(false);
   const resultsRef = useRef<HTMLDivElement>(null);
 
@@ -76,9 +81,9 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     return [...ps, ...extra].sort((a, b) => a.path.localeCompare(b.path, 'en', { numeric: true }));
   };
 
-  const showError = (e: unknown, rows: EstimateRow[] = form.estimates) => {
+  const showError = (e: unknown, rows: EstimateRow[] = form.estimates, f: EntryForm = form) => {
     if (e instanceof ApiError && e.problems.length) {
-      const ps = withTargetProblems(e.problems, rows);
+      const ps = mergeProblems(withTargetProblems(e.problems, rows), localProblems({ ...f, estimates: rows }));
       setProblems(ps);
       setMessage({ tone: 'danger', text: `${ps.length === 1 ? 'One problem' : `${ps.length} problems`} to fix: each is listed with the field it names and marked beside that field.` });
     } else {
@@ -86,10 +91,12 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     }
   };
 
-  const runCheck = async (src: DocumentSource = source(), rows: EstimateRow[] = form.estimates) => {
+  const runCheck = async (src: DocumentSource = source(), rows: EstimateRow[] = form.estimates, f: EntryForm = form) => {
     setMessage(null);
     try {
       const r = await check.mutateAsync(src);
+      const local = localProblems({ ...f, estimates: rows });
+      if (local.length) throw new ApiError({ status: 400, code: 'validation_failed', message: local[0].message, problems: local });
       setProblems([]);
       setWarnings(r.warnings);
       setResult(r);
@@ -100,7 +107,7 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     } catch (e) {
       setResult(null);
       setWarnings([]);
-      showError(e, rows);
+      showError(e, rows, f);
     }
     requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
   };
@@ -110,10 +117,11 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     let parsed = false;
     let n: number | null = null;
     let rows: EstimateRow[] = [];
+    let next: EntryForm = form;
     try {
       const doc = JSON.parse(await f.text()) as { estimates?: unknown[] };
       n = Array.isArray(doc.estimates) ? doc.estimates.length : null;
-      const next = formFromDocument(doc, current);
+      next = formFromDocument(doc, current);
       setForm(next);
       rows = next.estimates;
       parsed = true;
@@ -122,7 +130,7 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     }
     setFile({ file: f, estimates: n, parsed });
     setDirty(true);
-    await runCheck({ kind: 'file', file: f }, rows);
+    await runCheck({ kind: 'file', file: f }, rows, parsed ? next : { ...form, estimates: [] });
   };
 
   /** an edit: the form is now the source, and problems of the edited field are cleared */
@@ -137,7 +145,7 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
       const l = locate(p.path);
       return touched !== undefined && l.kind === 'field' && (l.field === touched || l.field.startsWith(`${touched}/`));
     });
-  const onRows = (rows: EstimateRow[], ch: { removed?: number }) => {
+  const onRows = (rows: EstimateRow[], ch: RowsChange) => {
     const prev = form.estimates;
     const changed = new Set<number>();
     rows.forEach((r, i) => { if (prev[i] && prev[i].id === r.id && prev[i] !== r) changed.add(i); });
@@ -148,10 +156,12 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     setForm({ ...form, estimates: rows });
     if (file) setFile(null);
     setDirty(true);
-    setProblems((ps) =>
-      ps.flatMap((p) => {
+    setProblems((ps) => {
+      const kept = ps.flatMap((p) => {
         const l = locate(p.path);
         if (l.kind !== 'cell' && l.kind !== 'row') return [p];
+        // a paste replaces its rows: their old problems go, the paste's own come in
+        if (ch.pasted && l.row >= ch.pasted.from && l.row < ch.pasted.from + ch.pasted.count) return [];
         if (ch.removed !== undefined) {
           if (l.row === ch.removed) return [];
           if (l.row > ch.removed) return [{ ...p, path: p.path.replace(/^\/estimates\/\d+/, `/estimates/${l.row - 1}`) }];
@@ -162,11 +172,13 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
           if (l.kind === 'row' || fs.includes(l.column as never)) return [];
         }
         return [p];
-      }),
-    );
+      });
+      return ch.pasted?.problems.length ? mergeProblems(kept, ch.pasted.problems) : kept;
+    });
+    if (ch.pasted?.problems.length) setMessage({ tone: 'danger', text: `The pasted rows have ${ch.pasted.problems.length === 1 ? 'a problem' : `${ch.pasted.problems.length} problems`}: see the errors.` });
   };
 
-  const save = async (): Promise<string | null> => {
+  const save = async (): Promise<{ id: string; problems: number } | null> => {
     setMessage(null);
     if (!entryId && teams.length > 1 && !teamId) {
       setMessage({ tone: 'danger', text: 'Choose the team this entry is for.' });
@@ -174,14 +186,24 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
     }
     try {
       const src = source();
-      const out = entryId ? await update.mutateAsync({ entryId, src, teamId }) : await create.mutateAsync({ slug: challenge.slug, src, teamId: teamId || undefined });
+      // a draft is saved even with problems (it cannot be submitted until they are fixed); a returned entry must be valid
+      const incomplete = !entryId || entryState === 'draft';
+      const out = entryId ? await update.mutateAsync({ entryId, src, teamId, incomplete }) : await create.mutateAsync({ slug: challenge.slug, src, teamId: teamId || undefined, incomplete });
       setEntryId(out.id);
       setEntryState(out.state ?? 'draft');
-      setProblems([]);
       setWarnings(out.warnings ?? []);
       setDirty(false);
       setSearch((s) => { s.set('entry', out.id); return s; }, { replace: true });
-      return out.id;
+      const local = localProblems(form);
+      if (out.incomplete || local.length) {
+        const ps = mergeProblems(withTargetProblems(out.problems ?? [], form.estimates), local);
+        setProblems(ps);
+        setSavedWithProblems(ps.length);
+        return { id: out.id, problems: ps.length };
+      }
+      setProblems([]);
+      setSavedWithProblems(0);
+      return { id: out.id, problems: 0 };
     } catch (e) {
       showError(e);
       requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
@@ -190,15 +212,25 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
   };
 
   const onSave = async () => {
-    const id = await save();
-    if (id) setMessage({ tone: 'ok', text: 'Draft saved. You can come back to it from My entries.' });
+    const out = await save();
+    if (!out) return;
+    if (out.problems) {
+      setMessage({ tone: 'info', text: `Draft saved with ${out.problems === 1 ? 'one problem' : `${out.problems} problems`}: it cannot be submitted until ${out.problems === 1 ? 'it is' : 'they are'} fixed. You can come back to it from My entries.` });
+      requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
+    } else setMessage({ tone: 'ok', text: 'Draft saved. You can come back to it from My entries.' });
   };
 
   const onSubmit = async () => {
     setSubmitting(true);
     try {
-      const id = dirty || !entryId ? await save() : entryId;
-      if (!id) return;
+      const saved = dirty || !entryId ? await save() : { id: entryId, problems: savedWithProblems };
+      if (!saved) return;
+      if (saved.problems) {
+        setMessage({ tone: 'danger', text: `The draft is saved, but it has ${saved.problems === 1 ? 'one problem' : `${saved.problems} problems`} and cannot be submitted until ${saved.problems === 1 ? 'it is' : 'they are'} fixed.` });
+        requestAnimationFrame(() => resultsRef.current?.scrollIntoView({ block: 'start', behavior: 'smooth' }));
+        return;
+      }
+      const id = saved.id;
       await action.mutateAsync({ action: 'submit', entryId: id, teamId });
       setDirty(false);
       navigate(`/my-entries?submitted=${id}`);
@@ -246,6 +278,10 @@ export function SubmitPage({ challenge, targets, teams, entry, receivedAt }: { c
       <div className="space-y-6">
         <Panel title="Start from a file" description="An entry document (schemas/entry.schema.json). It is checked as it is; small entries can then be edited below.">
           <DropZone onFile={onFile} disabled={busy || frozen}>Up to {EDITABLE_ROWS.toLocaleString('en')} estimates can be edited here; larger files are checked and stored as they are.</DropZone>
+          <p className="mt-2 text-sm">
+            <a href={`/api/challenges/${encodeURIComponent(challenge.slug)}/sample-entry.json?version=${challenge.version.version}&track=${form.track === 'hardware' ? 'hardware' : 'classical'}`} download data-testid="sample-entry">Download a sample file</a>{' '}
+            with every target of version {challenge.version.version} and its checksum, to fill in by script (see the <Link to="/api-reference">API reference</Link>).
+          </p>
           {file && (
             <p className="mt-2 text-sm text-ink-soft" data-testid="file-info">
               {file.file.name} · {kib(file.file.size)}{file.estimates !== null && ` · ${file.estimates} estimates`}

@@ -80,9 +80,14 @@ export interface EntryForm {
 
 export const emptyRow = (): EstimateRow => ({ id: rowId(), target: '', value: '', uncertainty: '', kind: 'statistical', extra: {} });
 
-export function emptyForm(challenge: EntryForm['challenge']): EntryForm {
+/** the method family a new entry of this track starts with */
+export const DEFAULT_FAMILY: Record<string, string> = { hardware: 'error-mitigated-hardware', classical: 'tensor-network' };
+
+/** a new entry: in the team's track (a hardware team's entries start in the hardware track) */
+export function emptyForm(challenge: EntryForm['challenge'], track: string = 'classical'): EntryForm {
+  const t = TRACKS.includes(track) ? track : 'classical';
   return {
-    challenge, label: '', track: 'classical', family: 'tensor-network', description: '',
+    challenge, label: '', track: t, family: DEFAULT_FAMILY[t] ?? 'other', description: '',
     settings: [], resources: {}, resourcesExtra: {}, links: {}, license: 'CC-BY-4.0', notes: '', estimates: [emptyRow()],
   };
 }
@@ -99,7 +104,8 @@ export function formFromDocument(raw: unknown, challenge: EntryForm['challenge']
   const ests = Array.isArray(d.estimates) ? (d.estimates as Obj[]) : [];
   return {
     challenge: { id: ch.id ?? challenge.id, version: ch.version ?? challenge.version, checksum: ch.checksum ?? challenge.checksum },
-    label: str(d.label), track: str(d.track) || 'classical', family: str(m.family) || 'other', description: str(m.description),
+    // an unknown or missing track or family is kept as it came (the form marks it), never replaced by another
+    label: str(d.label), track: str(d.track), family: str(m.family), description: str(m.description),
     settings: Object.entries((m.settings ?? {}) as Obj).map(([key, v]) => ({ id: rowId(), key, value: str(v) })),
     resources: Object.fromEntries(Object.entries(resRest).map(([k, v]) => [k, str(v)])),
     resourcesExtra: software !== undefined ? { software } : {},
@@ -155,19 +161,91 @@ export function documentFromForm(f: EntryForm): EntryDocument {
 }
 
 /**
- * Rows pasted from a spreadsheet (tab- or comma-separated): target, value, uncertainty[, kind].
- * A first line whose value column is not a number is taken for a header and skipped.
+ * Spellings of the uncertainty kinds that a spreadsheet may hold, mapped explicitly (compared in
+ * lower case, without surrounding spaces). Anything else is not guessed: the paste reports it.
  */
-export function rowsFromTsv(text: string, defaultKind = 'statistical'): EstimateRow[] {
+export const KIND_ALIASES: Record<string, string> = {
+  statistical: 'statistical', stat: 'statistical', stats: 'statistical', 'stat.': 'statistical', statistic: 'statistical',
+  systematic: 'systematic', sys: 'systematic', syst: 'systematic', 'syst.': 'systematic', 'sys.': 'systematic', systematics: 'systematic',
+  bound: 'bound', bnd: 'bound', 'error bound': 'bound',
+  none: 'none', exact: 'none',
+};
+
+/** the uncertainty kind a cell names, or null when it names none of them */
+export function kindFromCell(cell: string): string | null {
+  return KIND_ALIASES[cell.trim().toLowerCase()] ?? null;
+}
+
+export interface PastedRows { rows: EstimateRow[]; problems: Problem[] }
+
+/**
+ * Rows pasted from a spreadsheet (tab- or comma-separated): target, value, uncertainty[, kind].
+ * A first line whose value column is not a number is taken for a header and skipped. A kind is
+ * mapped by KIND_ALIASES; an unknown one stays in the row as typed and is reported, with the row
+ * numbered as the table shows it (from 1; `firstRow` is the 0-based table row of the first line).
+ */
+export function rowsFromTsv(text: string, defaultKind = 'statistical', firstRow = 0): PastedRows {
   const lines = text.replace(/\r/g, '').split('\n').filter((l) => l.trim());
-  const out: EstimateRow[] = [];
+  const rows: EstimateRow[] = [];
+  const problems: Problem[] = [];
   lines.forEach((line, i) => {
     const cells = (line.includes('\t') ? line.split('\t') : line.split(/[,;]/)).map((c) => c.trim());
     if (i === 0 && cells.length > 1 && !Number.isFinite(Number(cells[1].replace(/\u2212/g, '-')))) return;
-    const kind = cells[3] && UNCERTAINTY_KINDS.includes(cells[3]) ? cells[3] : defaultKind;
-    out.push({ id: rowId(), target: cells[0] ?? '', value: cells[1] ?? '', uncertainty: cells[2] ?? '', kind, extra: {} });
+    const at = firstRow + rows.length;
+    let kind = defaultKind;
+    if (cells[3]) {
+      const k = kindFromCell(cells[3]);
+      if (k) kind = k;
+      else {
+        kind = cells[3];
+        problems.push({ path: `/estimates/${at}/uncertaintyKind`, message: `row ${at + 1}: "${cells[3]}" is not an uncertainty kind; use one of ${UNCERTAINTY_KINDS.join(', ')}` });
+      }
+    }
+    rows.push({ id: rowId(), target: cells[0] ?? '', value: cells[1] ?? '', uncertainty: cells[2] ?? '', kind, extra: {} });
+  });
+  return { rows, problems };
+}
+
+/**
+ * What the form can tell before asking the server: a track, method family or uncertainty kind
+ * that is not one of the schema's values (each named with the allowed ones), rows numbered from 1.
+ */
+export function localProblems(f: EntryForm): Problem[] {
+  const out: Problem[] = [];
+  if (!TRACKS.includes(f.track)) out.push({ path: '/track', message: f.track ? `"${f.track}" is not a track; use one of ${TRACKS.join(', ')}` : `choose a track: ${TRACKS.join(' or ')}` });
+  if (!METHOD_FAMILIES.includes(f.family)) out.push({ path: '/method/family', message: f.family ? `"${f.family}" is not a method family; use one of ${METHOD_FAMILIES.join(', ')}` : `choose a method family: ${METHOD_FAMILIES.join(', ')}` });
+  f.estimates.forEach((r, i) => {
+    if (!UNCERTAINTY_KINDS.includes(r.kind)) out.push({ path: `/estimates/${i}/uncertaintyKind`, message: `row ${i + 1}: "${r.kind}" is not an uncertainty kind; use one of ${UNCERTAINTY_KINDS.join(', ')}` });
   });
   return out;
+}
+
+/** Problems of both sources, one per pointer and message, in the order of the document. */
+export function mergeProblems(a: Problem[], b: Problem[]): Problem[] {
+  const seen = new Set<string>();
+  const out: Problem[] = [];
+  for (const p of [...a, ...b]) {
+    const l = locate(p.path);
+    // one message per cell: the server's wording wins over the form's for the same field
+    const key = l.kind === 'cell' ? `${l.row}:${l.column}` : p.path;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push(p);
+  }
+  return out.sort((x, y) => x.path.localeCompare(y.path, 'en', { numeric: true }));
+}
+
+/** "/estimates/3/value" as the table says it: "row 4, value"; other pointers as they are */
+export function describePath(path: string): string {
+  const m = /^\/estimates\/(\d+)(?:\/([^/]+))?/.exec(path);
+  if (!m) return path || '(document)';
+  const col = m[2] ? ESTIMATE_FIELD[m[2]] ?? m[2] : null;
+  return `row ${Number(m[1]) + 1}${col ? `, ${col}` : ''}`;
+}
+
+/** pointers into the estimates inside a message, with the row the table shows: "/estimates/2" -> "row 3 (/estimates/2)" */
+export function rowsInMessage(message: string): string {
+  return message.replace(/\/estimates\/(\d+)(?![\d/])/g, (all, n: string) => `row ${Number(n) + 1} (${all})`);
 }
 
 // ------------------------------------------------------------------ problems by field
