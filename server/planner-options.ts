@@ -5,10 +5,12 @@
  * job will not run.
  */
 import type { PlannerOptions } from '@shared/physics/planner';
+import { WASM_MAX_QUBITS } from '@shared/physics/statevector';
 
 export interface ReferenceBudget { secondsPerTarget: number; coneQubitLimit: number }
 /** The defaults of server/config.ts (a worker started without a budget uses them too). */
-export const DEFAULT_REFERENCE_BUDGET: ReferenceBudget = { secondsPerTarget: 120, coneQubitLimit: 26 };
+/** the cone limit is where the fast (WebAssembly) statevector kernel ends (WASM_MAX_QUBITS, 27) */
+export const DEFAULT_REFERENCE_BUDGET: ReferenceBudget = { secondsPerTarget: 120, coneQubitLimit: WASM_MAX_QUBITS };
 
 export function plannerOptions(b: ReferenceBudget = DEFAULT_REFERENCE_BUDGET): PlannerOptions {
   return { secondsBudget: b.secondsPerTarget, coneQubitLimit: b.coneQubitLimit, statevectorQubitLimit: b.coneQubitLimit };

@@ -71,7 +71,9 @@ async function referencesJob(job: JobRow, w: WorkerContext) {
     const targetId = idOf.get(m.targetId)!;
     await w.db.insert(references).values(r.value === null
       ? { targetId, value: null, method: 'none', reason: r.reason, engineVersion: r.engineVersion }
-      : { targetId, value: r.value, method: r.method, size: { [r.unit]: r.size }, wallMs: r.wallMs, engineVersion: r.engineVersion },
+      // size: the method's own measure, plus the tensor network's width, flops and slices and the
+      // cross-check by a second exact method where one ran (shown with the reference)
+      : { targetId, value: r.value, method: r.method, size: { [r.unit]: r.size, detail: r.detail, ...(r.width !== undefined ? { width: r.width, flops: r.flops, slices: r.slices } : {}), ...(r.crossCheck ? { crossCheck: r.crossCheck } : {}) }, wallMs: r.wallMs, engineVersion: r.engineVersion },
     ).onConflictDoNothing();
     stored++;
     if (r.value !== null) exact++;

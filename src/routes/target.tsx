@@ -2,7 +2,7 @@ import { lazy, Suspense, useMemo } from 'react';
 import { Link, useParams } from 'react-router';
 import { parseObservable, type ObservableJson } from '@shared/physics/observable';
 import { useTarget, type TargetDetail, type TargetEstimate } from '@/features/targets/api/get-target';
-import { describeSize } from '@/features/challenges/api/get-targets';
+import { describeCrossCheck, describeSize } from '@/features/challenges/api/get-targets';
 import { ObservableFormula } from '@/features/challenges/components/observable-formula';
 import { Legend, LegendMark } from '@/features/challenges/components/chart-bits';
 import type { MarkKind } from '@/features/challenges/charts/theme';
@@ -116,7 +116,7 @@ function ReferencePanel({ t }: { t: TargetDetail }) {
             <dt className="text-ink-soft">Time</dt><dd className="num">{formatMs(r.wallMs)}</dd>
             <dt className="text-ink-soft">Engine</dt><dd>{r.engineVersion ?? '—'}</dd>
             <dt className="text-ink-soft">Computed</dt><dd className="num">{formatDateTime(r.createdAt)}</dd>
-            <dt className="text-ink-soft">Cross-checks</dt><dd>{crossChecks(r.size)}</dd>
+            <dt className="text-ink-soft">Cross-checks</dt><dd>{describeCrossCheck(r.size) || 'none recorded'}</dd>
           </dl>
         </div>
       ) : r.status === 'sealed' ? (
@@ -128,11 +128,6 @@ function ReferencePanel({ t }: { t: TargetDetail }) {
       )}
     </Panel>
   );
-}
-
-function crossChecks(size: Record<string, number> | null): string {
-  const keys = Object.keys(size ?? {}).filter((k) => /cross|check/i.test(k));
-  return keys.length ? keys.map((k) => `${k}: ${size![k]}`).join(', ') : 'none recorded';
 }
 
 function ConsensusPanel({ t }: { t: TargetDetail }) {

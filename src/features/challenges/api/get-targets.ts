@@ -34,12 +34,32 @@ export const getTargetsQueryOptions = (slug: string) =>
 export const useTargets = (slug: string) => useQuery({ ...getTargetsQueryOptions(slug), enabled: Boolean(slug) });
 
 /** "free-fermion, 60 sites" */
-export function describeSize(size: Record<string, number> | null | undefined): string {
+/** What a reference's size record holds: the method's measure, and for a tensor network its width, flops and slices; the provenance sentence and a cross-check by a second exact method where one ran. */
+export interface ReferenceSize {
+  sites?: number; qubits?: number; terms?: number; width?: number; flops?: number; slices?: number;
+  detail?: string;
+  crossCheck?: { method: string; value: number; absDiff: number; wallMs: number };
+  [k: string]: unknown;
+}
+
+export function describeSize(size: ReferenceSize | Record<string, unknown> | null | undefined): string {
   if (!size) return '';
+  const s = size as ReferenceSize;
   const parts: string[] = [];
-  if (size.sites !== undefined) parts.push(`${size.sites} sites`);
-  if (size.qubits !== undefined) parts.push(`${size.qubits} qubits`);
-  if (size.terms !== undefined) parts.push(`${size.terms} term${size.terms === 1 ? '' : 's'}`);
-  for (const [k, v] of Object.entries(size)) if (!['sites', 'qubits', 'terms'].includes(k)) parts.push(`${v} ${k}`);
+  if (typeof s.sites === 'number') parts.push(`${s.sites} sites`);
+  if (typeof s.qubits === 'number') parts.push(`${s.qubits} qubits`);
+  if (typeof s.terms === 'number') parts.push(`${s.terms} term${s.terms === 1 ? '' : 's'}`);
+  if (typeof s.width === 'number') parts.push(`width ${s.width}`);
+  if (typeof s.flops === 'number' && s.flops > 0) parts.push(`2^${Math.log2(s.flops).toFixed(1)} flops`);
+  if (typeof s.slices === 'number' && s.slices > 1) parts.push(`${s.slices} slices`);
+  const known = new Set(['sites', 'qubits', 'terms', 'width', 'flops', 'slices', 'detail', 'crossCheck']);
+  for (const [k, v] of Object.entries(s)) if (!known.has(k) && typeof v === 'number') parts.push(`${v} ${k}`);
   return parts.join(', ');
+}
+
+/** "cross-checked by light-cone statevector, |diff| 3e-16", or '' when no second exact method ran. */
+export function describeCrossCheck(size: ReferenceSize | Record<string, unknown> | null | undefined): string {
+  const c = (size as ReferenceSize | null | undefined)?.crossCheck;
+  if (!c || typeof c.absDiff !== 'number') return '';
+  return `cross-checked by ${c.method.replace(/-/g, ' ')}, |diff| ${c.absDiff === 0 ? '0' : c.absDiff.toExponential(0).replace('e', '·10^')}`;
 }

@@ -1,12 +1,12 @@
 import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
-import { describeSize, useTargets, type Target } from '@/features/challenges/api/get-targets';
+import { describeCrossCheck, describeSize, useTargets, type Target } from '@/features/challenges/api/get-targets';
 import { chiSquaredText, estimatorName, formatAngle, formatDate, formatDateTime, formatMs, formatSig } from '@/lib/format';
 import { Badge, EmptyState, ErrorState, Measured, PageLoading, Panel, ProvenanceList, cx } from '@/components/ui';
 import { observableLabel } from './spec-section';
 
-const SHORT: Record<string, string> = { 'free-fermion': 'free-ferm.', 'pauli-propagation': 'Pauli prop.', 'light-cone-statevector': 'cone SV', statevector: 'SV', clifford: 'Clifford' };
+const SHORT: Record<string, string> = { 'tensor-network': 'tensor net.', 'free-fermion': 'free-ferm.', 'pauli-propagation': 'Pauli prop.', 'light-cone-statevector': 'cone SV', statevector: 'SV', clifford: 'Clifford' };
 
 function cellText(t: Target): { top: string; bottom: string } {
   const r = t.reference;
@@ -130,6 +130,7 @@ function TargetDetail({ t, slug }: { t: Target; slug: string }) {
             ['Value', <Measured key="v" value={r.value} u={r.uncertainty} />],
             ['Method', r.method],
             ['Size', describeSize(r.size) || '—'],
+            ['Cross-check', describeCrossCheck(r.size) || 'none recorded'],
             ['Wall time', formatMs(r.wallMs)],
             ['Engine', r.engineVersion ?? '—'],
             ['Computed', formatDateTime(r.createdAt)],
