@@ -13,6 +13,7 @@ import { entryDocument, isPublicEntry } from '../presenters/entry';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import { entryAccess } from '../queries/entry-access';
 import type { RouteTable } from './registry';
+import { viewerOf, visibleReferences } from '../queries/visibility';
 
 const byKey = (a: string, b: string) => a.localeCompare(b, 'en', { numeric: true });
 
@@ -65,7 +66,10 @@ export function registerScriptRoutes(routes: RouteTable, ctx: AppContext): void 
     handler: async (req, res) => {
       const e = await loadEntry(req);
       if (!isPublicEntry(e) && !(await privileged(req, e.teamId))) throw notFound('The entry');
-      const doc = await entryDocument(db, e);
+      // the one sealed rule (queries/visibility.ts): the house baseline's estimates of sealed targets are withheld
+      const refs = await visibleReferences(db, e.versionId, await viewerOf(db, req.actor), ctx.now());
+      const { withheld, ...doc } = await entryDocument(db, e, refs.sealed);
+      if (withheld) res.setHeader('X-Parallax-Withheld-Estimates', String(withheld));
       res.setHeader('Content-Disposition', `attachment; filename="entry-${e.id}.json"`);
       res.type('application/json').send(JSON.stringify(doc, null, 2) + '\n');
     },

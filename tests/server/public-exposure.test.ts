@@ -83,9 +83,13 @@ async function allPublic(a: Agent = agent(t), { ok = false } = {}): Promise<stri
     if (ok && !p.includes('/jobs/') && !p.match(/\/entries\/[^/]+(\/|$)/)) expect(r.status, p).toBe(200);
     return r.text;
   }));
-  // the public POST routes: the dry run is the only one, with a document answering every target
-  const posts = t.routes.defs.filter((r) => r.access === 'public' && r.method !== 'get').map((r) => r.path);
-  expect(posts).toEqual(['/entries/validate']);
+  // the public POST routes: the dry run (called below with a document answering every target) and
+  // the one-click unfollow (it takes a token and answers with the subject only: called below too)
+  const posts = t.routes.defs.filter((r) => r.access === 'public' && r.method !== 'get').map((r) => r.path).sort();
+  expect(posts).toEqual(['/entries/validate', '/follows/unfollow']);
+  const unfollow = await a.raw.post('/api/follows/unfollow').set('Origin', ORIGIN).set('Content-Type', 'application/json').send(JSON.stringify({ token: 'not-a-token' }));
+  expect(unfollow.status).toBeLessThan(500);
+  bodies.push(unfollow.text);
   const doc = { challenge: { id: 'pub-chain', version: 1, checksum: `sha256:${checksum}` }, track: 'classical', label: 'dry', method: { family: 'other' }, estimates: secrets.map((x) => ({ target: x.key, value: 0.25, uncertainty: 0.01, uncertaintyKind: 'statistical' })) };
   const dry = await a.raw.post('/api/entries/validate').set('Origin', ORIGIN).set('Content-Type', 'application/json').send(JSON.stringify(doc));
   expect(dry.status, dry.text).toBe(200);
