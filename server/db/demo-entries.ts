@@ -9,7 +9,7 @@ import { createRng } from '@shared/scoring/prng';
 import type { Db } from './client';
 import { challengeVersions, entries, estimates, organization, references, targets, instances } from './schema';
 import { runCompute } from '../jobs/run-compute';
-import { registerJobHandler } from '../jobs/worker';
+import type { JobHandler } from '../jobs/types';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit } from '../services/record-audit';
 
@@ -87,7 +87,8 @@ async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry
   });
 }
 
-registerJobHandler('demo-entries', async (job, w) => {
+/** The invented demo entries of a demo challenge version, made from its computed references. */
+export const demoEntriesJob: JobHandler = async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const [v] = await w.db.select().from(challengeVersions).where(eq(challengeVersions.id, versionId));
   if (!v) throw new Error('no such version');
@@ -97,7 +98,7 @@ registerJobHandler('demo-entries', async (job, w) => {
   const ts = await truths(w.db, versionId, v.spec);
   const seed = [...v.challengeSlug].reduce((a, ch) => a * 31 + ch.charCodeAt(0), 7) >>> 0;
   const day = 86400_000;
-  const base = Date.now() - 20 * day;
+  const base = w.now().getTime() - 20 * day;
   const list: DemoEntry[] = [
     { team: 'cobalt-qubit-lab', state: 'published', track: 'hardware', family: 'error-mitigated-hardware', label: 'Juniper-156, ZNE (linear, 4 scales)',
       document: { method: { family: 'error-mitigated-hardware', settings: { noiseScaleFactors: [1, 1.5, 2, 3], extrapolation: 'weighted linear', amplification: 'gate folding', shots: 4096, twirls: 32 } }, resources: { qpuSeconds: 5400, qubitsUsed: 68, device: 'Juniper-156 (fictional)', hardware: 'fictional superconducting device' }, license: 'CC-BY-4.0' },
@@ -116,4 +117,4 @@ registerJobHandler('demo-entries', async (job, w) => {
   for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(base + (n++) * 3 * day));
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
   return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length };
-});
+};

@@ -17,7 +17,7 @@ import { revealSeal } from '../services/reveal-references';
 import { sendAll, teamEmails } from '../services/decide-entry';
 import { standingsCache } from '../services/standings-cache';
 import { enqueueJob } from './queue';
-import { registerJobHandler } from './worker';
+import type { JobHandler } from './types';
 
 export const REVEAL_POLL_MS = 10_000;
 const contexts = new WeakMap<Db, AppContext>();
@@ -40,10 +40,10 @@ export function startRevealClock(ctx: AppContext): void {
   timer.unref();
 }
 
-registerJobHandler('reveal', async (job, w) => {
+export const revealJob: JobHandler = async (job, w) => {
   const payload = job.payload as { sealId: string; now?: string };
-  // the reveal time: the later of the clock that queued it and this process's clock
-  const now = new Date(Math.max(Date.now(), payload.now ? Date.parse(payload.now) : 0));
+  // the reveal time: the later of the clock that queued it and the worker's (injected) clock
+  const now = new Date(Math.max(w.now().getTime(), payload.now ? Date.parse(payload.now) : 0));
   const out = await revealSeal(w.db, payload.sealId, now);
   if (!out.revealed) return { ...out };
   await recomputeStandings(w.db, out.versionId!, now);
@@ -70,4 +70,4 @@ registerJobHandler('reveal', async (job, w) => {
   }
   w.log.info('references.unseal', { sealId: out.sealId, challenge: out.slug, targets: out.targets, commitments: out.commitments?.length ?? 0, mailed });
   return { ...out, mailed };
-});
+};

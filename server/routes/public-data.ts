@@ -9,6 +9,7 @@ import { badRequest, notFound } from '../errors';
 import { validateSpecOrThrow } from '../services/create-challenge-version';
 import { loadChallengeVersion } from './challenges';
 import { sealedTargetKeys } from '../services/recompute-standings';
+import { ENGINE_CHANGE } from '../jobs/engine-upgrade';
 import type { RouteTable } from './registry';
 
 /** Published entries of a version that the public may see (not hidden by a moderator). */
@@ -62,7 +63,7 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
   });
 
   routes.add({
-    method: 'get', path: '/challenges/:slug/history', access: 'public', summary: 'Versions, reference computations, rescoring events and public moderation events, newest first',
+    method: 'get', path: '/challenges/:slug/history', access: 'public', summary: 'Versions, reference computations, standings recomputations, reference-engine changes and public moderation events, newest first',
     handler: async (req) => {
       const { challenge: c } = await loadChallengeVersion(db, req);
       const versions = await db.select().from(challengeVersions).where(eq(challengeVersions.challengeSlug, c.slug));
@@ -79,16 +80,20 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         events.push({ at: (j.finishedAt ?? j.createdAt).toISOString(), kind: 'references', version: vOf.get((j.payload as { versionId: string }).versionId), summary: `Exact references computed: ${r?.exact ?? '?'} of ${r?.targets ?? '?'} targets (${r?.engine ?? ''})` });
       }
       const st = vIds.length ? await db.select({ id: standings.id, versionId: standings.versionId, at: standings.computedAt, engine: standings.engineVersion }).from(standings).where(inArray(standings.versionId, vIds)).orderBy(desc(standings.computedAt)).limit(200) : [];
-      for (const s of st) events.push({ at: s.at.toISOString(), kind: 'rescoring', version: vOf.get(s.versionId), summary: `Standings recomputed (${s.engine})`, details: { asOf: s.at.toISOString() } });
+      for (const s of st) events.push({ at: s.at.toISOString(), kind: 'standings', version: vOf.get(s.versionId), summary: `Standings recomputed (${s.engine})`, details: { asOf: s.at.toISOString() } });
       const entryRows = await db.select({ id: entries.id, label: entries.label, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId)).where(eq(entries.challengeSlug, c.slug));
       const entryIds = entryRows.map((e) => e.id);
       const entryOf = new Map(entryRows.map((e) => [e.id, e]));
-      const PUBLIC_ACTIONS = ['challenge.publish', 'entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide', 'target.dispute', 'target.undispute', 'references.seal', 'references.unseal', 'challenge.settings'];
+      const PUBLIC_ACTIONS = ['challenge.publish', 'entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide', 'target.dispute', 'target.undispute', 'references.seal', 'references.unseal', 'challenge.settings', ENGINE_CHANGE];
       const audit = await db.select().from(auditLog).where(and(inArray(auditLog.action, PUBLIC_ACTIONS), or(and(eq(auditLog.subjectType, 'challenge'), eq(auditLog.subjectId, c.slug)), entryIds.length ? and(eq(auditLog.subjectType, 'entry'), inArray(auditLog.subjectId, entryIds)) : sql`false`)))
         .orderBy(desc(auditLog.at)).limit(300);
       for (const a of audit) {
         if (a.action === 'challenge.publish') continue; // shown as a version event
         const d = a.details as Record<string, unknown>;
+        if (a.action === ENGINE_CHANGE) {
+          events.push({ at: a.at.toISOString(), kind: 'engine', version: Number(d.version), summary: `Reference engine ${d.from} -> ${d.to}: ${d.references} references recomputed, standings rescored` });
+          continue;
+        }
         events.push({ at: a.at.toISOString(), kind: a.action, summary: `${a.action.replace('.', ' ')}${d.reason ? `: ${d.reason}` : ''}${d.note ? `: ${d.note}` : ''}`, details: { subject: a.subjectId, ...(a.subjectType === 'entry' && entryOf.has(a.subjectId) ? { label: entryOf.get(a.subjectId)!.label, teamName: entryOf.get(a.subjectId)!.teamName } : {}), ...(d.reason ? { reason: d.reason } : {}) } });
       }
       events.sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));

@@ -123,7 +123,7 @@ async function buildWorld(dataDir: string): Promise<World> {
   try {
     const mod = await signUpVerified(t, 'mod@child.test', 'Moe Moderator');
     await setRole(t, 'mod@child.test', 'moderator');
-    const worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
+    const worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 50 });
     t.ctx.jobs.kick = () => worker.kick();
     const c = await mod.post('/api/challenges', CHAIN_SPEC);
     if (c.status !== 201) throw new Error(`challenge ${c.status} ${c.text}`);

@@ -69,7 +69,7 @@ async function prepareEntryWorld(dir: string): Promise<PreparedWorld> {
   try {
     const mod = await signUpVerified(t, e.mod, 'Moe Moderator');
     await setRole(t, e.mod, 'moderator');
-    const worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
+    const worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 50 });
     t.ctx.jobs.kick = () => worker.kick();
     expect((await mod.post('/api/challenges', CHAIN_SPEC)).status).toBe(201);
     const pub = await mod.post('/api/challenges/chain-12/publish', {});
@@ -101,7 +101,7 @@ async function prepareEntryWorld(dir: string): Promise<PreparedWorld> {
 export async function makeEntryWorld(): Promise<EntryWorld> {
   const { value: w } = await buildOnce(inject('runCache'), 'entry-world', prepareEntryWorld);
   const t = await makeTestApp({}, { pgliteDump: w.pgliteDump, pgTemplate: w.pgTemplate });
-  const worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
+  const worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 50 });
   t.ctx.jobs.kick = () => worker.kick();
   const [mod, leadA, memberA, memberB] = await Promise.all([WORLD_EMAILS.mod, WORLD_EMAILS.leadA, WORLD_EMAILS.memberA, WORLD_EMAILS.memberB].map((x) => signIn(t, x)));
   return { t, worker, mod, leadA, memberA, memberB, teamA: w.teamA, teamB: w.teamB, keyA: w.keyA, checksum: w.checksum, targets: w.targets };

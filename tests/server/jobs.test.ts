@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { agent, makeTestApp, setRole, signUpVerified, type TestApp, type Agent } from './helpers';
-import { registerJobHandler, startWorker } from '../../server/jobs/worker';
+import { startWorker } from '../../server/jobs/worker';
 import { enqueueJob, type JobKind } from '../../server/jobs/queue';
 import { jobs, references, targets } from '../../server/db/schema';
 
@@ -52,9 +52,8 @@ describe('reference jobs', () => {
   });
 
   it('a failed job keeps its error, and the API shows it', async () => {
-    registerJobHandler('explode-test' as JobKind, async () => { throw new Error('the compute thread ran out of memory (test)'); });
     const id = await enqueueJob(t.database.db, 'explode-test' as JobKind, { versionId: 'none' });
-    const w = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
+    const w = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 50, extraHandlers: { 'explode-test': async () => { throw new Error('the compute thread ran out of memory (test)'); } } });
     await drain(w);
     await w.stop();
     const r = await agent(t).get(`/api/jobs/${id}`);

@@ -34,7 +34,7 @@ beforeAll(async () => {
   t = await makeTestApp();
   const mod = await signUpVerified(t, 'mod@s.test');
   await setRole(t, 'mod@s.test', 'moderator');
-  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 100 });
   t.ctx.jobs.kick = () => worker.kick();
   expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
   expect((await mod.post('/api/challenges/st-chain/publish', {})).status).toBe(200);
