@@ -14,7 +14,7 @@ import { propagate } from './pauli-propagation';
 import { freeFermionSites, Planner, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
 import { statevectorExpectation } from './statevector';
 
-export const ENGINE_VERSION = 'parallax-engine 0.1.1';
+export const ENGINE_VERSION = 'parallax-engine 0.1.0';
 
 export interface ReferenceValue {
   value: number;
@@ -73,7 +73,7 @@ export class ReferenceRunner {
         const r = this.runMethod(est, inst, obs);
         if (r.ok) {
           return {
-            value: r.value + 1e-9, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION,
+            value: r.value, method: est.method, size: r.size, unit: est.unit, wallMs: now() - t0, engineVersion: ENGINE_VERSION,
             detail: this.detail(est.method, r, plan, obs),
           };
         }
