@@ -6,6 +6,7 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
+import { settle } from './entries-fixtures';
 import { startWorker, type Worker } from '../../server/jobs/worker';
 import { entries, estimates, organization, targets, references } from '../../server/db/schema';
 import { recomputeStandings } from '../../server/services/recompute-standings';
@@ -38,7 +39,10 @@ beforeAll(async () => {
   t.ctx.jobs.kick = () => worker.kick();
   expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
   expect((await mod.post('/api/challenges/st-chain/publish', {})).status).toBe(200);
-  for (let i = 0; i < 300 && (await t.database.db.query.jobs.findMany()).some((j) => j.state !== 'done' && j.state !== 'failed'); i++) { await worker.idle(); await new Promise((r) => setTimeout(r, 100)); }
+  // every job of the publication runs to the end (references, the house baseline, standings): the
+  // tests below expect the baseline to be there, and fail if it is not (settle throws on a timeout)
+  const settled = await settle(t, worker);
+  expect(settled.filter((j) => j.state === 'failed')).toEqual([]);
   const db = t.database.db;
   const tg = await db.select({ id: targets.id, key: targets.key, versionId: targets.versionId }).from(targets).orderBy(targets.key);
   keys = tg.map((x) => x.key);
@@ -57,17 +61,25 @@ beforeAll(async () => {
 }, 120_000);
 afterAll(async () => { await worker.stop(); await t.close(); });
 
+/** The house baseline's estimates by target: exactly one baseline, with an estimate for every target. */
+async function houseBaseline() {
+  const baseline = await t.database.db.select().from(entries).where(eq(entries.isBaseline, true));
+  expect(baseline).toHaveLength(1);
+  const est = await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id));
+  expect(est.map((e) => e.targetKey).sort()).toEqual([...keys].sort());
+  return new Map(est.map((e) => [e.targetKey, e]));
+}
+
 describe('standings and consensus', () => {
   it('consensus per unverifiable target equals the library (DerSimonian-Laird by default)', async () => {
     const r = await agent(t).get('/api/challenges/st-chain/targets');
     expect(r.status).toBe(200);
     expect(r.body.estimator).toBe('random-effects-dl');
-    const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
-    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
+    const baseEst = await houseBaseline();
     for (const k of [2, 3]) {
       const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
-      const b = baseEst.find((e) => e.targetKey === keys[k]);
-      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty }); // the house baseline is published first
+      const b = baseEst.get(keys[k])!;
+      ms.unshift({ value: b.value, uncertainty: b.uncertainty }); // the house baseline is published first
       const lib = consensus(ms, 'random-effects-dl');
       const got = r.body.targets.find((x: any) => x.key === keys[k]);
       expect(got.reference.status).toBe('none');
@@ -101,14 +113,13 @@ describe('standings and consensus', () => {
     const r = await agent(t).get('/api/challenges/st-chain/standings');
     const d = r.body.entries.find((e: any) => e.label === 'entry D');
     const targetsR = (await agent(t).get('/api/challenges/st-chain/targets')).body.targets;
-    const baseline = (await t.database.db.select().from(entries).where(eq(entries.isBaseline, true)));
-    const baseEst = baseline.length ? await t.database.db.select().from(estimates).where(eq(estimates.entryId, baseline[0].id)) : [];
+    const baseEst = await houseBaseline();
     const ratios = [2, 3].map((k) => {
       const ms = Object.values(NUMBERS).map((nums) => ({ value: nums[k][0], uncertainty: nums[k][1] }));
-      const b = baseEst.find((e) => e.targetKey === keys[k]);
-      if (b) ms.unshift({ value: b.value, uncertainty: b.uncertainty });
+      const b = baseEst.get(keys[k])!;
+      ms.unshift({ value: b.value, uncertainty: b.uncertainty });
       const c = consensus(ms, 'random-effects-dl');
-      const doe = degreesOfEquivalence(ms, c)[b ? 4 : 3];
+      const doe = degreesOfEquivalence(ms, c)[4]; // D, after the baseline and A, B, C
       expect(targetsR[k].consensus).toBeTruthy();
       return Math.abs(doe.d) / doe.U;
     }).sort((a, b) => a - b);
