@@ -11,6 +11,7 @@
  *   js-kernels.ts    the JS kernels and the fused pass (singles in few passes, one diagonal phase)
  *   wasm-module.ts   the hand-assembled WebAssembly SIMD module
  *   wasm-kernels.ts  the same fused pass on the module's memory
+ *   diagonal-plan.ts the diagonal plan and phase tables both fused passes use (one copy)
  *   fusion.ts        greedy planning of a gate list into [singles, diagonal] pairs
  *   statevector.ts   the Statevector class and statevectorExpectation
  *
@@ -31,6 +32,7 @@
  */
 export { BYTES_PER_AMPLITUDE, DEFAULT_MAX_QUBITS, HARD_MAX_QUBITS, statevectorBytes, QubitLimitError, checkQubitLimit, type ProgressCallback, type StatevectorOptions } from './limits';
 export { mat2Mul, gateMatrix, type Mat2, type DiagTerm } from './matrices';
-export { _prefetchSink, BLOCK_BITS, HIGH_GROUP, RUN_BITS, DIAG_MAX_CROSS, applyFused, applySingles, applyDiagonal } from './js-kernels';
+export { _prefetchSink, BLOCK_BITS, HIGH_GROUP, RUN_BITS, applyFused, applySingles, applyDiagonal } from './js-kernels';
+export { DIAG_MAX_CROSS } from './diagonal-plan';
 export { WASM_MAX_QUBITS, wasmKernelsAvailable } from './wasm-module';
 export { Statevector, statevectorExpectation } from './statevector';

@@ -1,5 +1,6 @@
 /** The plain typed-array kernels (the fallback engine, engine: 'js') and the fused pass they share. */
 import { termAngle, type DiagTerm, type Mat2 } from './matrices';
+import { fillPhaseTables, planDiagonal } from './diagonal-plan';
 
 // ------------------------------------------------------------------------------------------------
 // Kernels on the interleaved array d (amplitude i at d[2i], d[2i+1]).
@@ -235,8 +236,6 @@ export const BLOCK_BITS = 11;
 /** High qubits are applied HIGH_GROUP at a time on 2^HIGH_GROUP runs of 2^RUN_BITS amplitudes. */
 export const HIGH_GROUP = 7;
 export const RUN_BITS = 8;
-/** At most this many distinct high qubits may be touched by gates crossing the low/high split. */
-export const DIAG_MAX_CROSS = 6;
 
 export function insertZeroBit(u: number, pos: number): number {
   const low = u & ((1 << pos) - 1);
@@ -308,49 +307,12 @@ export function applyFused(d: Float64Array, n: number, qubits: number[], mats: M
   }
   if (!lowPass) return;
 
-  // diagonal plan
-  const lowTerms: DiagTerm[] = [];
-  const highTerms: DiagTerm[] = [];
-  const crossTerms: DiagTerm[] = [];
-  const extra: DiagTerm[] = [];
-  const cross: number[] = [];
-  for (const t of terms) {
-    const nLow = t.qubits.filter((q) => q < W).length;
-    if (nLow === t.qubits.length) lowTerms.push(t);
-    else if (nLow === 0) highTerms.push(t);
-    else {
-      const hq = t.qubits[0] >= W ? t.qubits[0] : t.qubits[1];
-      if (!cross.includes(hq)) {
-        if (cross.length >= DIAG_MAX_CROSS) { extra.push(t); continue; }
-        cross.push(hq);
-      }
-      crossTerms.push(t);
-    }
-  }
-  const hasDiag = lowTerms.length + crossTerms.length > 0;
+  // diagonal plan (diagonal-plan.ts, shared with the wasm kernels)
+  const plan = planDiagonal(terms, W);
+  const { highTerms, extra, cross, hasTableTerms: hasDiag } = plan;
   const C = cross.length;
   const tables: Float64Array[] = [];
-  if (hasDiag) {
-    const lowAngle = new Float64Array(L);
-    for (let l = 0; l < L; l++) {
-      let a = 0;
-      for (const t of lowTerms) a += termAngle(t, l);
-      lowAngle[l] = a;
-    }
-    for (let c = 0; c < 1 << C; c++) {
-      let hiBits = 0;
-      for (let j = 0; j < C; j++) if (c & (1 << j)) hiBits |= 1 << cross[j];
-      const tab = new Float64Array(2 * L);
-      for (let l = 0; l < L; l++) {
-        let a = lowAngle[l];
-        const idx = hiBits | l;
-        for (const t of crossTerms) a += termAngle(t, idx);
-        tab[2 * l] = Math.cos(a);
-        tab[2 * l + 1] = Math.sin(a);
-      }
-      tables.push(tab);
-    }
-  }
+  if (hasDiag) fillPhaseTables(plan, L, () => { const t = new Float64Array(2 * L); tables.push(t); return t; });
 
   const first = lowOps.length > 0 ? lowOps[0] : null;
   const rest = lowOps.slice(1);

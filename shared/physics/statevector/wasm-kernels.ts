@@ -1,7 +1,8 @@
 /** The WebAssembly kernels: a state in the module's memory and the fused pass on it. */
 import { statevectorBytes } from './limits';
 import { termAngle, type DiagTerm, type Mat2 } from './matrices';
-import { BLOCK_BITS, DIAG_MAX_CROSS, HIGH_GROUP, RUN_BITS, insertZeroBit, isRealMat, isRxForm, q0Gen } from './js-kernels';
+import { DIAG_MAX_CROSS, fillPhaseTables, planDiagonal } from './diagonal-plan';
+import { BLOCK_BITS, HIGH_GROUP, RUN_BITS, insertZeroBit, isRealMat, isRxForm, q0Gen } from './js-kernels';
 import { getWasmModule, type WasmKernels } from './wasm-module';
 
 const SCRATCH_MATRIX = 64;
@@ -124,47 +125,12 @@ export function applyFusedWasm(ws: WasmState, n: number, qubits: number[], mats:
     }
   }
 
-  // diagonal plan (as in applyFused)
-  const lowTerms: DiagTerm[] = [];
-  const highTerms: DiagTerm[] = [];
-  const crossTerms: DiagTerm[] = [];
-  const extra: DiagTerm[] = [];
-  const cross: number[] = [];
-  for (const t of terms) {
-    const nLow = t.qubits.filter((q) => q < W).length;
-    if (nLow === t.qubits.length) lowTerms.push(t);
-    else if (nLow === 0) highTerms.push(t);
-    else {
-      const hq = t.qubits[0] >= W ? t.qubits[0] : t.qubits[1];
-      if (!cross.includes(hq)) {
-        if (cross.length >= DIAG_MAX_CROSS) { extra.push(t); continue; }
-        cross.push(hq);
-      }
-      crossTerms.push(t);
-    }
-  }
-  const hasDiag = terms.length > extra.length;
+  // diagonal plan (diagonal-plan.ts, shared with the JS kernels); the wasm pass applies the high
+  // terms through the tables too, so it runs whenever any term is planned
+  const plan = planDiagonal(terms, W);
+  const { highTerms, extra, cross, hasTerms: hasDiag } = plan;
   const C = cross.length;
-  if (hasDiag) {
-    const lowAngle = new Float64Array(L);
-    for (let l = 0; l < L; l++) {
-      let a = 0;
-      for (const t of lowTerms) a += termAngle(t, l);
-      lowAngle[l] = a;
-    }
-    for (let c = 0; c < 1 << C; c++) {
-      let hiBits = 0;
-      for (let j = 0; j < C; j++) if (c & (1 << j)) hiBits |= 1 << cross[j];
-      const tab = ws.table(c, L);
-      for (let l = 0; l < L; l++) {
-        let a = lowAngle[l];
-        const idx = hiBits | l;
-        for (const t of crossTerms) a += termAngle(t, idx);
-        tab[2 * l] = Math.cos(a);
-        tab[2 * l + 1] = Math.sin(a);
-      }
-    }
-  }
+  if (hasDiag) fillPhaseTables(plan, L, (c) => ws.table(c, L));
   if (lowIdx.length > 0 || hasDiag) {
     const H = 2 ** (n - W);
     // blocks h and h + H/2 go together (two memory streams keep more loads in flight)
