@@ -22,7 +22,7 @@ export default defineConfig({
         resolve: { alias },
         test: {
           name: 'shared',
-          include: ['tests/shared/**/*.test.ts'],
+          include: ['tests/shared/**/*.test.ts', 'tests/golden/**/*.test.ts'],
           environment: 'node',
           testTimeout: 60_000,
         },

@@ -37,9 +37,12 @@ trap stop EXIT
   -o "-p $PORT -k $TMP -c listen_addresses=127.0.0.1 -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=400" start >/dev/null
 echo "pg-test: PostgreSQL $("$PGBIN/postgres" --version | awk '{print $3}') on 127.0.0.1:$PORT (data in $TMP)"
 
-# the durability and backup tests use their own PGlite child servers: a short pass is enough here
-export DURABILITY_CYCLES="${DURABILITY_CYCLES:-3}"
+# The tests that start server processes (durability, backup, uploads) run their children on PGlite
+# data directories whatever TEST_DATABASE_URL says: the first pass (npm test) covers them, and
+# running them again here would test nothing new. Everything else runs on PostgreSQL, each test
+# database copied from a migrated template (CREATE DATABASE ... TEMPLATE, tests/server/helpers.ts).
 status=0
-TEST_DATABASE_URL="postgres://parallax@127.0.0.1:$PORT/postgres" node node_modules/vitest/vitest.mjs run --project server "$@" || status=$?
+TEST_DATABASE_URL="postgres://parallax@127.0.0.1:$PORT/postgres" node node_modules/vitest/vitest.mjs run --project server \
+  --exclude tests/server/durability.test.ts --exclude tests/server/backup.test.ts --exclude tests/server/uploads.test.ts "$@" || status=$?
 if [ $status -ne 0 ]; then echo "pg-test: the API tests failed on PostgreSQL (server log: last lines below)" >&2; tail -20 "$TMP/server.log" >&2 || true; fi
 exit $status

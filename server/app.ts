@@ -26,7 +26,7 @@ import { originCheck } from './middleware/origin-check';
 import { RouteTable } from './routes/registry';
 import { registerAllRoutes } from './routes';
 import { ThreadPool } from './jobs/thread-pool';
-import { VersionCache } from './services/challenge-computations';
+import { VersionCache } from './services/version-cache';
 
 export interface AppDeps {
   database: Database;

@@ -16,6 +16,7 @@ import { createLogger, type Logger } from './log';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './db/seed';
 import { startWorker, type Worker } from './jobs/worker';
 import { rescoreOutdatedStandings } from './services/recompute-standings';
+import { upgradeEngine } from './jobs/engine-upgrade';
 
 export interface Running {
   worker?: Worker;
@@ -83,11 +84,18 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
     worker = await startWorker(database.db, log, {
       recover: config.databaseUrl ? 10 * 60_000 : 'all',
       planner: { secondsBudget: config.referenceBudget.secondsPerTarget, coneQubitLimit: config.referenceBudget.coneQubitLimit },
+      now: ctx.now,
     });
     ctx.jobs.kick = () => worker!.kick();
     // a change of the scoring rules recomputes every standings (a rescoring in each history)
     const rescored = await rescoreOutdatedStandings(database.db);
     if (rescored.length) { log.info('scoring rules changed: standings queued for recomputation', { versions: rescored.length }); worker.kick(); }
+    // references of an older engine are recomputed and their standings rescored (one history event each)
+    const upgraded = await upgradeEngine(database.db, ctx.now());
+    if (upgraded.versions) {
+      log.info('engine.upgrade', { ...upgraded });
+      worker.kick();
+    }
   }
   let seeded = false;
   if (config.seedDemo) seeded = await seedDemo(ctx);

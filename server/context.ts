@@ -11,7 +11,7 @@ import type { MailQueue } from './mail/queue';
 import type { Logger } from './log';
 import type { Auth } from './auth';
 import type { ThreadPool } from './jobs/thread-pool';
-import type { VersionCache } from './services/challenge-computations';
+import type { VersionCache } from './services/version-cache';
 
 export interface AppContext {
   database: Database;

@@ -9,7 +9,7 @@ import { createRng } from '@shared/scoring/prng';
 import type { Db } from './client';
 import { challengeVersions, entries, estimates, observables, organization, references, targets, instances } from './schema';
 import { runCompute } from '../jobs/run-compute';
-import { registerJobHandler } from '../jobs/worker';
+import type { JobHandler } from '../jobs/types';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit } from '../services/record-audit';
 
@@ -97,7 +97,8 @@ async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry
   });
 }
 
-registerJobHandler('demo-entries', async (job, w) => {
+/** The invented demo entries of a demo challenge version, made from its computed references. */
+export const demoEntriesJob: JobHandler = async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const [v] = await w.db.select().from(challengeVersions).where(eq(challengeVersions.id, versionId));
   if (!v) throw new Error('no such version');
@@ -108,7 +109,7 @@ registerJobHandler('demo-entries', async (job, w) => {
   const seed = [...v.challengeSlug].reduce((a, ch) => a * 31 + ch.charCodeAt(0), 7) >>> 0;
   const day = 86400_000;
   // the entries follow the challenge's opening (the version's publication), a few days apart
-  const opened = (v.publishedAt ?? new Date()).getTime();
+  const opened = (v.publishedAt ?? w.now()).getTime();
   const spec = v.spec as { lattice: { kind: string; n?: number; rows?: number; cols?: number } };
   const qubits = spec.lattice.n ?? (spec.lattice.rows ?? 1) * (spec.lattice.cols ?? 1);
   const twoD = v.challengeSlug.includes('square');
@@ -130,4 +131,4 @@ registerJobHandler('demo-entries', async (job, w) => {
   for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(opened + (2 + 3 * n++) * day));
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
   return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length };
-});
+};

@@ -12,7 +12,6 @@ import { challenges } from './schema';
 import { createChallengeVersion } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { enqueueJob } from '../jobs/queue';
-import './demo-entries';
 import { recordAudit } from '../services/record-audit';
 
 export const DEMO_PASSWORD = 'parallax-demo-2026';

@@ -18,7 +18,7 @@ import { revealSeal } from '../services/reveal-references';
 import { sendAll, teamEmails } from '../services/decide-entry';
 import { standingsCache } from '../services/standings-cache';
 import { enqueueJob } from './queue';
-import { registerJobHandler } from './worker';
+import type { JobHandler } from './types';
 import { challengeLink, notifyFollowers } from '../services/notify-followers';
 
 export const REVEAL_POLL_MS = 10_000;
@@ -43,10 +43,10 @@ export function startRevealClock(ctx: AppContext): void {
   timer.unref();
 }
 
-registerJobHandler('reveal', async (job, w) => {
+export const revealJob: JobHandler = async (job, w) => {
   const payload = job.payload as { sealId: string; now?: string };
-  // the reveal time: the later of the clock that queued it and this process's clock
-  const now = new Date(Math.max(Date.now(), payload.now ? Date.parse(payload.now) : 0));
+  // the reveal time: the later of the clock that queued it and the worker's (injected) clock
+  const now = new Date(Math.max(w.now().getTime(), payload.now ? Date.parse(payload.now) : 0));
   const out = await revealSeal(w.db, payload.sealId, now);
   if (!out.revealed) return { ...out };
   await recomputeStandings(w.db, out.versionId!, now);
@@ -75,4 +75,4 @@ registerJobHandler('reveal', async (job, w) => {
     lines: [`The sealed reference values of ${out.slug} (${out.targets} target(s)) became public at ${now.toISOString()}; the standings were rescored with them.`, '', `The standings: ${challengeLink(w.db, out.slug!)}`] });
   w.log.info('references.unseal', { sealId: out.sealId, challenge: out.slug, targets: out.targets, commitments: out.commitments?.length ?? 0, mailed });
   return { ...out, mailed };
-});
+};

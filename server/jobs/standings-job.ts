@@ -1,6 +1,6 @@
 import { and, desc, eq, lt } from 'drizzle-orm';
 import { recomputeStandings, type StandingsPayload } from '../services/recompute-standings';
-import { registerJobHandler } from './worker';
+import type { JobHandler } from './types';
 import { standingsCache } from '../services/standings-cache';
 import { challengeVersions, standings } from '../db/schema';
 import type { Db } from '../db/client';
@@ -27,10 +27,11 @@ async function previousPayload(db: Db, versionId: string, at: Date): Promise<Sta
   return row ? (row.payload as StandingsPayload) : null;
 }
 
-registerJobHandler('standings', async (job, w) => {
+/** Recomputes the standings of a version (at the injected clock's time) and drops the cached responses. */
+export const standingsJob: JobHandler = async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const t0 = performance.now();
-  const row = await recomputeStandings(w.db, versionId);
+  const row = await recomputeStandings(w.db, versionId, w.now());
   standingsCache.invalidate(versionId);
   const [cur] = await w.db.select({ payload: standings.payload }).from(standings).where(eq(standings.id, row.id));
   const prev = await previousPayload(w.db, versionId, row.computedAt);
@@ -42,4 +43,4 @@ registerJobHandler('standings', async (job, w) => {
     }
   }
   return { standingsId: row.id, ms: Math.round(performance.now() - t0) };
-});
+};

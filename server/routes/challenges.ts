@@ -24,7 +24,7 @@ import type { RouteTable } from './registry';
 import type { Request, Response } from 'express';
 import { Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
-import { computeForVersion } from '../services/challenge-computations';
+import { computeForVersion } from '../services/version-cache';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
 import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';

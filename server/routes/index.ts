@@ -10,7 +10,6 @@ import { registerOpenApiRoutes } from './openapi';
 import { registerStandingsRoutes } from './standings';
 import { registerPublicDataRoutes } from './public-data';
 import { registerExportRoutes } from './exports';
-import '../jobs/standings-job';
 import { startRevealClock } from '../jobs/reveal-job';
 import { registerModerationRoutes } from './moderation';
 import { registerAuditRoutes } from './audit';

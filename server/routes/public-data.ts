@@ -6,12 +6,13 @@ import { zneSummary } from '@shared/scoring/zne';
 import type { AppContext } from '../context';
 import { auditLog, challengeVersions, entries, estimates, instances, jobs, observables, organization, references, standings, targets } from '../db/schema';
 import { badRequest, notFound } from '../errors';
-import { computeForVersion } from '../services/challenge-computations';
+import { computeForVersion } from '../services/version-cache';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import { publicEntries } from '../queries/entries';
 import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys, visibleReferences, withoutSealedBaseline } from '../queries/visibility';
 import { presentReference } from '../presenters/reference';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
+import { ENGINE_CHANGE } from '../jobs/engine-upgrade';
 import type { RouteTable } from './registry';
 
 export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -110,7 +111,7 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
   });
 
   routes.add({
-    method: 'get', path: '/challenges/:slug/history', access: 'public', summary: 'Versions, reference computations, rescoring events and public moderation events, newest first',
+    method: 'get', path: '/challenges/:slug/history', access: 'public', summary: 'Versions, reference computations, standings recomputations, reference-engine changes and public moderation events, newest first',
     handler: async (req) => {
       const { challenge: c } = await loadChallengeVersion(db, req);
       const versions = await db.select().from(challengeVersions).where(eq(challengeVersions.challengeSlug, c.slug));
@@ -131,17 +132,21 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         // the next older row of the same version: a different rules version makes this a change of rules
         const prev = st.slice(i + 1).find((x) => x.versionId === s.versionId);
         const changed = prev && prev.rules !== s.rules;
-        events.push({ at: s.at.toISOString(), kind: 'rescoring', version: vOf.get(s.versionId), summary: changed ? `Scoring rules ${prev.rules} -> ${s.rules}: standings recomputed (${s.engine})` : `Standings recomputed (${s.engine}, scoring rules ${s.rules})`, details: { asOf: s.at.toISOString(), scoringRules: s.rules, ...(changed ? { previousScoringRules: prev.rules } : {}) } });
+        events.push({ at: s.at.toISOString(), kind: changed ? 'rescoring' : 'standings', version: vOf.get(s.versionId), summary: changed ? `Scoring rules ${prev.rules} -> ${s.rules}: standings recomputed (${s.engine})` : `Standings recomputed (${s.engine}, scoring rules ${s.rules})`, details: { asOf: s.at.toISOString(), scoringRules: s.rules, ...(changed ? { previousScoringRules: prev.rules } : {}) } });
       });
       const entryRows = await db.select({ id: entries.id, label: entries.label, teamName: organization.name }).from(entries).innerJoin(organization, eq(organization.id, entries.teamId)).where(eq(entries.challengeSlug, c.slug));
       const entryIds = entryRows.map((e) => e.id);
       const entryOf = new Map(entryRows.map((e) => [e.id, e]));
-      const PUBLIC_ACTIONS = ['challenge.publish', 'entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide', 'target.dispute', 'target.undispute', 'references.seal', 'references.unseal', 'challenge.settings'];
+      const PUBLIC_ACTIONS = ['challenge.publish', 'entry.publish', 'entry.withdraw', 'entry.feature', 'entry.hide', 'target.dispute', 'target.undispute', 'references.seal', 'references.unseal', 'challenge.settings', ENGINE_CHANGE];
       const audit = await db.select().from(auditLog).where(and(inArray(auditLog.action, PUBLIC_ACTIONS), or(and(eq(auditLog.subjectType, 'challenge'), eq(auditLog.subjectId, c.slug)), entryIds.length ? and(eq(auditLog.subjectType, 'entry'), inArray(auditLog.subjectId, entryIds)) : sql`false`)))
         .orderBy(desc(auditLog.at)).limit(300);
       for (const a of audit) {
         if (a.action === 'challenge.publish') continue; // shown as a version event
         const d = a.details as Record<string, unknown>;
+        if (a.action === ENGINE_CHANGE) {
+          events.push({ at: a.at.toISOString(), kind: 'engine', version: Number(d.version), summary: `Reference engine ${d.from} -> ${d.to}: ${d.references} references recomputed, standings rescored` });
+          continue;
+        }
         events.push({ at: a.at.toISOString(), kind: a.action, summary: `${a.action.replace('.', ' ')}${d.reason ? `: ${d.reason}` : ''}${d.note ? `: ${d.note}` : ''}`, details: { subject: a.subjectId, ...(a.subjectType === 'entry' && entryOf.has(a.subjectId) ? { label: entryOf.get(a.subjectId)!.label, teamName: entryOf.get(a.subjectId)!.teamName } : {}), ...(d.reason ? { reason: d.reason } : {}) } });
       }
       events.sort((a, b) => (a.at < b.at ? 1 : a.at > b.at ? -1 : 0));

@@ -19,7 +19,7 @@ import { and, count, eq, gt, lt, ne } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '../db/client';
 import { mailQuota, member, organization } from '../db/schema';
-import { HOUSE_TEAM } from '../jobs/worker';
+import { HOUSE_TEAM } from '../house-team';
 
 export const TEAM_NAME_MAX = 80;
 export const TEAM_SLUG_MAX = 48;

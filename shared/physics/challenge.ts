@@ -9,45 +9,14 @@ import { Ajv2020 } from 'ajv/dist/2020.js';
 import type { ErrorObject, ValidateFunction } from 'ajv';
 import schema from '../../schemas/challenge.schema.json';
 import type { ObservableSpec } from './circuit';
-import { GATE_ARITY, GATE_PARAMS, type GateName } from './circuit';
+import { GATE_ARITY, GATE_PARAMS } from './circuit';
 import { enumerateInstances, enumerateTargets, type Instance, type Target } from './compile';
 import { latticeQubits, type LatticeSpec } from './lattices';
-import { ObservableError, parseObservable, type ObservableJson } from './observable';
+import { ObservableError, parseObservable } from './observable';
 import { sha256Hex } from './sha256';
+import type { ChallengeSpec } from './challenge-spec';
 
-export interface KickedIsingCircuitJson {
-  family: 'kicked-ising';
-  /** default -pi/2 */
-  thetaJ?: number;
-  steps: number[];
-  thetaH: number[];
-}
-
-export interface GateJson {
-  name: GateName;
-  qubits: number[];
-  params?: number[];
-}
-
-export interface GatesCircuitJson {
-  family: 'gates';
-  qubits: number;
-  gates: GateJson[];
-}
-
-export interface ChallengeSpec {
-  $schema?: string;
-  id: string;
-  version: number;
-  title: string;
-  description: string;
-  license?: string;
-  tags?: string[];
-  citation?: string;
-  lattice: LatticeSpec;
-  circuit: KickedIsingCircuitJson | GatesCircuitJson;
-  observables: ObservableJson[];
-}
+export type { ChallengeSpec, GateJson, GatesCircuitJson, KickedIsingCircuitJson } from './challenge-spec';
 
 export interface ChallengeError {
   /** JSON pointer into the spec ("" for the whole document) */

@@ -12,7 +12,7 @@
  */
 import type { CompiledCircuit, Gate, GateName, Layer } from './circuit';
 import { GATE_ARITY } from './circuit';
-import type { ChallengeSpec } from './challenge';
+import type { ChallengeSpec } from './challenge-spec';
 import { buildLattice, edgeColouring, type Edge, type Graph } from './lattices';
 import { DEFAULT_THETA_J, kickedIsing } from './kicked-ising';
 

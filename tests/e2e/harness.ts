@@ -1,9 +1,11 @@
 /**
- * Browser-test harness: a real server process on a fresh data directory (demo seed included) and
+ * Browser-test harness: a real server process (prebuilt once per run, see tests/e2e/global-setup.ts)
+ * on a fresh copy of the demo data directory that the global setup seeded and computed once, and
  * Debian's chromium driven by playwright-core. Screenshots go to test-output/screenshots/.
  */
 import { spawn, execFileSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { cpSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { inject } from 'vitest';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -18,7 +20,10 @@ export { freePort };
 
 export interface RunningServer { url: string; dataDir: string; output: () => string; stop(): Promise<void> }
 
-/** A real server on a fresh data directory; retried on a new port if the chosen one was taken meanwhile. */
+/**
+ * A real server on a fresh data directory (a copy of the prepared demo one unless SEED_DEMO=0);
+ * retried on a new port if the chosen one was taken meanwhile.
+ */
 export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
   for (let attempt = 1; ; attempt++) {
     try {
@@ -32,8 +37,9 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
 async function startServerOnce(env: Record<string, string>): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = mkdtempSync(path.join(os.tmpdir(), 'parallax-e2e-'));
+  if (env.SEED_DEMO !== '0') cpSync(inject('demoDataDir'), dataDir, { recursive: true });
   const url = `http://127.0.0.1:${port}`;
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  const child = spawn(process.execPath, [inject('serverBundle')], {
     cwd: root,
     env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', BASE_URL: url, FAKE_SMTP_PORT: '0', LOG_LEVEL: 'warn', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],

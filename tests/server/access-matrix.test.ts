@@ -78,7 +78,8 @@ const MATRIX: Record<string, Probe> = {
   'GET /challenges/:slug/package.json': { row: ALL_200, path: () => '/api/challenges/seeded-chain/package.json' },
   'GET /challenges/:slug/cite.bib': { row: ALL_200, path: () => '/api/challenges/seeded-chain/cite.bib' },
   'GET /challenges/:slug/CITATION.cff': { row: ALL_200, path: () => '/api/challenges/seeded-chain/CITATION.cff' },
-  'GET /entries/:entryId/cite.bib': { row: { anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/entries/00000000-0000-0000-0000-000000000000/cite.bib' },
+  // a published entry is citable by anyone (a draft is not: the test after the matrix)
+  'GET /entries/:entryId/cite.bib': { row: ALL_200, path: (i) => `/api/entries/${i.entryPublished}/cite.bib` },
   // moderation: team leads and API keys cannot moderate
   'GET /moderation/queue': { row: MODERATOR(200), path: () => '/api/moderation/queue' },
   // the moderator decides; the admin's later call finds it decided (409)
@@ -187,4 +188,15 @@ describe('authorisation matrix', () => {
       expect(got).toEqual(probe.row);
     });
   }
+
+  it('an entry that is not published is not citable by anyone, its own team included', async () => {
+    const got: Partial<Row> = {};
+    for (const c of CALLERS) {
+      const p = `/api/entries/${ids.entryDraft}/cite.bib`;
+      const r = c === 'anon' || c === 'keyA' ? request(t.app).get(p).set('Origin', ORIGIN) : as[c]!.get(p);
+      if (c === 'keyA') (r as request.Test).set('x-api-key', key);
+      got[c] = (await r).status;
+    }
+    expect(got).toEqual({ anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 });
+  });
 });

@@ -14,7 +14,7 @@ import { submissionsStatus } from '../../server/routes/challenges';
 import { entryGateStatus, gateProblems } from '../../server/services/validate-entry';
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('cs'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { await w.worker.stop(); await w.t.close(); });
 afterEach(async () => { await settings({ state: 'open', tracks: ['hardware', 'classical'], submissionWindow: null }); });
 

@@ -16,7 +16,7 @@ beforeAll(async () => {
   t = await makeTestApp();
   mod = await signUpVerified(t, 'mod@c.test', 'Moe Moderator');
   await setRole(t, 'mod@c.test', 'moderator');
-  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 100 });
   t.ctx.jobs.kick = () => worker.kick();
 }, 60_000);
 afterAll(async () => { await worker.stop(); await t.close(); });

@@ -1,15 +1,18 @@
 /**
- * Real server processes for the durability, abuse and load checks: spawns `server/index.ts` like
- * tests/e2e/harness.ts does (SEED_DEMO=0 by default), on a data directory the caller owns, so a
- * test can kill it (SIGKILL or SIGTERM) and start another process on the same directory.
+ * Real server processes for the durability, abuse and load checks: spawns the server prebuilt once
+ * per run from `server/index.ts` (tests/support/build-server.ts; SEED_DEMO=0 by default), on a data
+ * directory the caller owns, so a test can kill it (SIGKILL or SIGTERM) and start another process
+ * on the same directory.
  *
  * prepareWorld() builds a small world in a data directory, in this process, through the API and a
  * PGlite opened on that directory: a moderator, the published chain-12 challenge with its exact
  * references, team A (lead and member) with an API key. The directory is closed again before any
- * server process opens it (two processes on one PGlite directory corrupt it).
+ * server process opens it (two processes on one PGlite directory corrupt it). The world is built once
+ * per test run (tests/support/run-once.ts) and copied into each caller's directory.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { cpSync, readFileSync, rmSync } from 'node:fs';
+import { inject } from 'vitest';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createHash } from 'node:crypto';
@@ -21,6 +24,7 @@ import type { Config } from '../../server/config';
 import { startWorker } from '../../server/jobs/worker';
 import { appOnDatabase, setRole, signUpVerified, type TestApp } from './helpers';
 import { freePort } from '../support/free-port';
+import { buildOnce } from '../support/run-once';
 
 export const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 export const CHILD_AUTH_SECRET = 'child-secret-child-secret-child-secret-01';
@@ -63,7 +67,7 @@ async function spawnServerOnce(dataDir: string, env: Record<string, string>): Pr
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   const t0 = performance.now();
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  const child = spawn(process.execPath, [inject('serverBundle')], {
     cwd: ROOT,
     env: {
       ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', BASE_URL: url, FAKE_SMTP_PORT: '0',
@@ -106,13 +110,20 @@ export async function openAppOn(dataDir: string, overrides: Partial<Config> = {}
 
 export interface World { keyA: string; teamA: string; checksum: string; targets: { key: string; reference: { value?: number } }[] }
 
-/** See the header: moderator, published chain-12 with references, team A and its API key. Leaves the directory closed. */
+/** See the header: moderator, published chain-12 with references, team A and its API key, copied into dataDir. Leaves the directory closed. */
 export async function prepareWorld(dataDir: string): Promise<World> {
+  const built = await buildOnce(inject('runCache'), 'child-world', (dir) => buildWorld(path.join(dir, 'data')));
+  rmSync(dataDir, { recursive: true, force: true });
+  cpSync(path.join(built.dir, 'data'), dataDir, { recursive: true });
+  return built.value;
+}
+
+async function buildWorld(dataDir: string): Promise<World> {
   const t = await openAppOn(dataDir);
   try {
     const mod = await signUpVerified(t, 'mod@child.test', 'Moe Moderator');
     await setRole(t, 'mod@child.test', 'moderator');
-    const worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 50 });
+    const worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 50 });
     t.ctx.jobs.kick = () => worker.kick();
     const c = await mod.post('/api/challenges', CHAIN_SPEC);
     if (c.status !== 201) throw new Error(`challenge ${c.status} ${c.text}`);

@@ -30,7 +30,7 @@ const guess = (label: string) => docOf(label, (r, i) => r.value + 0.003 * (i + 1
 const send = (a: Agent, method: 'post' | 'put', path: string, doc: Doc) => a.raw[method](path).set('Origin', ORIGIN).set('Content-Type', 'application/json').send(JSON.stringify(doc));
 
 beforeAll(async () => {
-  w = await makeEntryWorld('cf');
+  w = await makeEntryWorld();
   const draft = await w.mod.post('/api/challenges', SPEC);
   expect(draft.status, draft.text).toBe(201);
   checksum = draft.body.checksum;

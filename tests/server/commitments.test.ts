@@ -10,7 +10,7 @@ import { execFileSync } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { agent, lastMailTo, ORIGIN, type Agent } from './helpers';
-import { makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
+import { makeEntryWorld, settle, WORLD_EMAILS, type EntryWorld } from './entries-fixtures';
 import { auditLog, entryCommitments, references, targets } from '../../server/db/schema';
 import { commitmentHash, commitmentString } from '../../server/services/register-commitment';
 import { enqueueDueReveals } from '../../server/jobs/reveal-job';
@@ -45,7 +45,7 @@ async function entry(a: Agent, label: string, shift: number) {
 }
 
 beforeAll(async () => {
-  w = await makeEntryWorld('cm');
+  w = await makeEntryWorld();
   const draft = await w.mod.post('/api/challenges', SPEC);
   expect(draft.status, draft.text).toBe(201);
   checksum = draft.body.checksum;
@@ -139,10 +139,10 @@ describe('blind round', () => {
     expect(honest.body.currentSha256).toBe(honest.body.computedSha256);
     const liar = await agent(w.t).get(`/api/entries/${entryIds.liar}/commitment`);
     expect(liar.body).toMatchObject({ result: 'mismatch', computedSha256: commitmentHash(docs[entryIds.liar].estimates) });
-    const ma = await lastMailTo(w.t, 'member-a@cm.test');
+    const ma = await lastMailTo(w.t, WORLD_EMAILS.memberA);
     expect(ma.subject).toBe('Parallax: reference values of blind-chain revealed');
     expect(ma.text).toContain('"honest": matches its estimates');
-    const mb = await lastMailTo(w.t, 'lead-b@cm.test');
+    const mb = await lastMailTo(w.t, WORLD_EMAILS.leadB);
     expect(mb.text).toContain('"liar": does NOT match its estimates');
     const db = w.t.database.db;
     expect(await db.select().from(auditLog).where(and(eq(auditLog.action, 'references.unseal'), eq(auditLog.subjectId, 'blind-chain')))).toHaveLength(1);

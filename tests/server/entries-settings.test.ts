@@ -18,7 +18,7 @@ import { checkEntry, parseEntryDocument } from '../../server/services/validate-e
 import { AppError } from '../../server/errors';
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('st'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { await w.worker.stop(); await w.t.close(); });
 afterEach(async () => { await settings({ state: 'open', tracks: ['hardware', 'classical'], submissionWindow: null }); });
 

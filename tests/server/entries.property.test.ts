@@ -10,7 +10,7 @@ import { makeEntryWorld, type EntryWorld } from './entries-fixtures';
 import { entries, estimates } from '../../server/db/schema';
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('p'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { await w.worker.stop(); await w.t.close(); });
 
 const num = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true }).map((x) => (Object.is(x, -0) ? 0 : x));

@@ -7,7 +7,7 @@ import { entries, estimates, jobs } from '../../server/db/schema';
 import { publishEntry } from '../../server/services/publish-entry';
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('e'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { if (process.env.SHOW_ERRORS) console.log(w.t.logs.filter((l) => l.includes('unhandled')).slice(0, 3).join('\n')); await w.worker.stop(); await w.t.close(); });
 
 const entryCount = async () => (await w.t.database.db.select({ n: count() }).from(entries).where(eq(entries.isBaseline, false)))[0].n;

@@ -33,7 +33,7 @@ async function queriesDuring(f: () => Promise<unknown>): Promise<number> {
 }
 
 beforeAll(async () => {
-  w = await makeEntryWorld('el');
+  w = await makeEntryWorld();
   await publish(w.memberA, 'A one');
   await publish(w.memberB, 'B one');
   await settle(w.t, w.worker);

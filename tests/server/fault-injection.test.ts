@@ -71,7 +71,7 @@ let w: EntryWorld;
 const leaks: string[] = [];
 const actor: AuditActor = { kind: 'system', label: 'fault injection' };
 beforeAll(async () => {
-  w = await makeEntryWorld('fi');
+  w = await makeEntryWorld();
   await w.worker.stop(); // nothing may write beside the operation under test
 }, 180_000);
 afterAll(async () => {

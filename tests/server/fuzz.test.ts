@@ -12,7 +12,7 @@ import { gzipSync } from 'node:zlib';
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { fullSweep, makeEntryWorld, type EntryWorld } from './entries-fixtures';
+import { fullSweep, makeEntryWorld, WORLD_EMAILS, type EntryWorld } from './entries-fixtures';
 import request from 'supertest';
 import { ORIGIN, TEST_PASSWORD } from './helpers';
 
@@ -34,11 +34,11 @@ let port: number;
 let cookie: string;
 let entryId: string;
 beforeAll(async () => {
-  w = await makeEntryWorld('fz');
+  w = await makeEntryWorld();
   await w.worker.stop();
   const r = await w.memberA.post('/api/challenges/chain-12/entries', fullSweep(w));
   entryId = r.body.id;
-  const signIn = await request(w.t.app).post('/api/auth/sign-in/email').set('Origin', ORIGIN).send({ email: 'member-a@fz.test', password: TEST_PASSWORD });
+  const signIn = await request(w.t.app).post('/api/auth/sign-in/email').set('Origin', ORIGIN).send({ email: WORLD_EMAILS.memberA, password: TEST_PASSWORD });
   cookie = ([] as string[]).concat(signIn.headers['set-cookie'] ?? []).map((c) => c.split(';')[0]).join('; ');
   if (!cookie.includes('session_token=')) throw new Error(`sign-in ${signIn.status}`);
   server = http.createServer(w.t.app).listen(0, '127.0.0.1');
@@ -72,7 +72,7 @@ const FORBIDDEN_TEXT: [string, RegExp][] = [
 describe('API fuzzing', () => {
   it(`${N} random requests: no 5xx, no internals, tokens or e-mail addresses in any body`, async () => {
     const rnd = prng(SEED);
-    const own = new Set(['member-a@fz.test', 'lead-a@fz.test']);
+    const own = new Set<string>([WORLD_EMAILS.memberA, WORLD_EMAILS.leadA]);
     const secrets = [w.keyA, decodeURIComponent(cookie.split('session_token=')[1]?.split(/[;.]/)[0] ?? 'none')];
     const routes = w.t.routes.defs;
     const authPaths = ['/sign-in/email', '/sign-up/email', '/request-password-reset', '/reset-password', '/get-session', '/organization/create'];

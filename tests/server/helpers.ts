@@ -1,6 +1,6 @@
 /**
  * A fresh app on a fresh database for each test file: PGlite from the migrated template (or a
- * fresh schema on the PostgreSQL server named by TEST_DATABASE_URL), a real fake-SMTP server on a
+ * copy of the migrated template database on the PostgreSQL server named by TEST_DATABASE_URL), a real fake-SMTP server on a
  * free port, a real mailer, an injectable clock. Password hashing uses a lower scrypt cost here;
  * tests/server/password.test.ts checks the production cost separately.
  */
@@ -16,6 +16,7 @@ import { startFakeSmtp } from '../../server/mail/fake-smtp';
 import { createMailer } from '../../server/mail/mailer';
 import { createLogger } from '../../server/log';
 import { mailMessages, user } from '../../server/db/schema';
+import { buildOnce } from '../support/run-once';
 
 export const ORIGIN = 'http://parallax.test';
 export const TEST_PASSWORD = 'correct-horse-battery-9';
@@ -33,29 +34,59 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-let schemaCounter = 0;
+let dbCounter = 0;
 
-async function openTestDatabase(): Promise<Database> {
+/**
+ * PostgreSQL (TEST_DATABASE_URL): a new database copied with CREATE DATABASE ... TEMPLATE from a
+ * template database of this run (the migrated schema, or a prepared world); the migrated template is
+ * made once per run by the first test process that needs it. One database per test app (a schema
+ * each is not enough: the migrations keep their bookkeeping in the schema "drizzle").
+ */
+export async function openPgCopy(template?: string): Promise<Database> {
   const url = inject('databaseUrl');
-  if (url) {
-    // one database per test app on the real PostgreSQL server (a schema each is not enough: the
-    // migrations keep their bookkeeping in the schema "drizzle", which would be shared)
-    const name = `t_${process.pid}_${Date.now()}_${schemaCounter++}`;
-    const admin = await openDatabase({ databaseUrl: url });
-    await admin.db.execute(sql.raw(`create database ${name}`));
+  const from = template ?? (await buildOnce(inject('runCache'), 'pg-migrated', async () => {
+    const name = `tpl_migrated_${inject('runId')}`;
+    await createPgDatabase(url, name);
+    const d = await openDatabase({ databaseUrl: withDatabase(url, name) });
+    try { await applyMigrations(d); } finally { await d.close(); }
+    return name;
+  })).value;
+  const name = `t_${process.pid}_${Date.now()}_${dbCounter++}`;
+  await createPgDatabase(url, name, from);
+  const database = await openDatabase({ databaseUrl: withDatabase(url, name) });
+  return Object.assign(database, { url: withDatabase(url, name), pgName: name });
+}
+
+export const withDatabase = (url: string, name: string) => { const u = new URL(url); u.pathname = `/${name}`; return u.toString(); };
+
+/** CREATE DATABASE (optionally TEMPLATE t); retried while the template is briefly in use (SQLSTATE 55006) */
+export async function createPgDatabase(url: string, name: string, template?: string): Promise<void> {
+  const admin = await openDatabase({ databaseUrl: url });
+  try {
+    for (let attempt = 1; ; attempt++) {
+      try {
+        await admin.db.execute(sql.raw(`create database ${name}${template ? ` template ${template}` : ''}`));
+        return;
+      } catch (e) {
+        const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;
+        if (code !== '55006' || attempt >= 50) throw e;
+        await new Promise((r) => setTimeout(r, 100));
+      }
+    }
+  } finally {
     await admin.close();
-    const u = new URL(url);
-    u.pathname = `/${name}`;
-    const database = await openDatabase({ databaseUrl: u.toString() });
-    await applyMigrations(database);
-    return Object.assign(database, { url: u.toString() });
   }
-  const blob = new Blob([readFileSync(inject('pgliteTemplate'))]);
+}
+
+/** A test database: PGlite from a dump (the migrated template by default), or a PostgreSQL copy. */
+export async function openTestDatabase(from?: { pgliteDump?: string; pgTemplate?: string }): Promise<Database> {
+  if (inject('databaseUrl')) return openPgCopy(from?.pgTemplate);
+  const blob = new Blob([readFileSync(from?.pgliteDump ?? inject('pgliteTemplate'))]);
   return openDatabase({ loadDataDir: blob });
 }
 
-export async function makeTestApp(overrides: Partial<Config> = {}): Promise<TestApp> {
-  return appOnDatabase(await openTestDatabase(), { DATA_DIR: '/tmp/parallax-test-unused', AUTH_SECRET: 'test-secret-test-secret-test-secret-0123' }, { baseUrl: ORIGIN, ...overrides });
+export async function makeTestApp(overrides: Partial<Config> = {}, from?: { pgliteDump?: string; pgTemplate?: string }): Promise<TestApp> {
+  return appOnDatabase(await openTestDatabase(from), { DATA_DIR: '/tmp/parallax-test-unused', AUTH_SECRET: 'test-secret-test-secret-test-secret-0123' }, { baseUrl: ORIGIN, ...overrides });
 }
 
 /**
@@ -129,6 +160,14 @@ export async function signUpVerified(t: TestApp, email: string, name = email.spl
   if (v.status >= 400) throw new Error(`verify ${v.status} ${v.text}`);
   const s = await a.post('/api/auth/sign-in/email', { email, password: TEST_PASSWORD });
   if (s.status !== 200) throw new Error(`sign-in ${s.status} ${s.text}`);
+  return a;
+}
+
+/** Signs in an existing verified account; an agent with its session cookie. */
+export async function signIn(t: TestApp, email: string): Promise<Agent> {
+  const a = agent(t);
+  const s = await a.post('/api/auth/sign-in/email', { email, password: TEST_PASSWORD });
+  if (s.status !== 200) throw new Error(`sign-in ${email} ${s.status} ${s.text}`);
   return a;
 }
 

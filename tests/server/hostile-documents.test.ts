@@ -15,7 +15,7 @@ import type { AddressInfo } from 'node:net';
 import { gzipSync } from 'node:zlib';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { fullSweep, makeEntryWorld, type EntryWorld } from './entries-fixtures';
+import { fullSweep, makeEntryWorld, WORLD_EMAILS, type EntryWorld } from './entries-fixtures';
 import { ORIGIN, type Agent } from './helpers';
 import { createLogger, MAX_LINE } from '../../server/log';
 import { entries } from '../../server/db/schema';
@@ -32,12 +32,12 @@ let port: number;
 let cookie: string;
 let mod: Agent;
 beforeAll(async () => {
-  w = await makeEntryWorld('hd');
+  w = await makeEntryWorld();
   await w.worker.stop();
   server = http.createServer(w.t.app).listen(0, '127.0.0.1');
   await new Promise((res) => server.once('listening', res));
   port = (server.address() as AddressInfo).port;
-  const signIn = await send('POST', '/api/auth/sign-in/email', { 'content-type': 'application/json', origin: ORIGIN }, Buffer.from(JSON.stringify({ email: 'member-a@hd.test', password: 'correct-horse-battery-9' })));
+  const signIn = await send('POST', '/api/auth/sign-in/email', { 'content-type': 'application/json', origin: ORIGIN }, Buffer.from(JSON.stringify({ email: WORLD_EMAILS.memberA, password: 'correct-horse-battery-9' })));
   expect(signIn.status).toBe(200);
   cookie = signIn.cookies.map((c) => c.split(';')[0]).join('; ');
   mod = w.mod;
@@ -304,7 +304,7 @@ describe('also: the loopback names of the configured port are trusted origins', 
   });
 
   it('a sign-in from http://127.0.0.1:<port> (a browser that holds a cookie) is accepted by the origin check and by better-auth', async () => {
-    const creds = Buffer.from(JSON.stringify({ email: 'member-a@hd.test', password: 'correct-horse-battery-9' }));
+    const creds = Buffer.from(JSON.stringify({ email: WORLD_EMAILS.memberA, password: 'correct-horse-battery-9' }));
     for (const host of ['127.0.0.1', 'localhost', '[::1]']) {
       const r = await send('POST', '/api/auth/sign-in/email', { 'content-type': 'application/json', origin: `http://${host}:${w.t.config.port}`, cookie: 'theme=light' }, creds);
       expect(r.status, `${host}: ${r.text}`).toBe(200);

@@ -15,7 +15,7 @@ import { references, standings, targets } from '../../server/db/schema';
 import { QueueChecksCache, reviewQueue } from '../../server/services/check-entries';
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('mq'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { await w.worker.stop(); await w.t.close(); });
 
 type Doc = ReturnType<typeof fullSweep>;

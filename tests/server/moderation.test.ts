@@ -7,13 +7,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, count, eq, sql } from 'drizzle-orm';
 import { agent, lastMailTo, ORIGIN, setRole, signUpVerified, type Agent } from './helpers';
-import { fullSweep, makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
+import { fullSweep, makeEntryWorld, settle, WORLD_EMAILS, type EntryWorld } from './entries-fixtures';
 import { auditLog, entries, reviews, mailMessages } from '../../server/db/schema';
 
 let w: EntryWorld;
 let mod2: Agent;
 beforeAll(async () => {
-  w = await makeEntryWorld('mo');
+  w = await makeEntryWorld();
   mod2 = await signUpVerified(w.t, 'mod2@mo.test', 'Second Moderator');
   await setRole(w.t, 'mod2@mo.test', 'moderator');
 }, 120_000);
@@ -64,14 +64,14 @@ describe('review queue and decisions', () => {
     const r = await w.mod.post(`/api/entries/${good}/decision`, { decision: 'publish', reason: 'Checks pass: full sweep, exact.' });
     expect(r.status, r.text).toBe(200);
     expect(r.body).toMatchObject({ state: 'published', decision: 'publish', mailed: 2 });
-    for (const to of ['member-a@mo.test', 'lead-a@mo.test']) {
+    for (const to of [WORLD_EMAILS.memberA, WORLD_EMAILS.leadA]) {
       const m = await lastMailTo(w.t, to);
       expect(m.subject).toBe('Parallax: your entry "exact sweep" was published');
       expect(m.text).toContain('Checks pass: full sweep, exact.');
       expect(m.text).toContain('Moe Moderator');
     }
     // nobody of team B hears of it
-    const b = await w.t.database.db.select().from(mailMessages).where(eq(mailMessages.to, 'member-b@mo.test'));
+    const b = await w.t.database.db.select().from(mailMessages).where(eq(mailMessages.to, WORLD_EMAILS.memberB));
     expect(b.some((m) => m.subject.includes('exact sweep'))).toBe(false);
     await settle(w.t, w.worker);
     const st = await agent(w.t).get('/api/challenges/chain-12/standings');
@@ -88,14 +88,14 @@ describe('review queue and decisions', () => {
   it('returns with a reason: the team can edit and resubmit; the reason is in the mail', async () => {
     const r = await w.mod.post(`/api/entries/${odd}/decision`, { decision: 'return', reason: 'Estimate 0 exceeds the bound\r\nBcc: x@evil.test' });
     expect(r.status, r.text).toBe(200);
-    const m = await lastMailTo(w.t, 'member-a@mo.test');
+    const m = await lastMailTo(w.t, WORLD_EMAILS.memberA);
     expect(m.subject).toBe('Parallax: your entry "odd sweep" was returned');
     expect(m.text).toContain('Estimate 0 exceeds the bound');
     const e = await w.memberA.get(`/api/entries/${odd}`);
     expect(e.body.state).toBe('returned');
     expect((await w.memberA.post(`/api/entries/${odd}/submit`)).status).toBe(200);
     expect((await w.mod.post(`/api/entries/${odd}/decision`, { decision: 'reject', reason: 'Still out of bounds.' })).status).toBe(200);
-    expect((await lastMailTo(w.t, 'lead-a@mo.test')).subject).toBe('Parallax: your entry "odd sweep" was rejected');
+    expect((await lastMailTo(w.t, WORLD_EMAILS.leadA)).subject).toBe('Parallax: your entry "odd sweep" was rejected');
   });
 
   it('validates the body: decision, reason required and at most 2000 characters', async () => {

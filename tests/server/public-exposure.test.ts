@@ -119,7 +119,7 @@ beforeAll(async () => {
   t = await makeTestApp();
   mod = await signUpVerified(t, 'secret-mod@p.test', 'Mod');
   await setRole(t, 'secret-mod@p.test', 'moderator');
-  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 100 });
   t.ctx.jobs.kick = () => worker.kick();
   expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
   const pub = await mod.post('/api/challenges/pub-chain/publish', {});

@@ -20,7 +20,7 @@ import type { StandingsPayload } from '../../server/services/recompute-standings
 const { JSDOM } = createRequire(import.meta.url)('jsdom') as { JSDOM: new (text: string, opts: { contentType: string }) => { window: Window } };
 
 let w: EntryWorld;
-beforeAll(async () => { w = await makeEntryWorld('s'); }, 120_000);
+beforeAll(async () => { w = await makeEntryWorld(); }, 120_000);
 afterAll(async () => { await w.worker.stop(); await w.t.close(); });
 
 const asKey = (m: 'post' | 'put' | 'delete', p: string) => request(w.t.app)[m](p).set('x-api-key', w.keyA);

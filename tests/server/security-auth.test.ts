@@ -10,7 +10,7 @@ import request from 'supertest';
 import { and, count, eq } from 'drizzle-orm';
 import { agent, lastMailTo, linkIn, makeTestApp, ORIGIN, setRole, signUpVerified, TEST_PASSWORD, type Agent, type TestApp } from './helpers';
 import { auditLog, apikey, mailMessages, member, organization, signInFailures, user } from '../../server/db/schema';
-import { HOUSE_TEAM } from '../../server/jobs/worker';
+import { HOUSE_TEAM } from '../../server/jobs/baseline-job';
 import { createApp } from '../../server/app';
 import { createLogger } from '../../server/log';
 import { lookAlikeKey } from '../../server/services/team-rules';

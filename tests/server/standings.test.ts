@@ -6,6 +6,7 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
+import { settle } from './entries-fixtures';
 import { startWorker, type Worker } from '../../server/jobs/worker';
 import { entries, estimates, organization, targets, references } from '../../server/db/schema';
 import { recomputeStandings } from '../../server/services/recompute-standings';
@@ -34,11 +35,14 @@ beforeAll(async () => {
   t = await makeTestApp();
   const mod = await signUpVerified(t, 'mod@s.test');
   await setRole(t, 'mod@s.test', 'moderator');
-  worker = await startWorker(t.database.db, t.ctx.log, { pollMs: 100 });
+  worker = await startWorker(t.database.db, t.ctx.log, { now: t.ctx.now, pollMs: 100 });
   t.ctx.jobs.kick = () => worker.kick();
   expect((await mod.post('/api/challenges', SPEC)).status).toBe(201);
   expect((await mod.post('/api/challenges/st-chain/publish', {})).status).toBe(200);
-  for (let i = 0; i < 300 && (await t.database.db.query.jobs.findMany()).some((j) => j.state !== 'done' && j.state !== 'failed'); i++) { await worker.idle(); await new Promise((r) => setTimeout(r, 100)); }
+  // every job of the publication runs to the end (references, the house baseline, standings): the
+  // tests below expect the baseline to be there, and fail if it is not (settle throws on a timeout)
+  const settled = await settle(t, worker);
+  expect(settled.filter((j) => j.state === 'failed')).toEqual([]);
   const db = t.database.db;
   const tg = await db.select({ id: targets.id, key: targets.key, versionId: targets.versionId }).from(targets).orderBy(targets.key);
   keys = tg.map((x) => x.key);

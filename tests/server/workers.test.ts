@@ -7,7 +7,7 @@ import { inject, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { openDatabase } from '../../server/db/client';
 import { enqueueJob, type JobKind } from '../../server/jobs/queue';
-import { registerJobHandler, startWorker } from '../../server/jobs/worker';
+import { startWorker, type JobHandler } from '../../server/jobs/worker';
 import { createLogger } from '../../server/log';
 import { makeTestApp } from './helpers';
 
@@ -24,15 +24,15 @@ describe.skipIf(!url)(url ? 'two workers on one PostgreSQL queue' : 'two workers
       const db = t.database.db;
       await db.execute(sql`create table worker_test_done (job_id uuid not null, worker text not null, at timestamptz not null default now())`);
       // the handler records which worker ran which job, then takes a little time like real work
-      registerJobHandler(KIND, async (job, w) => {
+      const record: JobHandler = async (job, w) => {
         await w.db.execute(sql`insert into worker_test_done (job_id, worker) values (${job.id}::uuid, ${job.lockedBy ?? '?'})`);
         await new Promise((r) => setTimeout(r, 2));
         return { ok: true };
-      });
+      };
       const ids: string[] = [];
       for (let i = 0; i < JOBS; i++) ids.push(await enqueueJob(db, KIND, { i }));
       const t0 = performance.now();
-      const opts = { kinds: [KIND], pollMs: 20, recover: 10 * 60_000 };
+      const opts = { kinds: [KIND], pollMs: 20, recover: 10 * 60_000, extraHandlers: { [KIND]: record } };
       const a = await startWorker(db, log, opts);
       const b = await startWorker(other.db, log, opts);
       a.kick(); b.kick();

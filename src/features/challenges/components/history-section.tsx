@@ -9,7 +9,8 @@ const KIND: Record<string, { label: string; tone: BadgeTone }> = {
   version: { label: 'version', tone: 'ok' },
   superseded: { label: 'superseded', tone: 'neutral' },
   references: { label: 'references', tone: 'exact' },
-  rescoring: { label: 'rescoring', tone: 'consensus' },
+  standings: { label: 'standings', tone: 'consensus' },
+  engine: { label: 'engine change', tone: 'exact' },
 };
 
 export default function HistorySection({ c }: { c: ChallengeDetail }) {
@@ -21,7 +22,7 @@ export default function HistorySection({ c }: { c: ChallengeDetail }) {
   if (q.isError) return <ErrorState error={q.error} retry={() => q.refetch()} />;
   const ev = q.data.events;
   return (
-    <Panel title="History" id="history" description="Versions, reference computations, rescoring and public moderation events, newest first. Nothing is edited in place: every change is an event here.">
+    <Panel title="History" id="history" description="Versions, reference computations, standings recomputations, reference-engine changes and public moderation events, newest first. Nothing is edited in place: every change is an event here.">
       {ev.length === 0 ? (
         <EmptyState title="No events yet" />
       ) : (
@@ -44,7 +45,7 @@ export default function HistorySection({ c }: { c: ChallengeDetail }) {
                 </p>
                 {asOf && (
                   <Link className="text-sm" to={`/challenges/${encodeURIComponent(c.slug)}?asOf=${encodeURIComponent(asOf)}`}>
-                    standings as of this rescoring
+                    standings as of this recomputation
                   </Link>
                 )}
               </li>

@@ -1,0 +1,49 @@
+/** The house baseline of a challenge version: truncated Pauli propagation of every target, published as an unranked entry. */
+import { randomUUID } from 'node:crypto';
+import { and, eq, isNull } from 'drizzle-orm';
+import { ENGINE_VERSION } from '@shared/physics/reference';
+import { entries, estimates, targets } from '../db/schema';
+import { recordAudit } from '../services/record-audit';
+import { enqueueJob } from './queue';
+import { runCompute } from './run-compute';
+import { versionSpec } from './references-job';
+import type { JobHandler } from './types';
+
+import { HOUSE_TEAM } from '../house-team';
+
+export { HOUSE_TEAM };
+export const BASELINE_SETTINGS = { delta: 5e-3, maxTerms: 20_000 };
+
+export const baselineJob: JobHandler = async (job, w) => {
+  const versionId = String((job.payload as { versionId: string }).versionId);
+  const v = await versionSpec(w.db, versionId);
+  const [have] = await w.db.select({ id: entries.id }).from(entries).where(and(eq(entries.versionId, versionId), eq(entries.isBaseline, true), isNull(entries.supersedesId)));
+  if (have) return { skipped: 'baseline exists' };
+  const keys = (await w.db.select({ key: targets.key }).from(targets).where(eq(targets.versionId, versionId))).map((t) => t.key);
+  const rows: { targetKey: string; value: number; uncertainty: number; kind: string; raw: Record<string, unknown> }[] = [];
+  let wallMs = 0;
+  await runCompute({ mode: 'baseline', spec: v.spec, targetIds: keys, baseline: BASELINE_SETTINGS }, async (m) => {
+    if (m.type === 'progress') await w.progress(m.done / Math.max(1, m.total), m.note);
+    if (m.type !== 'baseline') return;
+    wallMs += m.wallMs;
+    rows.push({ targetKey: m.targetId, value: m.value, uncertainty: m.bound, kind: m.exact ? 'none' : 'bound', raw: { peakTerms: m.terms, truncatedWeight: m.bound } });
+  });
+  await w.db.transaction(async (tx) => {
+    const id = randomUUID();
+    await tx.insert(entries).values({
+      id, lineageId: id, challengeSlug: v.challengeSlug, versionId, teamId: HOUSE_TEAM.id, state: 'published', track: 'classical',
+      methodFamily: 'pauli-propagation', isBaseline: true,
+      label: `House baseline: truncated Pauli propagation (|c| < ${BASELINE_SETTINGS.delta} dropped after every gate, at most ${BASELINE_SETTINGS.maxTerms} terms)`,
+      document: {
+        method: { family: 'pauli-propagation', settings: { coefficientThreshold: BASELINE_SETTINGS.delta, maxTerms: BASELINE_SETTINGS.maxTerms, truncation: 'after every gate' } },
+        resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [{ name: ENGINE_VERSION }] },
+        uncertaintyNote: 'Each uncertainty is the triangle-inequality bound: the sum of |c| over every dropped term.',
+      },
+      submittedAt: w.now(), publishedAt: w.now(),
+    });
+    for (let i = 0; i < rows.length; i += 1000) await tx.insert(estimates).values(rows.slice(i, i + 1000).map((r) => ({ ...r, entryId: id })));
+    await recordAudit(tx, { actor: { kind: 'system', label: 'house baseline' }, action: 'entry.publish', subjectType: 'entry', subjectId: id, details: { baseline: true, versionId } });
+  });
+  await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
+  return { estimates: rows.length, wallMs };
+};
