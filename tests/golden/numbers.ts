@@ -14,14 +14,14 @@ import { fileURLToPath } from 'node:url';
 import { validateChallenge } from '../../shared/physics/challenge';
 import { ENGINE_VERSION, ReferenceRunner } from '../../shared/physics/reference';
 import { createRng } from '../../shared/scoring/prng';
-import * as scoring from '../../shared/scoring';
+import { DEFAULT_ESTIMATOR, SCORING_RULES_VERSION } from '../../shared/scoring';
 import { computeStandings, type StandingsEntryInput } from '../../shared/scoring/standings';
 
 export const FIXTURES = fileURLToPath(new URL('../fixtures/challenges/', import.meta.url));
 export const GOLDEN = fileURLToPath(new URL('../fixtures/golden/', import.meta.url));
 
-/** the scoring rules' version (shared/scoring exports SCORING_RULES_VERSION once the rules carry one) */
-export const RULES_VERSION = String((scoring as Record<string, unknown>).SCORING_RULES_VERSION ?? 'unversioned');
+/** the scoring rules' version (shared/scoring/rules.ts) */
+export const RULES_VERSION = SCORING_RULES_VERSION;
 
 export interface GoldenReference { value: number | null; method: string | null }
 export interface GoldenStandingsRow { id: string; rank: number | null; metrics: Record<string, number | null> }
@@ -62,7 +62,7 @@ export function computeGolden(name: string): Golden {
   });
   const entries = [made('close', 0, 0.005, 0.01, 0), made('biased', 0.03, 0.01, 0.01, 0), made('coarse', 0, 0.08, 0.1, 2)];
   const s = computeStandings({
-    estimator: scoring.DEFAULT_ESTIMATOR,
+    estimator: DEFAULT_ESTIMATOR,
     // every fourth target is scored as if its reference were sealed (a blind round): the consensus path
     targets: keys.map((k, i) => ({ key: k, reference: references[k].value === null || i % 4 === 3 ? null : { value: references[k].value!, uncertainty: 0 } })),
     entries,
