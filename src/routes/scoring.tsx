@@ -117,7 +117,7 @@ export function Component() {
         <div className="mt-3 overflow-x-auto">
           <table className="w-full border-collapse text-sm" data-testid="scoring-example">
             <thead>
-              <tr className="text-left text-xs uppercase text-ink-soft">
+              <tr className="text-left text-xs text-ink-soft">
                 <th className="border-b border-rule-strong py-1 pr-2">Rank</th>
                 <th className="border-b border-rule-strong py-1 pr-2">Entry</th>
                 <th className="border-b border-rule-strong py-1 pr-2 text-right">Score on A</th>

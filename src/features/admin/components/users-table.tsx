@@ -130,9 +130,9 @@ export function UsersTable({ users, selfId }: { users: AdminUser[]; selfId: stri
                 {g.headers.map((h) => {
                   const sorted = h.column.getIsSorted();
                   return (
-                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined} className="border-b border-rule-strong px-2 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft uppercase first:pl-0">
+                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined} className="border-b border-rule-strong px-2 py-2 text-left text-xs font-semibold tracking-wide text-ink-soft first:pl-0">
                       {h.column.getCanSort() ? (
-                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 uppercase hover:text-ink">
+                        <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex items-center gap-1 hover:text-ink">
                           <table.FlexRender header={h} />
                           <span aria-hidden="true" className="w-2 text-ink">{sorted === 'asc' ? '↑' : sorted === 'desc' ? '↓' : ''}</span>
                         </button>

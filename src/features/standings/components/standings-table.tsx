@@ -32,9 +32,17 @@ export function CostCell({ e }: { e: StandingsEntry }) {
   const h = e.metrics.costHours;
   if (h === null) return <span className="text-ink-faint">not declared</span>;
   const c = e.cost;
+  // classical compute (CPU core-hours + GPU hours) and QPU time are different resources: shown apart
+  const classical = c.cpuCoreHours !== undefined || c.gpuHours !== undefined ? (c.cpuCoreHours ?? 0) + (c.gpuHours ?? 0) : null;
+  const qpu = c.qpuSeconds !== undefined ? c.qpuSeconds / 3600 : null;
   return (
     <span className="inline-flex items-baseline whitespace-nowrap">
-      <span className="num">{formatHours(h)}</span>
+      <span className="num">
+        {classical !== null && <span title="CPU core-hours + GPU hours">{formatHours(classical)} compute</span>}
+        {classical !== null && qpu !== null && <span aria-hidden="true"> · </span>}
+        {qpu !== null && <span title="QPU time">{formatHours(qpu)} QPU</span>}
+        {classical === null && qpu === null && formatHours(h)}
+      </span>
       <Provenance label={`Cost parts of ${e.label}`}>
         <p className="mb-1 font-medium">Declared cost</p>
         <ProvenanceList
@@ -45,7 +53,7 @@ export function CostCell({ e }: { e: StandingsEntry }) {
             ['Wall time', c.wallTimeSeconds !== undefined ? `${formatSig(c.wallTimeSeconds / 3600, 3)} h` : '—'],
           ]}
         />
-        <p className="mt-2 text-ink-soft">Cost = CPU core-hours + GPU hours + QPU seconds / 3600, a plain sum; the parts are stated as declared.</p>
+        <p className="mt-2 text-ink-soft">Classical compute (CPU core-hours + GPU hours) and QPU time are shown apart; sorting by cost uses their plain sum (QPU seconds / 3600 as hours). The parts are stated as declared.</p>
       </Provenance>
     </span>
   );
@@ -102,6 +110,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
                   <TrackMark track={e.track} />
                   <Link to={`/entries/${encodeURIComponent(e.id)}`} className="font-medium">{e.label}</Link>
                   <span className="sr-only">({e.track})</span>
+                  <Link to={`/compare?a=${encodeURIComponent(e.id)}&b=consensus`} className="text-xs" aria-label={`Compare ${e.label} with the consensus`}>compare</Link>
                 </span>
                 <div className="mt-0.5 flex flex-wrap gap-1">
                   {e.isBaseline && <Badge tone="exact">house baseline · reference row, not ranked</Badge>}
@@ -233,8 +242,8 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
                   const num = numeric.has(h.column.id);
                   const primary = primaryCol[metric] === h.column.id;
                   return (
-                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined} className={cx('border-b border-rule-strong px-2 py-2 text-xs font-semibold tracking-wide uppercase first:pl-0 last:pr-0', num ? 'text-right' : 'text-left', primary ? 'text-ink' : 'text-ink-soft')}>
-                      <button type="button" onClick={h.column.getToggleSortingHandler()} className={cx('inline-flex items-center gap-1 uppercase hover:text-ink', num && 'flex-row-reverse')}>
+                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined} className={cx('border-b border-rule-strong px-2 py-2 text-xs font-semibold tracking-wide first:pl-0 last:pr-0', num ? 'text-right' : 'text-left', primary ? 'text-ink' : 'text-ink-soft')}>
+                      <button type="button" onClick={h.column.getToggleSortingHandler()} className={cx('inline-flex items-center gap-1 hover:text-ink', num && 'flex-row-reverse')}>
                         <table.FlexRender header={h} />
                         <span aria-hidden="true" className="w-2 text-ink">{sorted === 'asc' ? '↑' : sorted === 'desc' ? '↓' : ''}</span>
                       </button>
