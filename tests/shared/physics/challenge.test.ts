@@ -194,9 +194,12 @@ describe('semantic checks', () => {
 
   it('instance gate budget', () => {
     const s = { ...base(), lattice: { kind: 'chain' as const, n: 10000 } };
-    (s.circuit as { steps: number[] }).steps = [1, 300];
-    // 300 * (10000 + 9999) = 5,999,700 > 5,000,000
-    expect(errorsOf(s)[0].message).toMatch(/compiles to 5999700 gates, more than the limit of 5000000/);
+    (s.circuit as { steps: number[] }).steps = [1, 60];
+    // 60 * (10000 + 9999) = 1,199,940 > 1,000,000 (the limit a public QASM download can carry: issue 12 item 11)
+    expect(errorsOf(s)[0].message).toMatch(/compiles to 1199940 gates, more than the limit of 1000000/);
+    // 50 steps: 999,950 gates, within the limit
+    (s.circuit as { steps: number[] }).steps = [1, 50];
+    expect(validateChallenge(s).ok).toBe(true);
   });
 
   it('enumerates instances and targets on success', () => {
