@@ -177,6 +177,13 @@ export function costHours(c: StandingsEntryInput['cost']): number | null {
   return parts.length ? parts.reduce((a, b) => a + b, 0) : null;
 }
 
+/** The cost of an entry in its track's own resource: QPU hours on hardware, CPU core-hours + GPU hours in classical simulation. */
+export function trackCostHours(track: 'hardware' | 'classical', c: StandingsEntryInput['cost']): number | null {
+  const parts = track === 'hardware' ? [c.qpuSeconds === undefined ? undefined : c.qpuSeconds / 3600] : [c.cpuCoreHours, c.gpuHours];
+  const xs = parts.filter((x): x is number => typeof x === 'number');
+  return xs.length ? xs.reduce((a, b) => a + b, 0) : null;
+}
+
 /** The uncertainty the rules use for coverage, z and the consensus: u, raised to half the exact
  * tolerance (so that an exact answer within the tolerance is covered, and two exact answers within
  * it agree). */
@@ -368,8 +375,12 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     }
   }
 
-  const front = accuracyCostFront(rows.filter((r) => !r.isBaseline).map((r) => ({ id: r.e.id, error: r.metrics.scoreOverall, cost: r.metrics.costHours })));
-  const onFront = new Set(front.front.map((p) => p.id));
+  // one front per track, each in its own resource: QPU time is not added to classical compute
+  const onFront = new Set<string>();
+  for (const track of ['hardware', 'classical'] as const) {
+    const front = accuracyCostFront(rows.filter((r) => !r.isBaseline && r.e.track === track).map((r) => ({ id: r.e.id, error: r.metrics.scoreOverall, cost: trackCostHours(track, r.e.cost) })));
+    for (const p of front.front) onFront.add(p.id);
+  }
   const ranked = rankRows(rows.map((r) => ({ ...r, rankIntervals: rankIntervals[r.i] })), metric);
   const entries: StandingsRow[] = ranked.map(({ row, rank, tiedWithPrevious, rankInterval }) => ({
     id: row.e.id, rank, tiedWithPrevious, rankInterval, rankIntervals: rankIntervals[row.i], label: row.e.label, teamId: row.e.teamId, teamName: row.e.teamName, track: row.e.track,

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { computeStandings, type StandingsEntryInput, type StandingsInput } from '../../../shared/scoring/standings';
+import { computeStandings, trackCostHours, type StandingsEntryInput, type StandingsInput } from '../../../shared/scoring/standings';
 import { CONSENSUS_ESTIMATORS } from '../../../shared/scoring/consensus';
 import { EXACT_TOLERANCE } from '../../../shared/scoring/rules';
 import { normalCdf, normalPdf } from '../../../shared/scoring/special';
@@ -61,6 +61,23 @@ describe('standings', () => {
     expect(byId.get('a')!.metrics.scoreOverall!).toBeLessThan(byId.get('b')!.metrics.scoreOverall!);
     expect(s.entries.filter((r) => r.onFront).map((r) => r.id).sort()).toEqual(['a', 'b']);
     expect(s.counts).toEqual({ targets: 2, verifiable: 1, unverifiable: 1, disputed: 0, entries: 3, ranked: 2 });
+  });
+
+  it('the accuracy-cost front is drawn per track, each in its own resource (QPU time is never added to CPU hours)', () => {
+    // issue 13: a hardware entry's QPU hours and a classical entry's core-hours are different resources
+    const s = computeStandings({
+      targets: [{ key: 'v', reference: { value: 0.5, uncertainty: 0 } }],
+      entries: [
+        { ...entry('cheap-classical', { v: [0.6, 0.05] }, { cost: { cpuCoreHours: 1 } }) },
+        { ...entry('good-classical', { v: [0.51, 0.01] }, { cost: { cpuCoreHours: 100 } }) },
+        // better than cheap-classical, QPU time 50 h: dominated if it were compared with core-hours, on its own front here
+        { ...entry('hw', { v: [0.55, 0.03] }, { cost: { qpuSeconds: 50 * 3600 } }), track: 'hardware' as const },
+      ],
+    });
+    expect(s.entries.filter((r) => r.onFront).map((r) => r.id).sort()).toEqual(['cheap-classical', 'good-classical', 'hw']);
+    expect(trackCostHours('hardware', { qpuSeconds: 7200, cpuCoreHours: 3 })).toBe(2);
+    expect(trackCostHours('classical', { qpuSeconds: 7200, cpuCoreHours: 3, gpuHours: 1 })).toBe(4);
+    expect(trackCostHours('classical', { qpuSeconds: 7200 })).toBeNull();
   });
 
   it('u = 0 is judged with the exact tolerance: one ulp apart agree, 0.1 apart are far outside (finite |d|/U)', () => {
