@@ -141,7 +141,8 @@ describe("the researcher's pages in the browser", () => {
     expect(await p.title()).toContain('Depth view of');
     const maps = await p.getByTestId('break-maps').locator('table').count();
     expect(maps).toBeGreaterThanOrEqual(3); // the reference map and at least two entries
-    expect(await p.locator('#depth-value [aria-label^="Value of"]').count()).toBe(1);
+    // the chart loads lazily: wait for its accessible name
+    await expect.poll(() => p.locator('#depth-value [aria-label^="Value of"]').count(), { timeout: 20_000 }).toBe(1);
     await p.getByRole('button', { name: 'Show as a table' }).click();
     await p.locator('#depth-table table').waitFor();
     await shots(p, 'depth');

@@ -85,7 +85,7 @@ describe('teams: creation, invitation mail, acceptance', () => {
     const created = await lead.post('/api/auth/organization/create', { name: 'Qubit Orchard', slug: 'qubit-orchard' });
     expect(created.status).toBe(200);
     const teamId = created.body.id as string;
-    expect((await lead.get('/api/me')).body.teams).toEqual([{ id: teamId, name: 'Qubit Orchard', slug: 'qubit-orchard', role: 'lead' }]);
+    expect((await lead.get('/api/me')).body.teams).toEqual([{ id: teamId, name: 'Qubit Orchard', slug: 'qubit-orchard', role: 'lead', track: 'classical' }]);
 
     const inv = await lead.post('/api/auth/organization/invite-member', { email: 'mate@team.test', role: 'member', organizationId: teamId });
     expect(inv.status).toBe(200);

@@ -85,6 +85,6 @@ describe('entry lists', () => {
     const a = r.body.entries.find((e: { id: string }) => e.id === published[0]);
     expect(a.summary).toMatchObject({ estimates: w.targets.length, medianUncertainty: 0.01 });
     expect(a.coverage).toEqual({ targets: w.targets.length, covered: w.targets.length, fraction: 1 });
-    expect(a.team.name).toBe('Team A el');
+    expect(a.team.name).toBe('Team A');
   });
 });

@@ -142,7 +142,7 @@ describe("a moderator's own team (issue 12 item 10)", () => {
     // before the fix: 200, the moderator published their own team's entry
     const r = await own.post(`/api/entries/${id}/decision`, { decision: 'publish', reason: 'Looks fine to me.' });
     expect(r.status, r.text).toBe(403);
-    expect(r.body.error.message).toBe(`You are a member of the team "Team A mo" that made this entry, so you cannot decide on it; another moderator must.`);
+    expect(r.body.error.message).toBe(`You are a member of the team "Team A" that made this entry, so you cannot decide on it; another moderator must.`);
     expect((await w.t.database.db.select({ n: count() }).from(reviews).where(eq(reviews.entryId, id)))[0].n).toBe(0);
     const ok = await mod2.post(`/api/entries/${id}/decision`, { decision: 'publish', reason: 'Checks pass.' });
     expect(ok.status, ok.text).toBe(200);

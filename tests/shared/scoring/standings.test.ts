@@ -66,6 +66,7 @@ describe('standings', () => {
   it('the accuracy-cost front is drawn per track, each in its own resource (QPU time is never added to CPU hours)', () => {
     // issue 13: a hardware entry's QPU hours and a classical entry's core-hours are different resources
     const s = computeStandings({
+      estimator: 'weighted-mean',
       targets: [{ key: 'v', reference: { value: 0.5, uncertainty: 0 } }],
       entries: [
         { ...entry('cheap-classical', { v: [0.6, 0.05] }, { cost: { cpuCoreHours: 1 } }) },
