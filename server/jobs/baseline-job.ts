@@ -2,7 +2,7 @@
 import { randomUUID } from 'node:crypto';
 import { and, eq, isNull } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
-import { entries, estimates, targets } from '../db/schema';
+import { entries, estimates, observables, targets } from '../db/schema';
 import { recordAudit } from '../services/record-audit';
 import { enqueueJob } from './queue';
 import { runCompute } from './run-compute';
@@ -19,14 +19,18 @@ export const baselineJob: JobHandler = async (job, w) => {
   const v = await versionSpec(w.db, versionId);
   const [have] = await w.db.select({ id: entries.id }).from(entries).where(and(eq(entries.versionId, versionId), eq(entries.isBaseline, true), isNull(entries.supersedesId)));
   if (have) return { skipped: 'baseline exists' };
-  const keys = (await w.db.select({ key: targets.key }).from(targets).where(eq(targets.versionId, versionId))).map((t) => t.key);
+  const ts = await w.db.select({ key: targets.key, bound: observables.bound }).from(targets).innerJoin(observables, eq(observables.id, targets.observableId)).where(eq(targets.versionId, versionId));
+  const keys = ts.map((t) => t.key);
+  // the truncation bound (sum of the dropped |c|) is stated as a bound, capped at the observable's own
+  // bound (|<O>| <= sum |c|): a larger figure says nothing more; the raw figure stays in raw.truncatedWeight
+  const boundOf = new Map(ts.map((t) => [t.key, t.bound]));
   const rows: { targetKey: string; value: number; uncertainty: number; kind: string; raw: Record<string, unknown> }[] = [];
   let wallMs = 0;
   await runCompute({ mode: 'baseline', spec: v.spec, targetIds: keys, baseline: BASELINE_SETTINGS }, async (m) => {
     if (m.type === 'progress') await w.progress(m.done / Math.max(1, m.total), m.note);
     if (m.type !== 'baseline') return;
     wallMs += m.wallMs;
-    rows.push({ targetKey: m.targetId, value: m.value, uncertainty: m.bound, kind: m.exact ? 'none' : 'bound', raw: { peakTerms: m.terms, truncatedWeight: m.bound } });
+    rows.push({ targetKey: m.targetId, value: m.value, uncertainty: Math.min(m.bound, boundOf.get(m.targetId) ?? Infinity), kind: m.exact ? 'none' : 'bound', raw: { peakTerms: m.terms, truncatedWeight: m.bound } });
   });
   await w.db.transaction(async (tx) => {
     const id = randomUUID();

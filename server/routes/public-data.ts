@@ -92,8 +92,11 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         const raw = (r.raw ?? null) as { unmitigated?: number; noiseScaled?: { scale: number; value: number; uncertainty: number }[] } | null;
         const points = Array.isArray(raw?.noiseScaled) ? raw.noiseScaled.filter((p) => Number.isFinite(p.scale) && Number.isFinite(p.value) && Number.isFinite(p.uncertainty)) : [];
         const zne = points.length ? { points, unmitigated: raw?.unmitigated ?? null, fits: zneSummary(points).models.map((m) => ({ model: m.model, ok: m.ok, value: m.ok ? m.value : null, uncertainty: m.ok ? m.uncertainty : null, reason: m.reason ?? null, chi2: Number.isFinite(m.chi2) ? m.chi2 : null, nu: m.nu ?? null })) } : null;
-        const m = { value: r.value, uncertainty: r.uncertainty };
-        return [{ entry: { id: e.id, label: e.label, teamId: e.teamId, teamName: e.teamName, track: e.track, methodFamily: e.methodFamily, isBaseline: e.isBaseline, publishedAt: e.publishedAt }, value: r.value, uncertainty: r.uncertainty, kind: r.kind, equivalence: doeOf(e.id, m), zne }];
+        // the house baseline states a truncation bound (capped at the observable's bound), not a standard
+        // uncertainty: it gets no degree of equivalence and is never in the consensus (scoring rules)
+        const uncertainty = e.isBaseline ? Math.min(r.uncertainty, t.bound) : r.uncertainty;
+        const m = { value: r.value, uncertainty };
+        return [{ entry: { id: e.id, label: e.label, teamId: e.teamId, teamName: e.teamName, track: e.track, methodFamily: e.methodFamily, isBaseline: e.isBaseline, publishedAt: e.publishedAt }, value: r.value, uncertainty, kind: e.isBaseline ? 'bound' : r.kind, equivalence: e.isBaseline ? null : doeOf(e.id, m), zne }];
       });
       // the same observable at the other depths and angles of the grid (keys only; their pages say the rest)
       const siblings = await db.select({ key: targets.key, params: instances.params }).from(targets).innerJoin(instances, eq(instances.id, targets.instanceId)).innerJoin(observables, eq(observables.id, targets.observableId))

@@ -82,7 +82,7 @@ function TargetPage({ slug, t }: { slug: string; t: TargetDetail }) {
                   <Td num>{q ? formatSig(q.d, 2) : '—'}</Td>
                   <Td num>{q ? formatSig(q.U, 2) : '—'}</Td>
                   <Td num className={ratio !== null && ratio > 1 ? 'font-semibold text-danger-ink' : undefined}>{ratio === null ? '—' : formatSig(ratio, 2)}</Td>
-                  {!exact && <Td className="text-xs">{q ? (q.included ? 'yes' : 'no, left out') : '—'}</Td>}
+                  {!exact && <Td className="text-xs">{q ? (q.included ? 'yes' : 'no, left out') : e.entry.isBaseline ? 'no: a reference row' : '—'}</Td>}
                 </tr>
               );
             })}

@@ -8,7 +8,7 @@ import { eq } from 'drizzle-orm';
 import { agent, makeTestApp, setRole, signUpVerified, type TestApp } from './helpers';
 import { settle } from './entries-fixtures';
 import { startWorker, type Worker } from '../../server/jobs/worker';
-import { entries, estimates, organization, targets, references } from '../../server/db/schema';
+import { entries, estimates, observables, organization, targets, references } from '../../server/db/schema';
 import { recomputeStandings } from '../../server/services/recompute-standings';
 import { consensus, scoreSweep, degreesOfEquivalence } from '../../shared/scoring';
 
@@ -101,6 +101,21 @@ describe('standings and consensus', () => {
     const scores = rows.map((e: any) => e.metrics.scoreOverall);
     expect([...scores].sort((a: number, b: number) => a - b)).toEqual(scores);
     expect(rows.map((e: any) => e.rank)).toEqual(rows.map((_: unknown, i: number) => i + 1));
+  });
+
+  it('the house baseline states its truncation bound capped at the observable\'s bound (issue 11), the raw figure kept in raw', async () => {
+    const db = t.database.db;
+    const [b] = await db.select().from(entries).where(eq(entries.isBaseline, true));
+    const rows = await db.select({ u: estimates.uncertainty, kind: estimates.kind, raw: estimates.raw, bound: observables.bound })
+      .from(estimates).innerJoin(targets, eq(targets.key, estimates.targetKey)).innerJoin(observables, eq(observables.id, targets.observableId))
+      .where(eq(estimates.entryId, b.id));
+    expect(rows.length).toBeGreaterThan(0);
+    for (const r of rows) {
+      // |<O>| <= sum |c| = bound (common practice): a stated bound above it carries no information
+      expect(r.u).toBeLessThanOrEqual(r.bound);
+      const raw = r.raw as { truncatedWeight: number };
+      expect(r.u).toBe(Math.min(raw.truncatedWeight, r.bound));
+    }
   });
 
   it('agreement of an entry is the median |d|/U over unverifiable targets', async () => {
