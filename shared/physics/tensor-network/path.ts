@@ -20,6 +20,8 @@
  */
 
 /** A contraction tree in SSA form: leaves 0..T-1; step s contracts ids pairs[s] into id T + s. */
+import { createRng } from '../../scoring/prng';
+
 export interface ContractionTree {
   nLeaves: number;
   pairs: [number, number][];
@@ -34,16 +36,10 @@ export interface TreeCost {
   memoryBytes: number;
 }
 
-/** Deterministic 32-bit generator (mulberry32). */
+/** Deterministic uniform generator: the project's seeded mulberry32 (shared/scoring/prng.ts), same sequence. */
 export function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const r = createRng(seed);
+  return () => r.uniform();
 }
 
 /** Sorted leg list with, per leg, how many leaves of the subtree hold it. */
