@@ -216,7 +216,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
                     {e.onFront && <Badge tone="ok">on the cost front</Badge>}
                   </div>
                   <dl className="mt-2 grid grid-cols-3 gap-x-3 gap-y-1 text-sm">
-                    <div><dt className="text-xs text-ink-faint">Score</dt><dd><ScoreCell e={e} metric={metric} /></dd></div>
+                    <div className="col-span-2"><dt className="text-xs text-ink-faint">Score</dt><dd><ScoreCell e={e} metric={metric} /></dd></div>
                     <div><dt className="text-xs text-ink-faint">Answered</dt><dd><CoverageCell e={e} metric={metric} /></dd></div>
                     <div><dt className="text-xs text-ink-faint">RMSE</dt><dd className="num">{formatMetric(m.rmseVerifiable)}</dd></div>
                     <div><dt className="text-xs text-ink-faint">Max error</dt><dd className="num">{formatMetric(m.maxErrorVerifiable)}</dd></div>
