@@ -154,10 +154,8 @@ export function contractPlan(plan: TnTermPlan, opts: ContractOptions = {}): [num
   return [re, im];
 }
 
-export interface TnTermResult {
-  value: number;
-  /** imaginary part left over (rounding; a check) */
-  imag: number;
+/** What a contraction cost: width (log2 of the largest intermediate), flops, slices, memory, cone and time. */
+export interface TnCost {
   width: number;
   flops: number;
   slices: number;
@@ -166,17 +164,17 @@ export interface TnTermResult {
   wallMs: number;
 }
 
-export interface TnResult {
+export interface TnTermResult extends TnCost {
+  value: number;
+  /** imaginary part left over (rounding; a check) */
+  imag: number;
+}
+
+/** The cost fields aggregate the terms: widest term, total flops, most slices, largest memory, widest cone. */
+export interface TnResult extends TnCost {
   /** sum_k coef_k <P_k> */
   value: number;
   terms: TnTermResult[];
-  /** widest term, total flops, most slices, largest memory, widest cone */
-  width: number;
-  flops: number;
-  slices: number;
-  memoryBytes: number;
-  coneQubits: number;
-  wallMs: number;
 }
 
 const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
