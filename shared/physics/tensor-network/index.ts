@@ -22,7 +22,7 @@ import { chooseSlices, searchOrder, treeCost, type SearchOptions, type TreeCost 
 
 export { contractPair, gemmSplit, pairLayout, permuteSplit, type Tensor } from './kernels';
 export { buildNetwork, simplifyNetwork, type Network } from './network';
-export { greedyTree, reconfigure, rng, searchOrder, treeCost, chooseSlices, type ContractionTree, type TreeCost } from './path';
+export { chooseSlices, eliminationTree, greedyTree, reconfigure, rng, searchOrder, treeCost, type ContractionTree, type EliminationParams, type TreeCost } from './path';
 
 /** Most indices sliced in one plan (2^16 slices). */
 export const MAX_SLICED = 16;
