@@ -94,6 +94,8 @@ function ScoreCell({ e, metric }: { e: StandingsEntry; metric: string }) {
 
 export function StandingsTable({ entries, metric, slug }: { entries: StandingsEntry[]; metric: string; slug: string }) {
   const [family, setFamily] = useState('');
+  // max error, mean z² and grid coverage are shown on request, so that the table fits 1280 px
+  const [allMeasures, setAllMeasures] = useState(false);
   const families = useMemo(() => [...new Set(entries.map((e) => e.methodFamily))].sort(), [entries]);
   const columns = useMemo(
     () =>
@@ -122,8 +124,16 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
             );
           },
         }),
-        helper.accessor('teamName', { header: 'Team', sortFn: 'text', cell: (c) => <Link to={`/teams/${encodeURIComponent(c.row.original.teamId)}`}>{c.getValue()}</Link> }),
-        helper.accessor('methodFamily', { header: 'Method', sortFn: 'text', filterFn: 'equals', cell: (c) => <span className="whitespace-nowrap">{c.getValue()}</span> }),
+        helper.accessor('teamName', {
+          header: 'Team · method',
+          sortFn: 'text',
+          cell: (c) => (
+            <div>
+              <Link to={`/teams/${encodeURIComponent(c.row.original.teamId)}`}>{c.getValue()}</Link>
+              <div className="whitespace-nowrap text-xs text-ink-soft">{c.row.original.methodFamily}</div>
+            </div>
+          ),
+        }),
         helper.accessor((r) => orUndef(r.metrics[METRIC_SCOPE[metric]?.key ?? 'scoreOverall']), { id: 'score', header: 'Score', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <ScoreCell e={c.row.original} metric={metric} /> }),
         helper.accessor((r) => (r.coverage ? r.coverage[METRIC_SCOPE[metric]?.scope ?? 'overall'].answered : undefined), { id: 'answered', header: 'Answered', sortFn: 'basic', sortUndefined: 'last', cell: (c) => <CoverageCell e={c.row.original} metric={metric} /> }),
         helper.accessor((r) => orUndef(r.metrics.rmseVerifiable), { id: 'rmse', header: 'RMSE', sortFn: 'basic', sortUndefined: 'last', cell: (c) => metricCell(c.getValue()) }),
@@ -151,16 +161,17 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
     [metric],
   );
   const [sorting, setSorting] = useState([{ id: 'rank', desc: false }]);
-  const columnFilters = useMemo(() => (family ? [{ id: 'methodFamily', value: family }] : []), [family]);
+  const shown = useMemo(() => (family ? entries.filter((e) => e.methodFamily === family) : entries), [entries, family]);
   const table = useTable({
     features,
     columns,
-    data: entries,
+    data: shown,
     getRowId: (r) => r.id,
-    state: { sorting, columnFilters },
+    state: { sorting },
     onSortingChange: (u) => setSorting((s) => (typeof u === 'function' ? u(s) : u) as typeof s),
   });
   const rows = table.getRowModel().rows;
+  const hidden = new Set(allMeasures ? [] : ['maxError', 'meanZ2', 'grid']);
   const numeric = new Set(['rank', 'score', 'answered', 'rmse', 'maxError', 'meanZ2', 'covered', 'agreement', 'grid', 'cost']);
   const primaryCol: Record<string, string> = { overall: 'score', 'crps-verifiable': 'score', agreement: 'score' };
 
@@ -173,6 +184,10 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
             <option value="">all</option>
             {families.map((f) => <option key={f} value={f}>{f}</option>)}
           </select>
+        </label>
+        <label className="hidden items-center gap-1.5 md:inline-flex">
+          <input type="checkbox" checked={allMeasures} onChange={(e) => setAllMeasures(e.target.checked)} />
+          <span>All measures (max error, mean z², grid)</span>
         </label>
         <Link to="/scoring" className="text-sm">How scoring works</Link>
         <span className="num ml-auto text-ink-soft">{rows.length} of {entries.length} entries</span>
@@ -237,7 +252,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
           <thead>
             {table.getHeaderGroups().map((g) => (
               <tr key={g.id}>
-                {g.headers.map((h) => {
+                {g.headers.filter((h) => !hidden.has(h.column.id)).map((h) => {
                   const sorted = h.column.getIsSorted();
                   const num = numeric.has(h.column.id);
                   const primary = primaryCol[metric] === h.column.id;
@@ -256,7 +271,7 @@ export function StandingsTable({ entries, metric, slug }: { entries: StandingsEn
           <tbody>
             {rows.map((r) => (
               <tr key={r.id} className={cx(r.original.isBaseline && 'bg-exact-soft/50')} data-testid="standings-row">
-                {r.getAllCells().map((c) => (
+                {r.getAllCells().filter((c) => !hidden.has(c.column.id)).map((c) => (
                   <td key={c.id} className={cx('border-b border-rule px-2 py-2 align-top first:pl-0 last:pr-0', numeric.has(c.column.id) && 'text-right')}>
                     <table.FlexRender cell={c} />
                   </td>
