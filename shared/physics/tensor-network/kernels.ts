@@ -10,8 +10,15 @@
  * arrays, so the GEMM inner loop runs on two plain real arrays (no strided complex loads); the
  * GEMM writes the interleaved result directly. k <= 4 (one or two summed legs) has its own loops.
  *
+ * Two GEMM kernels with one contract: gemmSplit here (plain JS, the fallback) and the hand-assembled
+ * WebAssembly SIMD kernel in wasm-gemm.ts (the permute writes its operands straight into the
+ * module's memory). contractPair picks per product with `useWasmGemm` (the rule measured by
+ * bench/tensor-network.bench.ts) and falls back to JS when the module's memory cannot hold the
+ * operands or the host has no WebAssembly SIMD.
+ *
  * No framework or node: imports.
  */
+import { gemmArena, gemmBatchedInArena } from './wasm-gemm';
 
 export interface Tensor {
   legs: number[];
@@ -229,6 +236,27 @@ class Scratch {
 }
 const scratch = new Scratch();
 
+/** Which GEMM contractPair uses: 'auto' (the measured rule, useWasmGemm) or one kernel throughout. */
+export type GemmKernel = 'auto' | 'js' | 'wasm';
+let gemmKernel: GemmKernel = 'auto';
+
+/** Set the GEMM kernel of contractPair for this thread (the bench and the kernel tests compare them). */
+export function setGemmKernel(kernel: GemmKernel): void {
+  gemmKernel = kernel;
+}
+
+/** Smallest m k n of one product for which the wasm kernel pays (measured by the bench). */
+export const WASM_GEMM_MIN_MKN = 8;
+
+/**
+ * The rule of 'auto': the wasm kernel for products of at least WASM_GEMM_MIN_MKN multiply-adds
+ * with at least two summed values (k >= 2); outer products (k = 1) are bound by writing C, which
+ * the wasm path writes twice (into its memory, then out), so they stay in JS.
+ */
+export function useWasmGemm(m: number, k: number, n: number): boolean {
+  return k >= 2 && m * k * n >= WASM_GEMM_MIN_MKN;
+}
+
 /** Contract A and B with the given layout; the result has legs [...batch, ...left, ...right]. */
 export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const nb = 1 << L.batch.length;
@@ -238,6 +266,15 @@ export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const aSize = nb * m * k;
   const bSize = nb * k * n;
   const cSize = nb * m * n;
+  if (gemmKernel === 'wasm' || (gemmKernel === 'auto' && useWasmGemm(m, k, n))) {
+    const arena = gemmArena(aSize, bSize, cSize);
+    if (arena) {
+      permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], arena.ar, arena.ai);
+      permuteSplit(B.data, B.legs, [...L.batch, ...L.right, ...L.sum], arena.br, arena.bi);
+      gemmBatchedInArena(arena, nb, m, k, n);
+      return { legs: [...L.batch, ...L.left, ...L.right], data: arena.c.slice() };
+    }
+  }
   const ar = scratch.get(0, aSize), ai = scratch.get(1, aSize);
   const br = scratch.get(2, bSize), bi = scratch.get(3, bSize);
   permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], ar, ai);
