@@ -105,7 +105,7 @@ export function sliceTensor(t: Tensor, fixed: ReadonlyMap<number, number>): Tens
  */
 export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
   // c is interleaved complex; cOff counts complex elements
-  if (k <= 4) {
+  if (k === 1 || k === 2 || k === 4) {
     smallK(m, k, n, ar, ai, aOff, br, bi, bOff, c, cOff);
     return;
   }
@@ -164,7 +164,7 @@ export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai:
   }
 }
 
-/** k = 1, 2 or 4: the row of A sits in locals, one pass over the rows of B per row of A. */
+/** k = 1, 2 or 4 (only those: k = 3 takes the general loop): the row of A sits in locals, one pass over the rows of B per row of A. */
 function smallK(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
   let o = 2 * cOff;
   if (k === 1) {
