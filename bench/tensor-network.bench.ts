@@ -25,7 +25,7 @@ import { kickedIsing } from '../shared/physics/kicked-ising';
 import { edgeColouring, heavyHex, square, type Graph } from '../shared/physics/lattices';
 import { graphBall } from '../shared/physics/light-cone';
 import { contractPlan, greedyTree, planTerm, rng, treeCost, type TnTermPlan } from '../shared/physics/tensor-network/index';
-import { setGemmKernel, type GemmKernel } from '../shared/physics/tensor-network/kernels';
+import { contractPair, pairLayout, setGemmKernel, WASM_GEMM_MIN_MKN, type GemmKernel, type Tensor } from '../shared/physics/tensor-network/kernels';
 
 const HALF_PI = Math.PI / 2;
 let allPass = true;
@@ -177,6 +177,41 @@ if (probe.status !== 0) {
   }
   if (ratios.length) {
     for (const k of KERNELS) console.log(`throughput ratios (ours / numpy), ${k} kernel: ${perKernel[k].map((r) => r.toFixed(2)).join(', ')}`);
+  }
+}
+
+// ------------------------------------------------------------------------------------------------
+// where the wasm GEMM pays: one pairwise step (permute + product + result) on each kernel, by size
+console.log('\nsize rule: one pairwise contraction (permute, product, result), JS vs wasm kernel, best of interleaved runs');
+console.log(`rule in use (kernels.ts useWasmGemm): wasm when k >= 2 and m k n >= ${WASM_GEMM_MIN_MKN}`);
+{
+  const r = rng(99);
+  const stepTensor = (legs: number[]): Tensor => ({ legs, data: Float64Array.from({ length: 2 << legs.length }, () => r() - 0.5) });
+  for (const lk of [0, 1, 2, 3, 6]) {
+    const row: string[] = [];
+    for (let lmn = 0; lmn <= 12; lmn += 2) {
+      const lm = lmn >> 1, ln = lmn - lm;
+      let id = 0;
+      const ids = (c: number) => Array.from({ length: c }, () => id++);
+      const left = ids(lm), sum = ids(lk), right = ids(ln);
+      // summed legs first in both operands: the permute has real work to do
+      const A = stepTensor([...sum, ...left]), B = stepTensor([...sum, ...right]);
+      const L = pairLayout(A.legs, B.legs, () => true);
+      const mkn = 2 ** (lm + lk + ln);
+      const reps = Math.max(3, Math.round(2e6 / mkn));
+      const t = { js: Infinity, wasm: Infinity };
+      for (let round = 0; round < 5; round++) {
+        for (const k of ['js', 'wasm'] as const) {
+          setGemmKernel(k);
+          const t0 = performance.now();
+          for (let i = 0; i < reps; i++) contractPair(A, B, L);
+          t[k] = Math.min(t[k], (performance.now() - t0) / reps);
+        }
+      }
+      setGemmKernel('auto');
+      row.push(`mkn 2^${lm + lk + ln} x${(t.js / t.wasm).toFixed(2)}`);
+    }
+    console.log(`k = ${String(2 ** lk).padEnd(3)} wasm speed-up (JS time / wasm time): ${row.join(', ')}`);
   }
 }
 

@@ -245,8 +245,13 @@ export function setGemmKernel(kernel: GemmKernel): void {
   gemmKernel = kernel;
 }
 
-/** Smallest m k n of one product for which the wasm kernel pays (measured by the bench). */
-export const WASM_GEMM_MIN_MKN = 8;
+/**
+ * Smallest m k n of one product for which the wasm kernel pays. Measured by the bench's size sweep
+ * (one whole pairwise step, permute included, JS vs wasm, on the 2-core machine under load): below
+ * 2^7 the wasm path's fixed cost (the call, the copy of the result out of its memory) makes it
+ * 0.7-0.9x of JS; at 2^7-2^9 about even to 1.3x; from 2^11 1.2-1.5x at k = 2 and 3-10x at k >= 8.
+ */
+export const WASM_GEMM_MIN_MKN = 128;
 
 /**
  * The rule of 'auto': the wasm kernel for products of at least WASM_GEMM_MIN_MKN multiply-adds

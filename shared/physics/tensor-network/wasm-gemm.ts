@@ -190,14 +190,19 @@ export function gemmArena(aSize: number, bSize: number, cSize: number): GemmAren
   const inst = instance(pC + 16 * cSize);
   if (!inst) return null;
   const buf = inst.mem.buffer;
-  return {
+  // the same shapes recur step after step: reuse the views while the memory has not grown
+  if (last && last.buf === buf && last.aSize === aSize && last.bSize === bSize && last.cSize === cSize) return last.arena;
+  const arena: GemmArena = {
     ar: new Float64Array(buf, pAr, aSize), ai: new Float64Array(buf, pAi, aSize),
     br: new Float64Array(buf, pBr, bSize), bi: new Float64Array(buf, pBi, bSize),
     c: new Float64Array(buf, pC, 2 * cSize),
     ptr: { ar: pAr, ai: pAi, br: pBr, bi: pBi, c: pC },
     k: inst.k,
   };
+  last = { buf, aSize, bSize, cSize, arena };
+  return arena;
 }
+let last: { buf: ArrayBuffer; aSize: number; bSize: number; cSize: number; arena: GemmArena } | null = null;
 
 /** Blocking over k and n (elements) so the rows of B in use stay in cache (tuned by the bench). */
 export const GEMM_KB = 256;

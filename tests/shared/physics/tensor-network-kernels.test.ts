@@ -6,7 +6,7 @@
  * block (2 x 1) or of the k / n cache blocks (256 / 32), and an odd k (the load64_zero tail).
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import { contractPair, gemmSplit, pairLayout, setGemmKernel, useWasmGemm, type Tensor } from '../../../shared/physics/tensor-network/kernels';
+import { contractPair, gemmSplit, pairLayout, setGemmKernel, useWasmGemm, WASM_GEMM_MIN_MKN, type Tensor } from '../../../shared/physics/tensor-network/kernels';
 import { buildGemmModule, gemmArena, gemmSplitWasm, GEMM_JB, GEMM_KB, WASM_GEMM_MAX_BYTES, wasmGemmAvailable } from '../../../shared/physics/tensor-network/wasm-gemm';
 import { rng } from '../../../shared/physics/tensor-network/path';
 
@@ -158,6 +158,8 @@ describe('tensor-network GEMM kernels', () => {
   it('the size rule: outer products and tiny products stay in JS; a memory the module cannot hold is refused (JS fallback)', () => {
     expect(useWasmGemm(64, 1, 64)).toBe(false);
     expect(useWasmGemm(1, 2, 1)).toBe(false);
+    expect(useWasmGemm(2, 2, WASM_GEMM_MIN_MKN / 4 - 1)).toBe(false);
+    expect(useWasmGemm(2, 2, WASM_GEMM_MIN_MKN / 4)).toBe(true);
     expect(useWasmGemm(128, 256, 64)).toBe(true);
     // 2^28 elements per split operand: 8 GiB of operands, over WASM_GEMM_MAX_BYTES; refused before any allocation
     expect(8 * 2 * (2 ** 28 + 2 ** 28)).toBeGreaterThan(WASM_GEMM_MAX_BYTES);
