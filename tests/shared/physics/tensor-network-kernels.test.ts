@@ -6,7 +6,9 @@
  * block (2 x 1) or of the k / n cache blocks (256 / 32), and an odd k (the load64_zero tail).
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import { contractPair, gemmSplit, pairLayout, setGemmKernel, useWasmGemm, WASM_GEMM_MIN_MKN, type Tensor } from '../../../shared/physics/tensor-network/kernels';
+import {
+  contractPair, gemmSplit, pairLayout, permuteSplit, PERMUTE_TILED_MIN_RANK, setGemmKernel, useWasmGemm, WASM_GEMM_MIN_MKN, type Tensor,
+} from '../../../shared/physics/tensor-network/kernels';
 import { buildGemmModule, gemmArena, gemmSplitWasm, GEMM_JB, GEMM_KB, WASM_GEMM_MAX_BYTES, wasmGemmAvailable } from '../../../shared/physics/tensor-network/wasm-gemm';
 import { rng } from '../../../shared/physics/tensor-network/path';
 
@@ -153,6 +155,27 @@ describe('tensor-network GEMM kernels', () => {
       for (const k of ['js', 'wasm', 'auto']) worst = Math.max(worst, Math.hypot(out[k].data[2 * o] - re, out[k].data[2 * o + 1] - im) / s);
     }
     expect(worst).toBeLessThan(1e-12);
+  });
+
+  it('permuteSplit (one sweep below rank 12, tiled from rank 12) equals the definition: dst[j] = src[the same leg values]', () => {
+    const r = rng(11);
+    for (const rank of [1, 5, PERMUTE_TILED_MIN_RANK - 1, PERMUTE_TILED_MIN_RANK, 15]) {
+      const legs = Array.from({ length: rank }, (_, i) => 100 + i);
+      const src = Float64Array.from({ length: 2 << rank }, () => r());
+      const orders = [[...legs].reverse(), [...legs].sort(() => r() - 0.5), [...legs.slice(rank >> 1), ...legs.slice(0, rank >> 1)]];
+      for (const dst of orders) {
+        const re = new Float64Array(1 << rank), im = new Float64Array(1 << rank);
+        permuteSplit(src, legs, dst, re, im);
+        let bad = 0;
+        for (let j = 0; j < 1 << rank; j++) {
+          // the value of each leg in destination index j (dst[0] the most significant bit), then the source index
+          let s = 0;
+          legs.forEach((leg, p) => { s += ((j >> (rank - 1 - dst.indexOf(leg))) & 1) << (rank - 1 - p); });
+          if (re[j] !== src[2 * s] || im[j] !== src[2 * s + 1]) bad++;
+        }
+        expect(bad, `rank ${rank}, order ${dst.join(' ')}`).toBe(0);
+      }
+    }
   });
 
   it('the size rule: outer products and tiny products stay in JS; a memory the module cannot hold is refused (JS fallback)', () => {
