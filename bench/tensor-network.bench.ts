@@ -7,9 +7,13 @@
  * - contraction throughput >= 1/3 of numpy's flop rate on one core (OPENBLAS_NUM_THREADS=1), on the
  *   same leaf tensors and the same pairwise path. numpy runs each step two ways (np.einsum with
  *   optimize=True on the step's subscripts, and transpose + reshape + batched matmul, i.e. zgemm)
- *   and the faster counts. Runs are interleaved (ours, numpy, ours, numpy) because the machine is
- *   shared; the figure is best-of-runs on each side. If python3 or numpy is missing, this part is
- *   skipped and says so.
+ *   and the faster counts. Ours runs three ways side by side: the plain-JS GEMM, the WebAssembly
+ *   SIMD GEMM (wasm-gemm.ts), and 'auto' (the size rule contractPair uses by default; the target
+ *   applies to it). Runs are interleaved (ours, numpy, ours, numpy) because the machine is shared;
+ *   the figure is best-of-runs on each side. If python3 or numpy is missing, this part is skipped
+ *   and says so.
+ * - the size rule: one pairwise step (permute, product, result) on each kernel over a grid of m k n
+ *   and k, printed as speed-ups; WASM_GEMM_MIN_MKN in kernels.ts comes from this table.
  * - the order search's width (64 restarts + subtree reconfiguration) within 2 of the best of 64
  *   random greedy restarts (a different seed, temperature 1), on kicked-Ising light-cone networks
  *   of the demo's kinds (heavy-hex and square patches).
