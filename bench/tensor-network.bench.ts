@@ -7,9 +7,13 @@
  * - contraction throughput >= 1/3 of numpy's flop rate on one core (OPENBLAS_NUM_THREADS=1), on the
  *   same leaf tensors and the same pairwise path. numpy runs each step two ways (np.einsum with
  *   optimize=True on the step's subscripts, and transpose + reshape + batched matmul, i.e. zgemm)
- *   and the faster counts. Runs are interleaved (ours, numpy, ours, numpy) because the machine is
- *   shared; the figure is best-of-runs on each side. If python3 or numpy is missing, this part is
- *   skipped and says so.
+ *   and the faster counts. Ours runs three ways side by side: the plain-JS GEMM, the WebAssembly
+ *   SIMD GEMM (wasm-gemm.ts), and 'auto' (the size rule contractPair uses by default; the target
+ *   applies to it). Runs are interleaved (ours, numpy, ours, numpy) because the machine is shared;
+ *   the figure is best-of-runs on each side. If python3 or numpy is missing, this part is skipped
+ *   and says so.
+ * - the size rule: one pairwise step (permute, product, result) on each kernel over a grid of m k n
+ *   and k, printed as speed-ups; WASM_GEMM_MIN_MKN in kernels.ts comes from this table.
  * - the order search's width (64 restarts + subtree reconfiguration) within 2 of the best of 64
  *   random greedy restarts (a different seed, temperature 1), on kicked-Ising light-cone networks
  *   of the demo's kinds (heavy-hex and square patches).
@@ -25,10 +29,13 @@ import { kickedIsing } from '../shared/physics/kicked-ising';
 import { edgeColouring, heavyHex, square, type Graph } from '../shared/physics/lattices';
 import { graphBall } from '../shared/physics/light-cone';
 import { contractPlan, greedyTree, planTerm, rng, treeCost, type TnTermPlan } from '../shared/physics/tensor-network/index';
+import { contractPair, pairLayout, setGemmKernel, WASM_GEMM_MIN_MKN, type GemmKernel, type Tensor } from '../shared/physics/tensor-network/kernels';
 
 const HALF_PI = Math.PI / 2;
 let allPass = true;
 const fmtG = (flops: number, ms: number) => (flops / ms / 1e6).toFixed(2);
+/** GEMM kernels compared on every network: plain JS, WebAssembly SIMD, and the rule contractPair uses. */
+const KERNELS: GemmKernel[] = ['js', 'wasm', 'auto'];
 
 function circuitOn(g: Graph, steps: number, thetaH = 0.7, thetaJ = -HALF_PI) {
   return kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps, thetaH, thetaJ });
@@ -123,6 +130,7 @@ if (probe.status !== 0) {
   console.log('SKIPPED: python3 with numpy is not available on this machine');
 } else {
   const ratios: number[] = [];
+  const perKernel: Record<GemmKernel, number[]> = { js: [], wasm: [], auto: [] };
   for (const { label, plan } of cases) {
     if (plan.slices > 1 || plan.flops > 2 ** 33) continue;
     const file = join(dir, 'net.json');
@@ -131,16 +139,23 @@ if (probe.status !== 0) {
       pairs: plan.pairs, sumLegs: plan.sumLegs,
     }));
     const reps = plan.flops > 2 ** 30 ? 2 : 5;
-    let ours = Infinity;
+    const ours: Record<GemmKernel, number> = { js: Infinity, wasm: Infinity, auto: Infinity };
     let np = { ms: Infinity, mode: '' };
     let value = 0;
     let npValue = 0;
+    let kernelDiff = 0;
     for (let round = 0; round < 2; round++) {
-      for (let i = 0; i < reps; i++) {
-        const t0 = performance.now();
-        value = contractPlan(plan)[0];
-        ours = Math.min(ours, performance.now() - t0);
+      for (const kernel of KERNELS) {
+        setGemmKernel(kernel);
+        for (let i = 0; i < reps; i++) {
+          const t0 = performance.now();
+          const v = contractPlan(plan)[0];
+          ours[kernel] = Math.min(ours[kernel], performance.now() - t0);
+          if (kernel === 'js') value = v;
+          else kernelDiff = Math.max(kernelDiff, Math.abs(v - value));
+        }
       }
+      setGemmKernel('auto');
       const r = spawnSync('python3', [join(dir, 'run.py'), file, String(reps)], { encoding: 'utf8', env: { ...process.env, OPENBLAS_NUM_THREADS: '1', OMP_NUM_THREADS: '1', MKL_NUM_THREADS: '1' } });
       if (r.status !== 0) throw new Error(`numpy run failed: ${r.stderr}`);
       const out = JSON.parse(r.stdout) as Record<string, { ms: number; re: number }>;
@@ -150,18 +165,58 @@ if (probe.status !== 0) {
       }
     }
     const flops = plan.flops;
-    const ratio = np.ms / ours; // our rate / numpy's rate on the same flops
-    ratios.push(ratio);
-    const ok = ratio >= 1 / 3;
+    // our rate / numpy's rate on the same flops, per kernel choice
+    const ratio = (k: GemmKernel) => np.ms / ours[k];
+    ratios.push(ratio('auto'));
+    const ok = ratio('auto') >= 1 / 3;
     allPass &&= ok;
     const agree = Math.abs(value - npValue);
-    console.log(`${label.padEnd(40)} ours ${ours.toFixed(1)} ms (${fmtG(flops, ours)} GFlop/s), numpy ${np.mode} ${np.ms.toFixed(1)} ms (${fmtG(flops, np.ms)} GFlop/s): ratio ${ratio.toFixed(2)}, |value diff| ${agree.toExponential(1)}  ${ok ? 'PASS' : 'MISS'}`);
-    if (agree > 1e-10) {
+    console.log(`${label.padEnd(40)} numpy ${np.mode} ${np.ms.toFixed(1)} ms (${fmtG(flops, np.ms)} GFlop/s); |value diff| to numpy ${agree.toExponential(1)}, js to wasm ${kernelDiff.toExponential(1)}  ${ok ? 'PASS' : 'MISS'}`);
+    for (const k of KERNELS) console.log(`  ${k.padEnd(5)} ${ours[k].toFixed(1).padStart(7)} ms  ${fmtG(flops, ours[k]).padStart(6)} GFlop/s  ratio to numpy ${ratio(k).toFixed(2)}`);
+    for (const k of KERNELS) perKernel[k].push(ratio(k));
+    if (agree > 1e-10 || kernelDiff > 1e-10) {
       allPass = false;
-      console.log('  MISMATCH with numpy');
+      console.log('  MISMATCH with numpy or between the kernels');
     }
   }
-  if (ratios.length) console.log(`throughput ratios (ours / numpy): ${ratios.map((r) => r.toFixed(2)).join(', ')}`);
+  if (ratios.length) {
+    for (const k of KERNELS) console.log(`throughput ratios (ours / numpy), ${k} kernel: ${perKernel[k].map((r) => r.toFixed(2)).join(', ')}`);
+  }
+}
+
+// ------------------------------------------------------------------------------------------------
+// where the wasm GEMM pays: one pairwise step (permute + product + result) on each kernel, by size
+console.log('\nsize rule: one pairwise contraction (permute, product, result), JS vs wasm kernel, best of interleaved runs');
+console.log(`rule in use (kernels.ts useWasmGemm): wasm when k >= 2 and m k n >= ${WASM_GEMM_MIN_MKN}`);
+{
+  const r = rng(99);
+  const stepTensor = (legs: number[]): Tensor => ({ legs, data: Float64Array.from({ length: 2 << legs.length }, () => r() - 0.5) });
+  for (const lk of [0, 1, 2, 3, 6]) {
+    const row: string[] = [];
+    for (let lmn = 0; lmn <= 12; lmn += 2) {
+      const lm = lmn >> 1, ln = lmn - lm;
+      let id = 0;
+      const ids = (c: number) => Array.from({ length: c }, () => id++);
+      const left = ids(lm), sum = ids(lk), right = ids(ln);
+      // summed legs first in both operands: the permute has real work to do
+      const A = stepTensor([...sum, ...left]), B = stepTensor([...sum, ...right]);
+      const L = pairLayout(A.legs, B.legs, () => true);
+      const mkn = 2 ** (lm + lk + ln);
+      const reps = Math.max(3, Math.round(2e6 / mkn));
+      const t = { js: Infinity, wasm: Infinity };
+      for (let round = 0; round < 5; round++) {
+        for (const k of ['js', 'wasm'] as const) {
+          setGemmKernel(k);
+          const t0 = performance.now();
+          for (let i = 0; i < reps; i++) contractPair(A, B, L);
+          t[k] = Math.min(t[k], (performance.now() - t0) / reps);
+        }
+      }
+      setGemmKernel('auto');
+      row.push(`mkn 2^${lm + lk + ln} x${(t.js / t.wasm).toFixed(2)}`);
+    }
+    console.log(`k = ${String(2 ** lk).padEnd(3)} wasm speed-up (JS time / wasm time): ${row.join(', ')}`);
+  }
 }
 
 // ------------------------------------------------------------------------------------------------

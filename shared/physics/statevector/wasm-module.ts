@@ -1,4 +1,8 @@
 /** The hand-assembled WebAssembly SIMD module (docs/decisions/0002-hand-assembled-wasm.md). */
+import {
+  add, assembleModule, block, br, brIf, compileModule, F64, f64load, geu, get, HI, I32, i32c, LO, locals, loop, ltu,
+  set, shuf, splat, swapOf, tee, V128, vadd, vconst, vload, vmul, vstore, type Kernel,
+} from '../wasm/assembler';
 
 // ------------------------------------------------------------------------------------------------
 // WebAssembly SIMD kernels (the default engine where WebAssembly SIMD is available).
@@ -11,50 +15,6 @@
 export const WASM_MAX_QUBITS = 27;
 
 function buildKernelModule(): Uint8Array<ArrayBuffer> {
-  const uleb = (v: number): number[] => {
-    const o: number[] = [];
-    do {
-      let b = v & 0x7f;
-      v >>>= 7;
-      if (v) b |= 0x80;
-      o.push(b);
-    } while (v);
-    return o;
-  };
-  const vec = (items: number[][]): number[] => [...uleb(items.length), ...items.flat()];
-  const section = (id: number, b: number[]): number[] => [id, ...uleb(b.length), ...b];
-  const str = (s: string): number[] => [...uleb(s.length), ...[...s].map((c) => c.charCodeAt(0))];
-  const I32 = 0x7f, F64 = 0x7c, V128 = 0x7b;
-  const get = (i: number) => [0x20, ...uleb(i)];
-  const set = (i: number) => [0x21, ...uleb(i)];
-  const tee = (i: number) => [0x22, ...uleb(i)];
-  const sleb = (v: number): number[] => {
-    const o: number[] = [];
-    for (;;) {
-      const b = v & 0x7f;
-      v >>= 7;
-      if ((v === 0 && !(b & 0x40)) || (v === -1 && b & 0x40)) { o.push(b); return o; }
-      o.push(b | 0x80);
-    }
-  };
-  const i32c = (v: number) => [0x41, ...sleb(v)];
-  const add = [0x6a], geu = [0x4f], ltu = [0x49];
-  const simd = (op: number) => [0xfd, ...uleb(op)];
-  const vload = (off = 0) => [...simd(0x00), 4, ...uleb(off)];
-  const vstore = (off = 0) => [...simd(0x0b), 4, ...uleb(off)];
-  const f64load = (off: number) => [0x2b, 3, ...uleb(off)];
-  const splat = simd(0x14), vadd = simd(0xf0), vmul = simd(0xf2);
-  const f64bytes = (x: number) => [...new Uint8Array(new Float64Array([x]).buffer)];
-  const vconst = (a: number, b: number) => [...simd(0x0c), ...f64bytes(a), ...f64bytes(b)];
-  const shuf = (lanes: number[]) => [...simd(0x0d), ...lanes];
-  const SWAP = [8, 9, 10, 11, 12, 13, 14, 15, 0, 1, 2, 3, 4, 5, 6, 7];
-  const LO = [0, 1, 2, 3, 4, 5, 6, 7, 0, 1, 2, 3, 4, 5, 6, 7];
-  const HI = [8, 9, 10, 11, 12, 13, 14, 15, 8, 9, 10, 11, 12, 13, 14, 15];
-  const swapOf = (i: number) => [...get(i), ...get(i), ...shuf(SWAP)];
-  const block = (b: number[]) => [0x02, 0x40, ...b, 0x0b];
-  const loop = (b: number[]) => [0x03, 0x40, ...b, 0x0b];
-  const br = (l: number) => [0x0c, ...uleb(l)];
-  const brIf = (l: number) => [0x0d, ...uleb(l)];
   const PM = vconst(-1, 1);
 
   // Kernel families: rx (RX form: C = splat(c), S = [s, -s]; x' = C x + S swap(y), y' = C y + S swap(x)),
@@ -137,7 +97,7 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
       ];
     }
     const nV = nCoef + (kind === 'gen' ? 4 : 2);
-    return { params, locals: vec([[...uleb(nIntLocals), I32], [...uleb(nV), V128]]), body: [...init, ...loopCode] };
+    return { params, locals: locals([[nIntLocals, I32], [nV, V128]]), body: [...init, ...loopCode] };
   };
 
   // diag(start, end, tptr, pr, pi): amp *= (pr + i pi) * table; locals 5 p, 6 tp; 7 PR, 8 PI, 9 t, 10 f, 11 a
@@ -161,30 +121,16 @@ function buildKernelModule(): Uint8Array<ArrayBuffer> {
       ]),
     ]),
   ];
-  const diagLocals = vec([[...uleb(2), I32], [...uleb(5), V128]]);
+  const diagLocals = locals([[2, I32], [5, V128]]);
 
-  const code = (locals: number[], body: number[]) => {
-    const b = [...locals, ...body, 0x0b];
-    return [...uleb(b.length), ...b];
-  };
-  const fn = (params: number[]) => [0x60, ...vec(params.map((p) => [p])), ...vec([])];
-  const kernels: { name: string; params: number[]; locals: number[]; body: number[] }[] = [];
+  const kernels: Kernel[] = [];
   for (const kind of ['rx', 'real', 'gen'] as Kind[]) {
     for (const adjacent of [false, true]) {
       for (const dual of [false, true]) kernels.push({ name: kind + (adjacent ? '0' : '') + (dual ? 'd' : ''), ...build(kind, adjacent, dual) });
     }
   }
   kernels.push({ name: 'diag', params: [I32, I32, I32, F64, F64], locals: diagLocals, body: diagBody });
-  const types = vec(kernels.map((k) => fn(k.params)));
-  const mod = [
-    0x00, 0x61, 0x73, 0x6d, 1, 0, 0, 0,
-    ...section(1, types),
-    ...section(2, vec([[...str('env'), ...str('mem'), 0x02, 0x00, ...uleb(1)]])),
-    ...section(3, vec(kernels.map((_, i) => [i]))),
-    ...section(7, vec(kernels.map((k, i) => [...str(k.name), 0x00, i]))),
-    ...section(10, vec(kernels.map((k) => code(k.locals, k.body)))),
-  ];
-  return new Uint8Array(mod);
+  return assembleModule(kernels);
 }
 
 export interface WasmKernels {
@@ -206,12 +152,7 @@ export interface WasmKernels {
 let wasmModule: WebAssembly.Module | null | undefined;
 export function getWasmModule(): WebAssembly.Module | null {
   if (wasmModule !== undefined) return wasmModule;
-  try {
-    const bytes = buildKernelModule();
-    wasmModule = typeof WebAssembly !== 'undefined' && WebAssembly.validate(bytes) ? new WebAssembly.Module(bytes) : null;
-  } catch {
-    wasmModule = null;
-  }
+  wasmModule = compileModule(buildKernelModule);
   return wasmModule;
 }
 

@@ -10,8 +10,15 @@
  * arrays, so the GEMM inner loop runs on two plain real arrays (no strided complex loads); the
  * GEMM writes the interleaved result directly. k <= 4 (one or two summed legs) has its own loops.
  *
+ * Two GEMM kernels with one contract: gemmSplit here (plain JS, the fallback) and the hand-assembled
+ * WebAssembly SIMD kernel in wasm-gemm.ts (the permute writes its operands straight into the
+ * module's memory). contractPair picks per product with `useWasmGemm` (the rule measured by
+ * bench/tensor-network.bench.ts) and falls back to JS when the module's memory cannot hold the
+ * operands or the host has no WebAssembly SIMD.
+ *
  * No framework or node: imports.
  */
+import { gemmArena, gemmBatchedInArena } from './wasm-gemm';
 
 export interface Tensor {
   legs: number[];
@@ -45,9 +52,16 @@ function offsetTables(srcLegs: readonly number[], dstLegs: readonly number[], fi
   return { lo, hi, loBits };
 }
 
+/** Tensors of at least this rank are permuted in tiles (permuteTiled); smaller ones in one sweep. */
+export const PERMUTE_TILED_MIN_RANK = 12;
+
 /** Permute interleaved `src` (legs srcLegs) into split re/im arrays with legs dstLegs. */
 export function permuteSplit(src: Float64Array, srcLegs: readonly number[], dstLegs: readonly number[], re: Float64Array, im: Float64Array): void {
-  const { lo, hi, loBits } = offsetTables(srcLegs, dstLegs);
+  if (dstLegs.length >= PERMUTE_TILED_MIN_RANK) {
+    permuteTiled(src, srcLegs, dstLegs, re, im);
+    return;
+  }
+  const { lo, hi } = offsetTables(srcLegs, dstLegs);
   const nl = lo.length;
   let o = 0;
   for (let h = 0; h < hi.length; h++) {
@@ -59,7 +73,61 @@ export function permuteSplit(src: Float64Array, srcLegs: readonly number[], dstL
       o++;
     }
   }
-  void loBits;
+}
+
+/** Source and destination offsets over every combination of the given destination bits. */
+function bitTable(bits: readonly number[], srcStride: Int32Array): { s: Int32Array; d: Int32Array } {
+  const s = new Int32Array(1 << bits.length), d = new Int32Array(1 << bits.length);
+  for (let o = 1; o < s.length; o++) {
+    const j = 31 - Math.clz32(o & -o);
+    s[o] = s[o & (o - 1)] + srcStride[bits[j]];
+    d[o] = d[o & (o - 1)] + (1 << bits[j]);
+  }
+  return { s, d };
+}
+
+const TILE_INNER_BITS = 4, TILE_BITS = 4;
+
+/**
+ * permuteSplit for large tensors, cache-blocked: the innermost loop writes runs of 2^4 contiguous
+ * destination elements; the next loop walks the destination bits that are the source's lowest
+ * (up to 4 of them), so one tile reads and writes a few KB that stay in L1 instead of striding
+ * through the whole source for every run. The bench's heavy-hex width-23 network: a reversed
+ * rank-23 permute 3.9 s -> 0.5 s, a random one 0.45 -> 0.31 s.
+ */
+function permuteTiled(src: Float64Array, srcLegs: readonly number[], dstLegs: readonly number[], re: Float64Array, im: Float64Array): void {
+  const rs = srcLegs.length, rd = dstLegs.length;
+  // by destination bit b (from the least significant): the source bit and stride
+  const srcBit = new Int32Array(rd), srcStride = new Int32Array(rd);
+  for (let b = 0; b < rd; b++) {
+    const p = srcLegs.indexOf(dstLegs[rd - 1 - b]);
+    if (p < 0) throw new Error(`permute: leg ${dstLegs[rd - 1 - b]} not in the source tensor`);
+    srcBit[b] = rs - 1 - p;
+    srcStride[b] = 1 << srcBit[b];
+  }
+  const a = Math.min(rd, TILE_INNER_BITS);
+  const inner = bitTable(Array.from({ length: a }, (_, b) => b), srcStride);
+  const rest = Array.from({ length: rd - a }, (_, i) => a + i);
+  const tileBits = [...rest].sort((x, y) => srcBit[x] - srcBit[y]).slice(0, TILE_BITS).filter((b) => srcBit[b] < TILE_INNER_BITS + TILE_BITS + 2);
+  const outerBits = rest.filter((b) => !tileBits.includes(b));
+  const tile = bitTable(tileBits, srcStride);
+  const half = outerBits.length >> 1;
+  const oLo = bitTable(outerBits.slice(0, half), srcStride), oHi = bitTable(outerBits.slice(half), srcStride);
+  const nl = inner.s.length, nt = tile.s.length, is = inner.s;
+  for (let h = 0; h < oHi.s.length; h++) {
+    for (let m = 0; m < oLo.s.length; m++) {
+      const s0 = oHi.s[h] + oLo.s[m], d0 = oHi.d[h] + oLo.d[m];
+      for (let t = 0; t < nt; t++) {
+        const s1 = s0 + tile.s[t];
+        let d = d0 + tile.d[t];
+        for (let l = 0; l < nl; l++, d++) {
+          const s = (s1 + is[l]) << 1;
+          re[d] = src[s];
+          im[d] = src[s + 1];
+        }
+      }
+    }
+  }
 }
 
 /**
@@ -98,7 +166,7 @@ export function sliceTensor(t: Tensor, fixed: ReadonlyMap<number, number>): Tens
  */
 export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
   // c is interleaved complex; cOff counts complex elements
-  if (k <= 4) {
+  if (k === 1 || k === 2 || k === 4) {
     smallK(m, k, n, ar, ai, aOff, br, bi, bOff, c, cOff);
     return;
   }
@@ -157,7 +225,7 @@ export function gemmSplit(m: number, k: number, n: number, ar: Float64Array, ai:
   }
 }
 
-/** k = 1, 2 or 4: the row of A sits in locals, one pass over the rows of B per row of A. */
+/** k = 1, 2 or 4 (only those: k = 3 takes the general loop): the row of A sits in locals, one pass over the rows of B per row of A. */
 function smallK(m: number, k: number, n: number, ar: Float64Array, ai: Float64Array, aOff: number, br: Float64Array, bi: Float64Array, bOff: number, c: Float64Array, cOff: number): void {
   let o = 2 * cOff;
   if (k === 1) {
@@ -229,6 +297,32 @@ class Scratch {
 }
 const scratch = new Scratch();
 
+/** Which GEMM contractPair uses: 'auto' (the measured rule, useWasmGemm) or one kernel throughout. */
+export type GemmKernel = 'auto' | 'js' | 'wasm';
+let gemmKernel: GemmKernel = 'auto';
+
+/** Set the GEMM kernel of contractPair for this thread (the bench and the kernel tests compare them). */
+export function setGemmKernel(kernel: GemmKernel): void {
+  gemmKernel = kernel;
+}
+
+/**
+ * Smallest m k n of one product for which the wasm kernel pays. Measured by the bench's size sweep
+ * (one whole pairwise step, permute included, JS vs wasm, on the 2-core machine under load): below
+ * 2^7 the wasm path's fixed cost (the call, the copy of the result out of its memory) makes it
+ * 0.7-0.9x of JS; at 2^7-2^9 about even to 1.3x; from 2^11 1.2-1.5x at k = 2 and 3-10x at k >= 8.
+ */
+export const WASM_GEMM_MIN_MKN = 128;
+
+/**
+ * The rule of 'auto': the wasm kernel for products of at least WASM_GEMM_MIN_MKN multiply-adds
+ * with at least two summed values (k >= 2); outer products (k = 1) are bound by writing C, which
+ * the wasm path writes twice (into its memory, then out), so they stay in JS.
+ */
+export function useWasmGemm(m: number, k: number, n: number): boolean {
+  return k >= 2 && m * k * n >= WASM_GEMM_MIN_MKN;
+}
+
 /** Contract A and B with the given layout; the result has legs [...batch, ...left, ...right]. */
 export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const nb = 1 << L.batch.length;
@@ -238,6 +332,15 @@ export function contractPair(A: Tensor, B: Tensor, L: PairLayout): Tensor {
   const aSize = nb * m * k;
   const bSize = nb * k * n;
   const cSize = nb * m * n;
+  if (gemmKernel === 'wasm' || (gemmKernel === 'auto' && useWasmGemm(m, k, n))) {
+    const arena = gemmArena(aSize, bSize, cSize);
+    if (arena) {
+      permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], arena.ar, arena.ai);
+      permuteSplit(B.data, B.legs, [...L.batch, ...L.right, ...L.sum], arena.br, arena.bi);
+      gemmBatchedInArena(arena, nb, m, k, n);
+      return { legs: [...L.batch, ...L.left, ...L.right], data: arena.c.slice() };
+    }
+  }
   const ar = scratch.get(0, aSize), ai = scratch.get(1, aSize);
   const br = scratch.get(2, bSize), bi = scratch.get(3, bSize);
   permuteSplit(A.data, A.legs, [...L.batch, ...L.left, ...L.sum], ar, ai);
