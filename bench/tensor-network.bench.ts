@@ -25,6 +25,8 @@ import { kickedIsing } from '../shared/physics/kicked-ising';
 import { edgeColouring, heavyHex, square, type Graph } from '../shared/physics/lattices';
 import { graphBall } from '../shared/physics/light-cone';
 import { contractPlan, greedyTree, planTerm, rng, treeCost, type TnTermPlan } from '../shared/physics/tensor-network/index';
+import { TN_RATE } from '../shared/physics/planner/rates';
+import { checkRate } from './rate-check';
 
 const HALF_PI = Math.PI / 2;
 let allPass = true;
@@ -123,6 +125,7 @@ if (probe.status !== 0) {
   console.log('SKIPPED: python3 with numpy is not available on this machine');
 } else {
   const ratios: number[] = [];
+  const ourRates: number[] = [];
   for (const { label, plan } of cases) {
     if (plan.slices > 1 || plan.flops > 2 ** 33) continue;
     const file = join(dir, 'net.json');
@@ -151,6 +154,7 @@ if (probe.status !== 0) {
     }
     const flops = plan.flops;
     const ratio = np.ms / ours; // our rate / numpy's rate on the same flops
+    ourRates.push(flops / (ours / 1000));
     ratios.push(ratio);
     const ok = ratio >= 1 / 3;
     allPass &&= ok;
@@ -162,6 +166,8 @@ if (probe.status !== 0) {
     }
   }
   if (ratios.length) console.log(`throughput ratios (ours / numpy): ${ratios.map((r) => r.toFixed(2)).join(', ')}`);
+  // planner calibration (shared/physics/planner/rates.ts TN_RATE): the median of our contraction rates
+  if (ourRates.length) allPass = checkRate('TN_RATE', TN_RATE, [...ourRates].sort((a, b) => a - b)[Math.floor(ourRates.length / 2)], 'real flops/s') && allPass;
 }
 
 // ------------------------------------------------------------------------------------------------

@@ -36,7 +36,7 @@ export const TN_RATE = 7e8;
 
 /**
  * Free-fermion solver: multiply-adds per second of freeFermionCost's operation count. Measured by
- * bench/free-fermion.bench.ts: chains of 200 to 1,000 sites, operations / wall time.
+ * bench/free-fermion.bench.ts: chains of 120 to 1,000 sites, operations / wall time.
  */
 export const FREE_FERMION_RATE = 3e8;
 
