@@ -168,6 +168,7 @@ export function graphBall(n: number, edges: readonly (readonly [number, number])
  * The sub-chain [lo, hi] (0-based, inclusive) holding the causal cone of a Pauli string on sites
  * lo..hi of an open chain of n sites after `steps` kicked-Ising steps: radius t - 1 around a Z-only
  * support (the last ZZ layer commutes with it), t when it has an X or Y; clipped to the chain.
+ * Exact for the free-fermion terms (Z_j, X_j, Z_j Z_j+1); for a string mixing Z with X/Y an upper bound.
  */
 export function chainCone(n: number, steps: number, lo: number, hi: number, hasXY: boolean): [number, number] {
   const r = hasXY ? steps : Math.max(0, steps - 1);

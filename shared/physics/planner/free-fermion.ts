@@ -40,7 +40,7 @@ export class FreeFermionEstimator {
       cost = freeFermionCost({ n, thetaJ: p.thetaJ, thetaH: p.thetaH, steps: p.steps }, obs);
       this.cache.set(key, cost);
     }
-    if (!cost) return none({ code: 'free-fermion-unsupported', text: 'not supported for this instance' });
+    if (!cost) return none({ code: 'free-fermion-no-cost' });
     const seconds = OTHER_OVERHEAD_S + cost.seconds; // operations / FREE_FERMION_RATE (free-fermion.ts)
     const size = freeFermionSites(n, p.steps, obs);
     if (seconds > o.secondsBudget) return { method: 'free-fermion', size, unit: 'sites', seconds, why: { code: 'over-time', method: 'free-fermion', seconds, budget: o.secondsBudget } };

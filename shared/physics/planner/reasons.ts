@@ -33,6 +33,8 @@ export function reasonText(r: Reason): string {
       return 'free-fermion needs the kicked-ising family';
     case 'free-fermion-unsupported':
       return `free-fermion: ${r.text}`;
+    case 'free-fermion-no-cost':
+      return 'free-fermion: not supported for this instance';
     case 'cone-limit':
       return `light cone has ${fmtInt(r.qubits)} qubits (limit ${r.limit}) and ${fmtInt(r.nonClifford)} non-Clifford rotations${r.widestTerm ? `, the widest single-term cone ${fmtInt(r.widestTerm.qubits)} qubits (term ${r.widestTerm.index + 1})` : ''}`;
     case 'register-limit':

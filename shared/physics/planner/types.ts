@@ -19,7 +19,9 @@ export type Reason =
   | { code: 'over-time'; method: ExactMethod; seconds: number; budget: number; qubits?: number; terms?: number }
   | { code: 'not-chain'; lattice: string }
   | { code: 'not-kicked-ising' }
+  /** `text`: the free-fermion engine's own sentence (freeFermionUnsupportedReason) */
   | { code: 'free-fermion-unsupported'; text: string }
+  | { code: 'free-fermion-no-cost' }
   | { code: 'cone-limit'; qubits: number; limit: number; nonClifford: number; widestTerm?: { qubits: number; index: number } }
   | { code: 'register-limit'; qubits: number; limit: number }
   | { code: 'tn-not-needed'; seconds: number }
