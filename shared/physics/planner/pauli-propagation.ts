@@ -33,6 +33,8 @@ export interface TermBound {
   log2Terms: number;
   /** bound on the term-gate updates (terms held, summed over the kept gates) */
   work: number;
+  /** a sum (each term runs on its own): the term with the largest bound */
+  largestTerm?: { log2Terms: number; index: number };
 }
 
 export class PropagationEstimator {
@@ -44,12 +46,12 @@ export class PropagationEstimator {
   estimate({ options: o, inst, obs, union }: EstimateInput): MethodCost {
     // one propagation per term on its own cone (reference.ts does the same), so the bounds add;
     // at a Clifford instance every term stays one string and the work is the cone's gate count
-    const { log2Terms, work } = this.observableBound(inst, obs);
+    const { log2Terms, work, largestTerm } = this.observableBound(inst, obs);
     const terms = 2 ** log2Terms;
     const seconds = OTHER_OVERHEAD_S + work / PROPAGATION_RATE;
     const base = { method: 'pauli-propagation', unit: 'terms', seconds } as const;
     if (terms > o.termBudget) {
-      return { ...base, size: o.termBudget, attempt: true, why: { code: 'term-bound', log2Terms, budget: o.termBudget, nonClifford: union.nonClifford } };
+      return { ...base, size: o.termBudget, attempt: true, why: { code: 'term-bound', log2Terms, budget: o.termBudget, nonClifford: union.nonClifford, ...(largestTerm ? { largestTerm } : {}) } };
     }
     if (seconds > o.secondsBudget) return { ...base, size: Math.round(terms), why: { code: 'over-time', method: 'pauli-propagation', seconds, budget: o.secondsBudget } };
     return { ...base, size: Math.round(terms) };
@@ -66,12 +68,14 @@ export class PropagationEstimator {
     if (!b) {
       let log2Terms = -Infinity;
       let work = 0;
-      for (const t of obs.terms) {
+      let largest = { log2Terms: -Infinity, index: -1 };
+      obs.terms.forEach((t, index) => {
         const x = this.termBound(inst, t);
         log2Terms = log2Sum(log2Terms, x.log2Terms);
         work += x.work;
-      }
-      b = { log2Terms, work };
+        if (x.log2Terms > largest.log2Terms) largest = { log2Terms: x.log2Terms, index };
+      });
+      b = { log2Terms, work, ...(obs.terms.length > 1 ? { largestTerm: largest } : {}) };
       this.observableCache.set(key, b);
     }
     return b;

@@ -24,7 +24,7 @@ const LATTICE_NAMES: Record<string, string> = {
 export function reasonText(r: Reason): string {
   switch (r.code) {
     case 'term-bound':
-      return `Pauli propagation could need up to ${fmtPow2(r.log2Terms)} terms (budget ${fmtInt(r.budget)}) from ${fmtInt(r.nonClifford)} non-Clifford rotations in the light cone`;
+      return `Pauli propagation could need up to ${fmtPow2(r.log2Terms)} terms (budget ${fmtInt(r.budget)}) from ${fmtInt(r.nonClifford)} non-Clifford rotations in the light cone${r.largestTerm ? `, the largest single term up to ${fmtPow2(r.largestTerm.log2Terms)} (term ${r.largestTerm.index + 1})` : ''}`;
     case 'over-time':
       return `${METHOD_NAMES[r.method]}${r.qubits !== undefined ? ` on ${fmtInt(r.qubits)} qubits` : ''}${r.terms ? ` per term (${r.terms} terms)` : ''} would take about ${fmtSeconds(r.seconds)} (budget ${fmtSeconds(r.budget)})`;
     case 'not-chain':

@@ -15,7 +15,7 @@ export const METHOD_ORDER: readonly ExactMethod[] = ['pauli-propagation', 'free-
  * sentence (reasonText) and joins a plan's reasons (infeasibleSentence); no other place writes them.
  */
 export type Reason =
-  | { code: 'term-bound'; log2Terms: number; budget: number; nonClifford: number }
+  | { code: 'term-bound'; log2Terms: number; budget: number; nonClifford: number; largestTerm?: { log2Terms: number; index: number } }
   | { code: 'over-time'; method: ExactMethod; seconds: number; budget: number; qubits?: number; terms?: number }
   | { code: 'not-chain'; lattice: string }
   | { code: 'not-kicked-ising' }

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { loadChallenge, type ChallengeSpec } from '../../../shared/physics/challenge';
-import { planChallenge, reasonText, type Reason } from '../../../shared/physics/planner';
+import { Planner, planChallenge, reasonText, type Reason } from '../../../shared/physics/planner';
 import * as rates from '../../../shared/physics/planner/rates';
 import { checkRate } from '../../../bench/rate-check';
 
@@ -93,5 +93,24 @@ describe('planner structure', () => {
       if (p.method === null) for (const part of (p.reason as string).split('; ')) expect(part === 'not a chain' || part.startsWith('exact Pauli propagation is attempted') || p.estimates.some((e) => e.reason === part), part).toBe(true);
     }
     expect([...codes].sort()).toEqual(expect.arrayContaining(['cone-limit', 'free-fermion-unsupported', 'not-chain', 'register-limit', 'term-bound', 'tn-not-needed', 'tn-not-searched']));
+  });
+
+  it('a sum is quoted per term (issue 15): the term bound names the largest single term, as the runner propagates term by term', () => {
+    const ch = loadChallenge({
+      id: 't', version: 1, title: 't', description: '', lattice: { kind: 'square', rows: 4, cols: 4 },
+      circuit: { family: 'kicked-ising', steps: [3], thetaH: [0.6] }, observables: [{ id: 's', terms: [{ coef: 0.5, pauli: 'Z0' }, { coef: 0.5, pauli: 'Z5' }] }],
+    });
+    const planner = new Planner(ch, { termBudget: 100 });
+    const p = planner.plan(ch.targets[0]);
+    const pp = p.estimates.find((e) => e.method === 'pauli-propagation')!;
+    if (pp.why?.code !== 'term-bound') throw new Error(`expected a term bound, got ${pp.why?.code}`);
+    const inst = planner.instance(ch.targets[0].instanceId);
+    const [corner, centre] = ch.observables[0].terms.map((t) => planner.termBound(inst, t).log2Terms);
+    expect(centre).toBeGreaterThan(corner); // the centre's cone is wider
+    expect(pp.why.largestTerm).toEqual({ log2Terms: centre, index: 1 });
+    expect(pp.reason).toMatch(/, the largest single term up to [\d,^]+ \(term 2\)$/);
+    // a single term quotes no per-term figure
+    const one = planChallenge(loadChallenge({ ...ch.spec, observables: [{ id: 'z', pauli: 'Z5' }] }), { termBudget: 100 })[0];
+    expect(one.estimates.find((e) => e.method === 'pauli-propagation')!.reason).not.toMatch(/single term/);
   });
 });
