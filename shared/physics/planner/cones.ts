@@ -8,6 +8,7 @@ import type { CompiledCircuit, ObservableSpec, PauliTerm } from '../circuit';
 import type { ValidatedChallenge } from '../challenge';
 import { compileInstance, type CompiledLattice, type Instance } from '../compile';
 import { GateConeCounter, isCliffordAngle, KickedIsingCones, lightCone, type ConeCount, type ConeWalkHooks, type KickedIsingCone } from '../light-cone';
+import type { PlannerOptions } from './options';
 import type { ConeStats } from './types';
 
 /** A kicked-Ising cone at one step count: a prefix (`blocksLen` numbers) of a longer walk's blocks. */
@@ -130,4 +131,15 @@ export class PlannerCones {
     if (inst.params.family !== 'kicked-ising') throw new Error('instance family mismatch');
     return this.kickedCones().restrict(inst.params, obs);
   }
+}
+
+/** What every estimator is given for one target. */
+export interface EstimateInput {
+  challenge: ValidatedChallenge;
+  options: Required<PlannerOptions>;
+  cones: PlannerCones;
+  inst: Instance;
+  obs: ObservableSpec;
+  /** the observable's union light cone */
+  union: ConeStats;
 }

@@ -7,7 +7,8 @@ import type { ObservableSpec } from '../circuit';
 import { freeFermionCost, freeFermionUnsupportedReason } from '../free-fermion';
 import { chainCone } from '../light-cone';
 import { OTHER_OVERHEAD_S } from './rates';
-import type { EstimateInput, MethodCost, Reason } from './types';
+import type { EstimateInput } from './cones';
+import type { MethodCost, Reason } from './types';
 
 /** Sites of the longest sub-chain the free-fermion solver works on (each term's causal cone, light-cone.ts's chainCone). */
 export function freeFermionSites(n: number, steps: number, obs: ObservableSpec): number {

@@ -18,7 +18,7 @@
 import type { CompiledCircuit, ObservableSpec, PauliTerm } from '../circuit';
 import type { ValidatedChallenge } from '../challenge';
 import { compileLattice, type CompiledLattice, type Instance, type Target } from '../compile';
-import { PlannerCones } from './cones';
+import { PlannerCones, type EstimateInput } from './cones';
 import { FreeFermionEstimator } from './free-fermion';
 import { LightConeStatevectorEstimator, type PerTermCones } from './light-cone-statevector';
 import { resolveOptions, type PlannerOptions } from './options';
@@ -26,7 +26,7 @@ import { isCliffordInstance, PropagationEstimator, type TermBound } from './paul
 import { infeasibleSentence, reasonText } from './reasons';
 import { estimateStatevector } from './statevector';
 import { TensorNetworkEstimator, type TnObservableCost } from './tensor-network';
-import { METHOD_ORDER, type ConeStats, type EstimateInput, type MethodCost, type MethodEstimate, type TargetPlan } from './types';
+import { METHOD_ORDER, type ConeStats, type MethodCost, type MethodEstimate, type TargetPlan } from './types';
 
 export type { ConeStats, ExactMethod, MethodCost, MethodEstimate, Reason, TargetPlan, TnEstimate, TnTermCost } from './types';
 export { METHOD_ORDER } from './types';

@@ -6,9 +6,9 @@
  */
 import type { ObservableSpec } from '../circuit';
 import type { Instance } from '../compile';
-import { termKey, type PlannerCones } from './cones';
+import { termKey, type PlannerCones, type EstimateInput } from './cones';
 import { STATEVECTOR_OVERHEAD_S, STATEVECTOR_RATE } from './rates';
-import type { EstimateInput, MethodCost, Reason } from './types';
+import type { MethodCost, Reason } from './types';
 
 /** Estimated seconds of one statevector run on `qubits` qubits through `gates` gates and `terms` terms. */
 export function statevectorSeconds(qubits: number, gates: number, terms: number): number {

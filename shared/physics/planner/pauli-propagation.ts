@@ -11,9 +11,9 @@ import type { ObservableSpec, PauliTerm } from '../circuit';
 import type { ValidatedChallenge } from '../challenge';
 import type { Instance } from '../compile';
 import { isCliffordAngle } from '../light-cone';
-import { termKey, type PlannerCones } from './cones';
+import { termKey, type PlannerCones, type EstimateInput } from './cones';
 import { OTHER_OVERHEAD_S, PROPAGATION_RATE } from './rates';
-import type { EstimateInput, MethodCost } from './types';
+import type { MethodCost } from './types';
 
 /** Is every rotation of the instance a multiple of pi/2? */
 export function isCliffordInstance(challenge: ValidatedChallenge, inst: Instance): boolean {

@@ -1,6 +1,7 @@
 /** Full statevector: the whole register, n <= statevectorQubitLimit; work ~ 2^n x (gates + terms) at STATEVECTOR_RATE. */
 import { statevectorSeconds } from './light-cone-statevector';
-import type { EstimateInput, MethodCost } from './types';
+import type { EstimateInput } from './cones';
+import type { MethodCost } from './types';
 
 export function estimateStatevector({ challenge, options: o, cones, inst, obs }: EstimateInput): MethodCost {
   const n = challenge.nQubits;

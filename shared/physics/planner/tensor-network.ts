@@ -6,10 +6,10 @@
 import type { ObservableSpec } from '../circuit';
 import type { Instance } from '../compile';
 import { planTerm } from '../tensor-network/index';
-import { termKey, type PlannerCones } from './cones';
+import { termKey, type PlannerCones, type EstimateInput } from './cones';
 import { TN_CONSIDER_SECONDS, TN_MAX_CONE_GATES, tnOptions, type PlannerOptions } from './options';
 import { OTHER_OVERHEAD_S, TN_RATE } from './rates';
-import type { EstimateInput, MethodCost, Reason, TnTermCost } from './types';
+import type { MethodCost, Reason, TnTermCost } from './types';
 
 const nowMs = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 

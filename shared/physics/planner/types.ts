@@ -1,9 +1,4 @@
 /** The planner's vocabulary: methods, estimates, plans and the structured reasons behind them. */
-import type { ObservableSpec } from '../circuit';
-import type { ValidatedChallenge } from '../challenge';
-import type { Instance } from '../compile';
-import type { PlannerCones } from './cones';
-import type { PlannerOptions } from './options';
 
 export type ExactMethod = 'pauli-propagation' | 'free-fermion' | 'light-cone-statevector' | 'tensor-network' | 'statevector';
 
@@ -103,15 +98,4 @@ export interface TnTermCost {
   memoryBytes: number;
   coneQubits: number;
   searchSeconds: number;
-}
-
-/** What every estimator is given for one target. */
-export interface EstimateInput {
-  challenge: ValidatedChallenge;
-  options: Required<PlannerOptions>;
-  cones: PlannerCones;
-  inst: Instance;
-  obs: ObservableSpec;
-  /** the observable's union light cone */
-  union: ConeStats;
 }
