@@ -33,7 +33,8 @@ export const STATEVECTOR_RATE = 1e9;
  * Tensor-network contraction: real flops per second (8 per complex multiply-add). Measured by
  * bench/tensor-network.bench.ts: the median of the contraction rates on its five networks: 5.0e8
  * at load 15 (2026-12-05; 0.3 to 1.2 GFlop/s per network, numpy with OpenBLAS 0.07 to 0.96 on the
- * same networks and paths); 0.8 to 1.4 GFlop/s at lower load.
+ * same networks and paths); 0.8 to 1.4 GFlop/s at lower load; with the WebAssembly GEMM kernels of
+ * branch h-tnsimd: median 6.2e8, 0.1 to 2.2 GFlop/s per network (2026-12-05, under load).
  */
 export const TN_RATE = 7e8;
 
