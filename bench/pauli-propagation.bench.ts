@@ -7,7 +7,10 @@
  */
 import type { CompiledCircuit, Gate, Layer } from '../shared/physics/circuit';
 import { cpus, loadavg } from 'node:os';
+import { lightCone } from '../shared/physics/light-cone';
 import { propagate } from '../shared/physics/pauli-propagation';
+import { PROPAGATION_RATE } from '../shared/physics/planner/rates';
+import { checkRate } from './rate-check';
 
 type Edge = [number, number];
 
@@ -116,3 +119,32 @@ console.log(
     `(PHYSICS.md: 2e7 to 9e7): worst of delta 1e-4, 1e-5: ${worstWall.toExponential(3)} wall ${verdict(worstWall)}; ` +
     `${worstCpu.toExponential(3)} per CPU second ${verdict(worstCpu)}`,
 );
+
+// Planner calibration (shared/physics/planner/rates.ts PROPAGATION_RATE): the planner's unit is a
+// term-gate update at every kept gate of the cone, Clifford ones included. The cone (light-cone.ts,
+// as the runner restricts it) is propagated one step at a time at delta 1e-5, so the terms held at
+// each step's Clifford gates (its count on entry: Clifford maps drop nothing) add to the engine's
+// updates at the rotations; rate = those updates / the steps' wall time (median of 3 runs).
+{
+  const cone = lightCone(circuit, observable);
+  const perStep = circuit.gates.length / steps;
+  const chunks: Gate[][] = Array.from({ length: steps }, () => []);
+  cone.keptGates.forEach((gi, k) => chunks[Math.floor(gi / perStep)].push(cone.circuit.gates[k]));
+  const rates: number[] = [];
+  for (let rep = 0; rep < 3; rep++) {
+    let obs = cone.observable!;
+    let updates = 0;
+    let ms = 0;
+    for (let s = steps - 1; s >= 0; s--) {
+      const gates = chunks[s];
+      const clifford = gates.filter((g) => g.name !== 'rx').length;
+      const r = propagate({ nQubits: cone.circuit.nQubits, gates, layers: [] }, obs, { delta: 1e-5, returnTerms: true });
+      updates += obs.terms.length * clifford + r.updates;
+      ms += r.wallMs;
+      obs = { id: obs.id, terms: r.finalTerms! };
+    }
+    rates.push(updates / (ms / 1000));
+  }
+  console.log(`planner calibration: cone ${cone.qubits.length} qubits, ${cone.keptGates.length} gates, delta 1e-5, step by step: ${rates.map((r) => r.toExponential(2)).join(', ')} term-gate updates/s`);
+  if (!checkRate('PROPAGATION_RATE', PROPAGATION_RATE, median(rates), 'term-gate updates/s')) process.exit(1);
+}

@@ -11,6 +11,8 @@
  */
 import type { CompiledCircuit, Gate } from '../shared/physics/circuit';
 import { Statevector, gateMatrix, statevectorBytes, type Mat2 } from '../shared/physics/statevector';
+import { STATEVECTOR_RATE } from '../shared/physics/planner/rates';
+import { checkRate } from './rate-check';
 
 const N_QUBITS = 24;
 const gc = (globalThis as { gc?: () => void }).gc;
@@ -60,6 +62,7 @@ function report(label: string, t: Timing, target: number, counts = true): number
 console.log(`statevector bench: ${N_QUBITS} qubits, 2^${N_QUBITS} amplitudes, ${statevectorBytes(N_QUBITS) / 2 ** 20} MiB per state (complex128, interleaved)`);
 const results: Record<string, number> = {};
 let stepMs = 0;
+let stepMedianMs = 0;
 for (const engine of ['wasm', 'js'] as const) {
   const sv = new Statevector(N_QUBITS, { engine });
   sv.apply(step(N_QUBITS, 0.7, 0.4, true)); // a generic state
@@ -78,7 +81,10 @@ for (const engine of ['wasm', 'js'] as const) {
   }
   const ki = step(N_QUBITS, 0.7, 0.4, true);
   const t = timeVsCopy(sv, copy, () => sv.apply(ki), main ? 5 : 2);
-  if (main) stepMs = t.min;
+  if (main) {
+    stepMs = t.min;
+    stepMedianMs = t.median;
+  }
   report('kicked-Ising step, 24 RX + 23 RZZ (layered)', t, 0.6 * 47, main);
   if (main) {
     report('kicked-Ising step, flat gate list (no layer hints)', timeVsCopy(sv, copy, () => sv.apply(step(N_QUBITS, 0.7, 0.4, false)), 3), 0.6 * 47, true);
@@ -108,3 +114,9 @@ console.log(`  chain Z-site cone (k = 2t - 1 qubits after t steps): ${zCone.k} q
 console.log(`  a cone of k qubits after 20 steps: ${fixed20.k} qubits, ~${(fixed20.ms / 1000).toFixed(1)} s, ${statevectorBytes(fixed20.k) / 2 ** 20} MiB`);
 console.log(`  (1 GiB alone caps any cone at 26 qubits, the engine's default limit)`);
 console.log(`\nbench total ${((performance.now() - t00) / 1000).toFixed(1)} s; default engine: ${allPass ? 'all targets PASS' : 'some targets MISS'}`);
+
+// Planner calibration (shared/physics/planner/rates.ts STATEVECTOR_RATE, amplitude-gate updates/s):
+// the layered kicked-Ising step on the default (WebAssembly) kernel, 2^24 amplitudes x 47 gates /
+// the step's median time.
+const svRate = (2 ** N_QUBITS * (2 * N_QUBITS - 1)) / (stepMedianMs / 1000);
+if (!checkRate('STATEVECTOR_RATE', STATEVECTOR_RATE, svRate, 'amplitude-gate updates/s')) process.exit(1);

@@ -24,6 +24,8 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { TN_RATE } from '../shared/physics/planner/rates';
+import { checkRate } from './rate-check';
 import type { PauliFactor } from '../shared/physics/circuit';
 import { kickedIsing } from '../shared/physics/kicked-ising';
 import { edgeColouring, heavyHex, square, type Graph } from '../shared/physics/lattices';
@@ -239,6 +241,26 @@ if (process.argv.includes('--heavy')) {
       console.log(line);
     }
   }
+}
+
+// ------------------------------------------------------------------------------------------------
+// Planner calibration (shared/physics/planner/rates.ts TN_RATE, real flops/s): the default
+// contraction (contractPlan as the runner calls it) on each unsliced network up to 2^33 flops,
+// best of 3; the median of the rates.
+{
+  const tnRates: number[] = [];
+  for (const { plan } of cases) {
+    if (plan.slices > 1 || plan.flops > 2 ** 33) continue;
+    let best = Infinity;
+    for (let i = 0; i < 3; i++) {
+      const t0 = performance.now();
+      contractPlan(plan);
+      best = Math.min(best, performance.now() - t0);
+    }
+    tnRates.push(plan.flops / (best / 1000));
+  }
+  console.log(`\nplanner calibration: contraction rates ${tnRates.map((r) => r.toExponential(2)).join(', ')} real flops/s`);
+  allPass = checkRate('TN_RATE', TN_RATE, [...tnRates].sort((a, b) => a - b)[Math.floor(tnRates.length / 2)], 'real flops/s') && allPass;
 }
 
 console.log(allPass ? '\ntensor-network bench: all targets PASS' : '\ntensor-network bench: a target was MISSED');

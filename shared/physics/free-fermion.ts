@@ -25,6 +25,8 @@
  * No framework or node: imports.
  */
 import type { ObservableSpec, PauliTerm } from './circuit';
+import { chainCone } from './light-cone';
+import { FREE_FERMION_RATE } from './planner/rates';
 
 export interface KickedIsingChainSpec {
   /** number of sites (qubits) of the open chain */
@@ -232,9 +234,7 @@ function termValueOnChain(R: Float64Array, n: number, t: TermKind): number {
 /** The sub-chain [lo, hi] (0-based, inclusive) that holds the causal cone of a term. */
 function coneRange(t: TermKind, n: number, steps: number): [number, number] {
   if (t.kind === 'I') return [0, 0];
-  const r = t.kind === 'X' ? steps : Math.max(0, steps - 1);
-  const a = t.site, b = t.kind === 'ZZ' ? t.site + 1 : t.site;
-  return [Math.max(0, a - r), Math.min(n - 1, b + r)];
+  return chainCone(n, steps, t.site, t.kind === 'ZZ' ? t.site + 1 : t.site, t.kind === 'X');
 }
 
 /**
@@ -289,7 +289,7 @@ export interface FreeFermionCost {
   bytes: number;
   /** distinct sub-problems solved */
   subproblems: number;
-  /** estimated wall time at about 3e8 multiply-adds per second (an estimate, not a measurement) */
+  /** estimated wall time at FREE_FERMION_RATE multiply-adds per second (planner/rates.ts, measured by bench/free-fermion.bench.ts) */
   seconds: number;
 }
 
@@ -328,5 +328,5 @@ export function freeFermionCost(spec: KickedIsingChainSpec, obs: ObservableSpec,
       ops += 2 * D;
     }
   });
-  return { operations: ops, bytes, subproblems: seen.size, seconds: ops / 3e8 };
+  return { operations: ops, bytes, subproblems: seen.size, seconds: ops / FREE_FERMION_RATE };
 }

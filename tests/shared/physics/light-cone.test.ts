@@ -8,7 +8,9 @@ interface QC {
 }
 const QuantumCircuit = QuantumCircuitUntyped as new (n: number) => QC;
 import type { CompiledCircuit, Gate, Layer, PauliFactor } from '../../../shared/physics/circuit';
-import { graphBall, lightCone } from '../../../shared/physics/light-cone';
+import { chainCone, GateConeCounter, graphBall, KickedIsingCones, lightCone } from '../../../shared/physics/light-cone';
+import { compileInstance, compileLattice } from '../../../shared/physics/compile';
+import type { ChallengeSpec } from '../../../shared/physics/challenge';
 import { propagate } from '../../../shared/physics/pauli-propagation';
 
 type Edge = [number, number];
@@ -225,5 +227,85 @@ describe('restricted sub-circuit', () => {
   it('a Clifford-angle circuit has no non-Clifford rotations in the cone', () => {
     const c = kickedIsing(12, ring(12), 3, Math.PI / 2);
     expect(lightCone(c, [{ qubit: 3, op: 'Z' }]).nonCliffordRotations).toBe(0);
+  });
+});
+
+describe('counting variants (the planner counts cones without building them; light-cone.ts owns both)', () => {
+  it('GateConeCounter counts the qubits, kept gates and non-Clifford rotations lightCone keeps, on random circuits of the whole gate set', () => {
+    let s = 4242;
+    const r = () => ((s = (Math.imul(s, 1103515245) + 12345) >>> 0) / 4294967296);
+    const names = ['x', 'y', 'z', 'h', 's', 'sdg', 'sx', 'rx', 'ry', 'rz', 'rzz', 'cx', 'cz'] as const;
+    let saturated = 0;
+    for (let rep = 0; rep < 200; rep++) {
+      const n = 3 + Math.floor(r() * 8);
+      const gates: Gate[] = [];
+      for (let i = 0; i < 4 + Math.floor(r() * 40); i++) {
+        const name = names[Math.floor(r() * names.length)];
+        const a = Math.floor(r() * n);
+        const b = (a + 1 + Math.floor(r() * (n - 1))) % n;
+        const two = name === 'rzz' || name === 'cx' || name === 'cz';
+        const g: Gate = { name, qubits: two ? [a, b] : [a] };
+        // a quarter of the angles are Clifford (multiples of pi/2)
+        if (name === 'rx' || name === 'ry' || name === 'rz' || name === 'rzz') g.params = [r() < 0.25 ? (Math.PI / 2) * Math.floor(r() * 5) : r() * 6];
+        gates.push(g);
+      }
+      const c: CompiledCircuit = { nQubits: n, gates, layers: [] };
+      const counter = new GateConeCounter(c);
+      for (let k = 0; k < 3; k++) {
+        const f: PauliFactor[] = [{ qubit: Math.floor(r() * n), op: (['X', 'Y', 'Z'] as const)[Math.floor(r() * 3)] }];
+        if (r() < 0.5) f.push({ qubit: (f[0].qubit + 1) % n, op: 'Z' });
+        const want = lightCone(c, f);
+        let kept = 0, non = 0, rest = 0;
+        const got = counter.count([{ coef: 1, factors: f }], {
+          kept: (nc) => { kept++; if (nc) non++; },
+          rest: (g, nc) => { rest += g; non += nc; saturated++; },
+        });
+        expect(got).toEqual({ qubits: want.qubits.length, gates: want.keptGates.length, nonClifford: want.nonCliffordRotations });
+        expect(kept + rest).toBe(want.keptGates.length);
+        expect(non).toBe(want.nonCliffordRotations);
+      }
+    }
+    expect(saturated).toBeGreaterThan(10); // the closed form for a saturated cone was exercised
+  });
+
+  it('KickedIsingCones: the block walk and the restricted sub-circuit equal lightCone on the compiled circuit, every lattice kind', () => {
+    const lattices: ChallengeSpec['lattice'][] = [
+      { kind: 'chain', n: 15 }, { kind: 'ring', n: 11 }, { kind: 'square', rows: 4, cols: 5 }, { kind: 'heavy-hex', rows: 2, cols: 2 },
+      { kind: 'edges', n: 8, edges: [[0, 1], [1, 2], [2, 3], [3, 0], [4, 5], [5, 6], [6, 7], [1, 5]] },
+    ];
+    for (const lattice of lattices) {
+      const spec = { lattice, circuit: { family: 'kicked-ising', steps: [4], thetaH: [0.3] } } as unknown as ChallengeSpec;
+      const lat = compileLattice(spec);
+      const cones = new KickedIsingCones(lat);
+      const n = lat.graph.n;
+      for (const steps of [0, 1, 2, 4]) {
+        const inst = { id: 'i', params: { family: 'kicked-ising' as const, steps, thetaH: 0.3, thetaJ: 0.6 } };
+        const circ = compileInstance(spec, inst as never, lat);
+        for (const f of [[{ qubit: 0, op: 'Z' }], [{ qubit: n - 1, op: 'X' }], [{ qubit: 2, op: 'Y' }, { qubit: 3, op: 'Z' }]] as PauliFactor[][]) {
+          const obs = { id: 'o', terms: [{ coef: 1, factors: f }] };
+          const want = lightCone(circ, obs);
+          const walk = cones.walk(steps, obs.terms);
+          expect(walk.qubits, `${lattice.kind} t=${steps}`).toBe(want.qubits.length);
+          expect(walk.rx + walk.rzz, `${lattice.kind} t=${steps}`).toBe(want.keptGates.length);
+          const sub = cones.restrict(inst.params, obs);
+          expect(sub.qubits).toEqual(want.qubits);
+          expect(sub.circuit.gates).toEqual(want.circuit.gates); // the same gates in the compiled order
+          expect(sub.observable).toEqual(want.observable);
+        }
+      }
+    }
+  });
+
+  it('chainCone is the kicked-Ising cone on an open chain: radius t - 1 around a Z-only support, t around an X-only one', () => {
+    const n = 30;
+    for (const t of [1, 2, 5]) {
+      const c = kickedIsing(n, chain(n), t, 0.4, 0.7);
+      for (const [lo, hi, xy] of [[0, 0, false], [10, 11, false], [29, 29, true], [14, 15, true]] as [number, number, boolean][]) {
+        const f: PauliFactor[] = [lo, ...(hi > lo ? [hi] : [])].map((qubit) => ({ qubit, op: xy ? 'X' : 'Z' }));
+        const cone = lightCone(c, f).qubits;
+        expect(chainCone(n, t, lo, hi, xy)).toEqual([cone[0], cone[cone.length - 1]]);
+        expect(cone.length).toBe(cone[cone.length - 1] - cone[0] + 1);
+      }
+    }
   });
 });
