@@ -67,7 +67,7 @@ for (let i = 0; i < 3; i++) {
   const { id } = await createEntry(db, { check, teamId: 'load-team', actor, now: new Date() });
   await db.update(entries).set({ state: 'published', submittedAt: new Date(), publishedAt: new Date() }).where(eq(entries.id, id));
 }
-await recomputeStandings(db, v.versionId);
+await recomputeStandings(db, v.versionId, new Date());
 const cfg = { ...loadConfig({ DATA_DIR: dataDir, AUTH_SECRET: SECRET }), passwordHash: { N: 2 ** 10, r: 8, p: 1 } };
 const auth = createAuth({ db, config: cfg, mailer: { send: async () => {}, close: () => {} } as never, mailQueue: createMailQueue(createLogger('silent')), log: createLogger('silent') });
 const key = (await auth.api.createApiKey({ body: { name: 'load script', organizationId: 'load-team', userId: 'load-lead', expiresIn: 86400 } })).key;

@@ -67,7 +67,7 @@ for (let e = 0; e < IN_REVIEW; e++) {
   if (copyOf && !copied.size) for (const r of await db.select().from(estimates).where(eq(estimates.entryId, copyOf))) copied.set(r.targetKey, r.value);
   await entry('in-review', e, (k) => (copyOf && copied.has(k) && k.length % 3 === 0 ? copied.get(k)! : truth.get(k)! + 0.05 * (rng.uniform() - 0.5)));
 }
-await recomputeStandings(db, made.versionId);
+await recomputeStandings(db, made.versionId, new Date());
 console.log(`challenge: ${ts.length} targets; ${IN_REVIEW} entries in review and ${PUBLISHED} published, ${ts.length} estimates each`);
 
 // the app, and a moderator's session
@@ -108,7 +108,7 @@ for (let i = 0; i < RUNS; i++) {
 }
 // through the app: a standings row recomputed changes the fingerprint, so the next GET computes
 for (let i = 0; i < RUNS; i++) {
-  await recomputeStandings(db, made.versionId);
+  await recomputeStandings(db, made.versionId, new Date());
   firstGet.push(await getQueue());
   get.push(await getQueue());
 }

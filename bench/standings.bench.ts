@@ -42,7 +42,7 @@ console.log(`challenge: ${ts.length} targets, 50 entries`);
 const times: number[] = [];
 for (let i = 0; i < 5; i++) {
   const t0 = performance.now();
-  const r = await recomputeStandings(db, made.versionId);
+  const { result: r } = await recomputeStandings(db, made.versionId, new Date());
   times.push(performance.now() - t0);
   console.log(`  run ${i + 1}: read ${r.timings.readMs.toFixed(0)} ms, compute ${r.timings.computeMs.toFixed(0)} ms, store ${r.timings.storeMs.toFixed(0)} ms`);
 }

@@ -27,6 +27,7 @@ import { RouteTable } from './routes/registry';
 import { registerAllRoutes } from './routes';
 import { ThreadPool } from './jobs/thread-pool';
 import { VersionCache } from './services/version-cache';
+import { effectApplier } from './effects';
 
 export interface AppDeps {
   database: Database;
@@ -50,7 +51,10 @@ export async function createApp(deps: AppDeps) {
   const { config, log, database } = deps;
   const mailQueue = createMailQueue(log);
   const auth = createAuth({ db: database.db, config, mailer: deps.mailer, mailQueue, log, now });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots), threads: new ThreadPool({ size: config.documentThreads }), versionCache: new VersionCache() };
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots), threads: new ThreadPool({ size: config.documentThreads }), versionCache: new VersionCache(),
+    // the one applier of after-commit effects (kicks read ctx.jobs at the time: boot and tests set the worker's kick later)
+    applyEffects: (effects) => apply(effects) };
+  const apply = effectApplier({ db: database.db, log, mail: { mailer: deps.mailer, baseUrl: config.baseUrl }, kick: () => ctx.jobs.kick() });
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 
@@ -121,7 +125,7 @@ export async function createApp(deps: AppDeps) {
   const parseJson = express.json({ limit: config.jsonLimitBytes, verify: refuseDeepJson });
   const json = (req: Request, res: Response, next: NextFunction) => parseJson(req, res, (e?: unknown) => (e ? next(e) : refuseNul(req, res, next)));
   const api = express.Router();
-  routes.mount(api, database.db, json);
+  routes.mount(api, database.db, json, ctx.applyEffects);
   app.use('/api', api);
   app.use('/api', (req: Request, _res: Response, next: NextFunction) =>
     next(new AppError('not_found', `There is no API route ${req.method} ${req.path}. The routes are listed at /api/openapi.json.`)),

@@ -13,6 +13,7 @@ import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { createMailer, type Mailer } from './mail/mailer';
 import { createApp } from './app';
 import { createLogger, type Logger } from './log';
+import { kickJobs } from './effects';
 import { seedDemo, DEMO_ACCOUNTS, DEMO_PASSWORD } from './db/seed';
 import { startWorker, type Worker } from './jobs/worker';
 import { rescoreOutdatedStandings } from './services/recompute-standings';
@@ -89,12 +90,12 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
     ctx.jobs.kick = () => worker!.kick();
     // a change of the scoring rules recomputes every standings (a rescoring in each history)
     const rescored = await rescoreOutdatedStandings(database.db);
-    if (rescored.length) { log.info('scoring rules changed: standings queued for recomputation', { versions: rescored.length }); worker.kick(); }
+    if (rescored.length) { log.info('scoring rules changed: standings queued for recomputation', { versions: rescored.length }); await ctx.applyEffects([kickJobs()]); }
     // references of an older engine are recomputed and their standings rescored (one history event each)
     const upgraded = await upgradeEngine(database.db, ctx.now());
     if (upgraded.versions) {
       log.info('engine.upgrade', { ...upgraded });
-      worker.kick();
+      await ctx.applyEffects([kickJobs()]);
     }
   }
   let seeded = false;

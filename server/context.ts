@@ -12,6 +12,7 @@ import type { Logger } from './log';
 import type { Auth } from './auth';
 import type { ThreadPool } from './jobs/thread-pool';
 import type { VersionCache } from './services/version-cache';
+import type { EffectApplier } from './effects';
 
 export interface AppContext {
   database: Database;
@@ -31,4 +32,6 @@ export interface AppContext {
   threads: ThreadPool;
   /** results of public computations per challenge version (a stored version never changes) */
   versionCache: VersionCache;
+  /** applies the after-commit effects services and jobs return (server/effects.ts): the one place that kicks, invalidates and mails */
+  applyEffects: EffectApplier;
 }

@@ -3,15 +3,14 @@
  * reference (or, where none exists, a truncated-propagation stand-in at a tight threshold) plus
  * made-up errors of a kind each invented team might plausibly have. Nothing here is a measurement.
  */
-import { randomUUID } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
 import { createRng } from '@shared/scoring/prng';
 import type { Db } from './client';
-import { challengeVersions, entries, estimates, observables, organization, references, targets, instances } from './schema';
+import { challengeVersions, entries, observables, organization, references, targets, instances } from './schema';
 import { runCompute } from '../jobs/run-compute';
 import type { JobHandler } from '../jobs/types';
-import { enqueueJob } from '../jobs/queue';
-import { recordAudit } from '../services/record-audit';
+import { createSystemEntry } from '../services/create-system-entry';
+import type { Effect } from '../effects';
 
 /**
  * Truncated propagation settings for the stand-in values where no exact reference exists (tighter
@@ -83,18 +82,15 @@ function neuralState(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[
 
 interface DemoEntry { team: string; state: 'published' | 'in-review'; track: 'hardware' | 'classical'; family: string; label: string; document: Record<string, unknown>; estimates: Est[] }
 
-async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry, at: Date) {
+/** Stored through the service that owns system entries (entry, estimates, audit line, standings job). */
+async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry, at: Date): Promise<Effect[]> {
   const [team] = await db.select({ id: organization.id }).from(organization).where(eq(organization.slug, e.team));
-  if (!team) return;
-  await db.transaction(async (tx) => {
-    const id = randomUUID();
-    await tx.insert(entries).values({
-      id, lineageId: id, challengeSlug: slug, versionId, teamId: team.id, state: e.state, track: e.track, methodFamily: e.family, label: e.label,
-      document: { ...e.document, demo: 'invented demo data' }, submittedAt: at, publishedAt: e.state === 'published' ? at : null, createdAt: at, updatedAt: at,
-    });
-    for (let i = 0; i < e.estimates.length; i += 1000) await tx.insert(estimates).values(e.estimates.slice(i, i + 1000).map((x) => ({ ...x, entryId: id })));
-    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: e.state === 'published' ? 'entry.publish' : 'entry.submit', subjectType: 'entry', subjectId: id, at, details: { demo: true } });
+  if (!team) return [];
+  const { effects } = await createSystemEntry(db, {
+    slug, versionId, teamId: team.id, state: e.state, track: e.track, methodFamily: e.family, label: e.label,
+    document: { ...e.document, demo: 'invented demo data' }, estimates: e.estimates, actorLabel: 'seed', auditDetails: { demo: true }, at,
   });
+  return effects;
 }
 
 /** The invented demo entries of a demo challenge version, made from its computed references. */
@@ -128,7 +124,7 @@ export const demoEntriesJob: JobHandler = async (job, w) => {
       estimates: snakeMps(ts, seed + 4, 1024, twoD).filter((_, i) => i % 3 !== 2) },
   ];
   let n = 0;
-  for (const e of list) await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(opened + (2 + 3 * n++) * day));
-  await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
-  return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length };
+  const effects: Effect[] = [];
+  for (const e of list) effects.push(...await insertEntry(w.db, v.challengeSlug, versionId, e, new Date(opened + (2 + 3 * n++) * day)));
+  return { entries: list.length, targets: ts.length, standIns: ts.filter((t) => !t.exact).length, effects };
 };

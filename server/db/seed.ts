@@ -13,6 +13,8 @@ import { createChallengeVersion } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit } from '../services/record-audit';
+import { kickJobs } from '../effects';
+import { changeUserRole } from '../services/change-user-role';
 
 export const DEMO_PASSWORD = 'parallax-demo-2026';
 /** how many days before the seed the first demo challenge opened */
@@ -49,9 +51,6 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
     await tx.update(user).set({ emailVerified: true }).where(inArray(user.email, emails));
     const users = await tx.select({ id: user.id, email: user.email }).from(user).where(inArray(user.email, emails));
     const idOf = new Map(users.map((u) => [u.email, u.id]));
-    for (const a of DEMO_ACCOUNTS) {
-      if (a.role === 'admin' || a.role === 'moderator') await tx.update(user).set({ role: a.role }).where(eq(user.email, a.email));
-    }
     for (const t of DEMO_TEAMS) {
       const id = randomUUID();
       await tx.insert(organization).values({ id, name: t.name, slug: t.slug, metadata: JSON.stringify({ track: t.track, description: t.description }) });
@@ -59,9 +58,15 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
         await tx.insert(member).values({ id: randomUUID(), organizationId: id, userId: idOf.get(a.email)!, role: a.role === 'lead' ? 'owner' : 'member' });
       }
     }
-    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: 'demo.seed', subjectType: 'site', subjectId: 'demo', details: { teams: DEMO_TEAMS.length, accounts: DEMO_ACCOUNTS.length } });
+    await recordAudit(tx, { actor: { kind: 'system', label: 'seed' }, action: 'demo.seed', subjectType: 'site', subjectId: 'demo', at: ctx.now(), details: { teams: DEMO_TEAMS.length, accounts: DEMO_ACCOUNTS.length } });
   });
   const seedActor = { kind: 'system' as const, label: 'seed' };
+  // site roles through the service that owns them (its audit line 'user.role' included)
+  const staff = await db.select({ id: user.id, email: user.email }).from(user).where(inArray(user.email, DEMO_ACCOUNTS.filter((a) => a.role === 'admin' || a.role === 'moderator').map((a) => a.email)));
+  for (const s of staff) {
+    const role = DEMO_ACCOUNTS.find((a) => a.email === s.email)!.role as 'admin' | 'moderator';
+    await changeUserRole(db, { userId: s.id, role, actor: seedActor, now: ctx.now() });
+  }
   // the demo challenges opened four weeks ago (a week apart); their invented entries follow
   // (demo-entries.ts), so every date of the scenario lies between the opening and today
   const opened = (i: number) => new Date(ctx.now().getTime() - (DEMO_OPENED_DAYS_AGO - 7 * i) * 86400_000);
@@ -72,10 +77,10 @@ export async function seedDemo(ctx: AppContext): Promise<boolean> {
       const [c] = await db.select({ settings: challenges.settings }).from(challenges).where(eq(challenges.slug, spec.id));
       await db.update(challenges).set({ settings: { ...(c.settings as object), referenceSecondsBudget: budget } }).where(eq(challenges.slug, spec.id));
     }
-    const pub = await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: opened(i) });
+    const { result: pub } = await publishChallengeVersion(db, { slug: spec.id, actor: seedActor, now: opened(i) });
     // queued after the reference job, so the invented entries are made from computed references
     await enqueueJob(db, 'demo-entries', { versionId: pub.versionId }, `demo-entries:${pub.versionId}`);
   }
-  ctx.jobs.kick();
+  await ctx.applyEffects([kickJobs()]);
   return true;
 }

@@ -1,10 +1,8 @@
 /** The house baseline of a challenge version: truncated Pauli propagation of every target, published as an unranked entry. */
-import { randomUUID } from 'node:crypto';
 import { and, eq, isNull } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
-import { entries, estimates, observables, targets } from '../db/schema';
-import { recordAudit } from '../services/record-audit';
-import { enqueueJob } from './queue';
+import { entries, observables, targets } from '../db/schema';
+import { createSystemEntry } from '../services/create-system-entry';
 import { runCompute } from './run-compute';
 import { versionSpec } from './references-job';
 import type { JobHandler } from './types';
@@ -32,22 +30,17 @@ export const baselineJob: JobHandler = async (job, w) => {
     wallMs += m.wallMs;
     rows.push({ targetKey: m.targetId, value: m.value, uncertainty: Math.min(m.bound, boundOf.get(m.targetId) ?? Infinity), kind: m.exact ? 'none' : 'bound', raw: { peakTerms: m.terms, truncatedWeight: m.bound } });
   });
-  await w.db.transaction(async (tx) => {
-    const id = randomUUID();
-    await tx.insert(entries).values({
-      id, lineageId: id, challengeSlug: v.challengeSlug, versionId, teamId: HOUSE_TEAM.id, state: 'published', track: 'classical',
-      methodFamily: 'pauli-propagation', isBaseline: true,
-      label: `House baseline: truncated Pauli propagation (|c| < ${BASELINE_SETTINGS.delta} dropped after every gate, at most ${BASELINE_SETTINGS.maxTerms} terms)`,
-      document: {
-        method: { family: 'pauli-propagation', settings: { coefficientThreshold: BASELINE_SETTINGS.delta, maxTerms: BASELINE_SETTINGS.maxTerms, truncation: 'after every gate' } },
-        resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [{ name: ENGINE_VERSION }] },
-        uncertaintyNote: 'Each uncertainty is the triangle-inequality bound: the sum of |c| over every dropped term.',
-      },
-      submittedAt: w.now(), publishedAt: w.now(),
-    });
-    for (let i = 0; i < rows.length; i += 1000) await tx.insert(estimates).values(rows.slice(i, i + 1000).map((r) => ({ ...r, entryId: id })));
-    await recordAudit(tx, { actor: { kind: 'system', label: 'house baseline' }, action: 'entry.publish', subjectType: 'entry', subjectId: id, details: { baseline: true, versionId } });
+  // stored (entry, estimates, audit, standings job) by the service that owns system entries
+  const { effects } = await createSystemEntry(w.db, {
+    slug: v.challengeSlug, versionId, teamId: HOUSE_TEAM.id, state: 'published', track: 'classical',
+    methodFamily: 'pauli-propagation', isBaseline: true,
+    label: `House baseline: truncated Pauli propagation (|c| < ${BASELINE_SETTINGS.delta} dropped after every gate, at most ${BASELINE_SETTINGS.maxTerms} terms)`,
+    document: {
+      method: { family: 'pauli-propagation', settings: { coefficientThreshold: BASELINE_SETTINGS.delta, maxTerms: BASELINE_SETTINGS.maxTerms, truncation: 'after every gate' } },
+      resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [{ name: ENGINE_VERSION }] },
+      uncertaintyNote: 'Each uncertainty is the triangle-inequality bound: the sum of |c| over every dropped term.',
+    },
+    estimates: rows, actorLabel: 'house baseline', auditDetails: { baseline: true, versionId }, at: w.now(),
   });
-  await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
-  return { estimates: rows.length, wallMs };
+  return { estimates: rows.length, wallMs, effects };
 };

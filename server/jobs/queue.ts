@@ -42,8 +42,8 @@ export async function reportProgress(db: Db, id: string, progress: number, note:
   await db.update(jobs).set({ progress: Math.max(0, Math.min(1, progress)), progressNote: note.slice(0, 300) }).where(eq(jobs.id, id));
 }
 
-export async function finishJob(db: Db, id: string, result: Record<string, unknown>): Promise<void> {
-  await db.update(jobs).set({ state: 'done', progress: 1, result, finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
+export async function finishJob(db: Db, id: string, result: Record<string, unknown>, now: Date): Promise<void> {
+  await db.update(jobs).set({ state: 'done', progress: 1, result, finishedAt: now, lockedBy: null }).where(eq(jobs.id, id));
 }
 
 /** An error whose message is written for the public (no SQL, no parameters, no internals). */
@@ -64,9 +64,9 @@ export function publicJobError(kind: string, id: string, err: unknown): string {
   return `${JOB_WHAT[kind] ?? 'This job'} failed on the server; the operators have the details (job ${id}).`;
 }
 
-export async function failJob(db: Db, id: string, kind: string, err: unknown): Promise<void> {
+export async function failJob(db: Db, id: string, kind: string, err: unknown, now: Date): Promise<void> {
   const detail = String((err as Error)?.stack ?? (err as Error)?.message ?? err).slice(0, 4000);
-  await db.update(jobs).set({ state: 'failed', error: publicJobError(kind, id, err), errorDetail: detail, finishedAt: new Date(), lockedBy: null }).where(eq(jobs.id, id));
+  await db.update(jobs).set({ state: 'failed', error: publicJobError(kind, id, err), errorDetail: detail, finishedAt: now, lockedBy: null }).where(eq(jobs.id, id));
 }
 
 /**

@@ -9,7 +9,8 @@ import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db } from '../db/client';
 import { challengeVersions, challenges, references, targets } from '../db/schema';
 import { enqueueJob, PublicJobError } from './queue';
-import { challengeLink, notifyFollowers } from '../services/notify-followers';
+import { challengeLink } from '../services/notify-followers';
+import type { Effect } from '../effects';
 import { runCompute } from './run-compute';
 import type { JobHandler, PlannerBudget, WorkerContext } from './types';
 
@@ -57,7 +58,7 @@ export const referencesJob: JobHandler = async (job, w) => {
       // cross-check by a second exact method where one ran (shown with the reference)
       : { value: r.value, method: r.method, size: { [r.unit]: r.size, detail: r.detail, ...(r.width !== undefined ? { width: r.width, flops: r.flops, slices: r.slices } : {}), ...(r.crossCheck ? { crossCheck: r.crossCheck } : {}) }, wallMs: r.wallMs, engineVersion: r.engineVersion, reason: null };
     // a stale reference is replaced in place (its seal, if any, stays); a supplied one is never touched
-    await w.db.insert(references).values({ targetId, ...row }).onConflictDoUpdate({
+    await w.db.insert(references).values({ targetId, ...row, createdAt: w.now() }).onConflictDoUpdate({
       target: references.targetId, set: { ...row, uncertainty: 0, createdAt: w.now() },
       setWhere: sql`${references.method} <> 'supplied' and ${references.engineVersion} is distinct from ${ENGINE_VERSION}`,
     });
@@ -66,9 +67,7 @@ export const referencesJob: JobHandler = async (job, w) => {
   });
   await enqueueJob(w.db, 'baseline', { versionId }, `baseline:${versionId}`);
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
-  if (exact) {
-    await notifyFollowers(w.db, { slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
-      lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${todo.length - exact} target(s) have none and are scored against the consensus.`, '', `The challenge: ${challengeLink(w.db, v.challengeSlug)}`] });
-  }
-  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION };
+  const effects: Effect[] = exact ? [{ kind: 'notify-followers', slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
+    lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${todo.length - exact} target(s) have none and are scored against the consensus.`, '', ['The challenge: ', challengeLink(v.challengeSlug)]] }] : [];
+  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION, effects };
 };

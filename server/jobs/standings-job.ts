@@ -1,10 +1,9 @@
 import { and, desc, eq, lt } from 'drizzle-orm';
 import { recomputeStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { JobHandler } from './types';
-import { standingsCache } from '../services/standings-cache';
 import { challengeVersions, standings } from '../db/schema';
 import type { Db } from '../db/client';
-import { challengeLink, notifyFollowers } from '../services/notify-followers';
+import { challengeLink } from '../services/notify-followers';
 
 /**
  * Whether a recomputation rescored the standings: the public order of the entries ranked both
@@ -27,20 +26,19 @@ async function previousPayload(db: Db, versionId: string, at: Date): Promise<Sta
   return row ? (row.payload as StandingsPayload) : null;
 }
 
-/** Recomputes the standings of a version (at the injected clock's time) and drops the cached responses. */
+/** Recomputes the standings of a version (at the injected clock's time); effects: the cached responses dropped, followers told of a reordering. */
 export const standingsJob: JobHandler = async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const t0 = performance.now();
-  const row = await recomputeStandings(w.db, versionId, w.now());
-  standingsCache.invalidate(versionId);
+  const { result: row, effects } = await recomputeStandings(w.db, versionId, w.now());
   const [cur] = await w.db.select({ payload: standings.payload }).from(standings).where(eq(standings.id, row.id));
   const prev = await previousPayload(w.db, versionId, row.computedAt);
   if (cur && reordered(prev, cur.payload as StandingsPayload)) {
     const [v] = await w.db.select({ slug: challengeVersions.challengeSlug, version: challengeVersions.version }).from(challengeVersions).where(eq(challengeVersions.id, versionId));
     if (v) {
-      await notifyFollowers(w.db, { slug: v.slug, event: 'standings.rescored', subject: `Parallax: standings of ${v.slug} rescored`,
-        lines: [`The standings of ${v.slug} version ${v.version} were recomputed at ${row.computedAt.toISOString()} and the order of the ranked entries changed.`, '', `The standings: ${challengeLink(w.db, v.slug)}`] });
+      effects.push({ kind: 'notify-followers', slug: v.slug, event: 'standings.rescored', subject: `Parallax: standings of ${v.slug} rescored`,
+        lines: [`The standings of ${v.slug} version ${v.version} were recomputed at ${row.computedAt.toISOString()} and the order of the ranked entries changed.`, '', ['The standings: ', challengeLink(v.slug)]] });
     }
   }
-  return { standingsId: row.id, ms: Math.round(performance.now() - t0) };
+  return { standingsId: row.id, ms: Math.round(performance.now() - t0), effects };
 };

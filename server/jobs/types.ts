@@ -2,8 +2,15 @@
 import type { Db } from '../db/client';
 import type { Logger } from '../log';
 import type { JobRow } from './queue';
+import type { Effect } from '../effects';
 
-export type JobHandler = (job: JobRow, w: WorkerContext) => Promise<Record<string, unknown>>;
+/**
+ * A handler's result is stored on the job row; its effects (worker kicks, cache drops, mail) are not
+ * stored but applied by the worker after the job is recorded done, through the app's applier
+ * (server/effects.ts), never by the handler itself.
+ */
+export type JobResult = Record<string, unknown> & { effects?: Effect[] };
+export type JobHandler = (job: JobRow, w: WorkerContext) => Promise<JobResult>;
 export interface PlannerBudget { secondsBudget: number; coneQubitLimit: number }
 export interface WorkerContext {
   db: Db;

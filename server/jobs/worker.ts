@@ -9,6 +9,7 @@ import type { Logger } from '../log';
 import { claimJob, failJob, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind } from './queue';
 import { JOB_HANDLERS } from './handlers';
 import type { JobHandler, PlannerBudget } from './types';
+import { applierFor } from '../effects';
 
 export type { JobHandler, PlannerBudget, WorkerContext } from './types';
 
@@ -43,11 +44,13 @@ export async function startWorker(db: Db, log: Logger, opts: WorkerOptions = {})
     const t0 = performance.now();
     try {
       if (!h) throw new Error(`no handler for job kind ${job.kind}`);
-      const result = await h(job, { db, log, planner: opts.planner, now, progress: (p, note) => reportProgress(db, job.id, p, note) });
-      await finishJob(db, job.id, result);
+      const { effects, ...result } = await h(job, { db, log, planner: opts.planner, now, progress: (p, note) => reportProgress(db, job.id, p, note) });
+      await finishJob(db, job.id, result, now());
       log.info('job.done', { id: job.id, kind: job.kind, ms: Math.round(performance.now() - t0) });
+      // the job's writes are committed: its effects, once, through the app's applier (server/effects.ts)
+      if (effects?.length) await applierFor(db, log)(effects);
     } catch (e) {
-      await failJob(db, job.id, job.kind, e).catch(() => {});
+      await failJob(db, job.id, job.kind, e, now()).catch(() => {});
       log.error('job.failed', { id: job.id, kind: job.kind, error: String((e as Error)?.message ?? e).slice(0, 2000) });
     }
     return true;

@@ -2,13 +2,14 @@
 import { desc, eq, ilike, or } from 'drizzle-orm';
 import { z } from 'zod';
 import type { AppContext } from '../context';
-import { apikey, mailMessages, member, session, user } from '../db/schema';
-import { badRequest, notFound } from '../errors';
-import { recordAudit } from '../services/record-audit';
+import { mailMessages, user } from '../db/schema';
+import { notFound } from '../errors';
+import { changeUserRole, SITE_ROLES } from '../services/change-user-role';
+import { banUser } from '../services/ban-user';
 import { parseBody } from '../validate';
 import type { RouteTable } from './registry';
 
-const roleBody = z.object({ role: z.enum(['user', 'moderator', 'admin'], { message: 'role must be one of "user", "moderator", "admin"' }) }).strict();
+const roleBody = z.object({ role: z.enum(SITE_ROLES, { message: 'role must be one of "user", "moderator", "admin"' }) }).strict();
 const banBody = z.object({ banned: z.boolean(), reason: z.string().trim().max(500).optional() }).strict();
 
 export function registerAdminRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -28,15 +29,7 @@ export function registerAdminRoutes(routes: RouteTable, ctx: AppContext): void {
     method: 'post', path: '/admin/users/:userId/role', access: 'admin', summary: 'Grant or revoke the moderator (or admin) role',
     handler: async (req) => {
       const { role } = parseBody(roleBody, req.body);
-      const id = String(req.params.userId);
-      if (req.actor.kind === 'user' && req.actor.user.id === id && role !== 'admin') throw badRequest('You cannot remove your own admin role; ask another admin.');
-      return db.transaction(async (tx) => {
-        const [before] = await tx.select({ role: user.role }).from(user).where(eq(user.id, id)).limit(1);
-        if (!before) throw notFound('The user');
-        await tx.update(user).set({ role, updatedAt: ctx.now() }).where(eq(user.id, id));
-        await recordAudit(tx, { actor: req.actor, action: 'user.role', subjectType: 'user', subjectId: id, details: { from: before.role ?? 'user', to: role } });
-        return { id, role };
-      });
+      return changeUserRole(db, { userId: String(req.params.userId), role, actor: req.actor, now: ctx.now() });
     },
   });
 
@@ -44,24 +37,7 @@ export function registerAdminRoutes(routes: RouteTable, ctx: AppContext): void {
     method: 'post', path: '/admin/users/:userId/ban', access: 'admin', summary: 'Ban or unban a user: a ban ends their sessions, revokes the API keys they made and their team roles, at once',
     handler: async (req) => {
       const body = parseBody(banBody, req.body);
-      const id = String(req.params.userId);
-      if (req.actor.kind === 'user' && req.actor.user.id === id) throw badRequest('You cannot ban yourself.');
-      return db.transaction(async (tx) => {
-        const [u] = await tx.select({ id: user.id }).from(user).where(eq(user.id, id)).limit(1);
-        if (!u) throw notFound('The user');
-        await tx.update(user).set({ banned: body.banned, banReason: body.banned ? body.reason ?? null : null, updatedAt: ctx.now() }).where(eq(user.id, id));
-        let keysRevoked: string[] = [];
-        let teamsLeft: string[] = [];
-        if (body.banned) {
-          await tx.delete(session).where(eq(session.userId, id));
-          // a team API key keeps working without a session: the keys this person made go too, and
-          // their team roles (an unban restores neither: a lead invites them again)
-          keysRevoked = (await tx.delete(apikey).where(eq(apikey.createdBy, id)).returning({ id: apikey.id })).map((k) => k.id);
-          teamsLeft = (await tx.delete(member).where(eq(member.userId, id)).returning({ teamId: member.organizationId })).map((m) => m.teamId);
-        }
-        await recordAudit(tx, { actor: req.actor, action: body.banned ? 'user.ban' : 'user.unban', subjectType: 'user', subjectId: id, details: { reason: body.reason ?? null, ...(body.banned ? { keysRevoked, teamsLeft } : {}) } });
-        return { id, banned: body.banned, ...(body.banned ? { keysRevoked: keysRevoked.length, teamsLeft: teamsLeft.length } : {}) };
-      });
+      return banUser(db, { userId: String(req.params.userId), banned: body.banned, reason: body.reason, actor: req.actor, now: ctx.now() });
     },
   });
 

@@ -18,7 +18,7 @@ import { AppError, badRequest, notFound } from '../errors';
 import { createChallengeVersion, instanceShapes, validateSpecOrThrow } from '../services/create-challenge-version';
 import { publishChallengeVersion } from '../services/publish-challenge-version';
 import { parseBody } from '../validate';
-import { standingsCache } from '../services/standings-cache';
+import { reply } from '../effects';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import type { RouteTable } from './registry';
 import type { Request, Response } from 'express';
@@ -250,10 +250,8 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
     method: 'post', path: '/challenges/:slug/publish', access: 'moderator', summary: 'Publish the newest draft version (a correction needs a reason) and start the reference job',
     handler: async (req) => {
       const body = parseBody(publishBody, req.body);
-      const out = await publishChallengeVersion(db, { slug: String(req.params.slug), version: body.version, reason: body.reason, actor: req.actor, now: ctx.now() });
-      standingsCache.invalidate(); // the current version changed
-      ctx.jobs.kick();
-      return out;
+      const { result, effects } = await publishChallengeVersion(db, { slug: String(req.params.slug), version: body.version, reason: body.reason, actor: req.actor, now: ctx.now() });
+      return reply(effects, result);
     },
   });
 

@@ -34,6 +34,7 @@ import { documentBody as readDocumentBody } from '../util/document-body';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
 import { teamTrack as teamTrackOf } from '../util/team-meta';
+import { reply } from '../effects';
 
 /** A draft with problems is stored only up to this size (its parse runs on the event loop: ~1 MiB is a few ms). */
 export const INCOMPLETE_DRAFT_MAX_BYTES = 1024 * 1024;
@@ -226,9 +227,8 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
     summary: 'Withdraw an entry with a reason (a recorded state, never a deletion)',
     handler: async (req) => {
       const body = parseBody(withdrawBody, req.body);
-      const out = await withdrawEntry(db, { entryId: String(req.params.entryId), reason: body.reason, actor: req.actor, now: ctx.now() });
-      if (out.standingsChanged) ctx.jobs.kick();
-      return out;
+      const { result, effects } = await withdrawEntry(db, { entryId: String(req.params.entryId), reason: body.reason, actor: req.actor, now: ctx.now() });
+      return reply(effects, result);
     },
   });
 

@@ -11,7 +11,6 @@ import type { AppContext } from '../context';
 import { auditLog, challenges, entries, follows, organization } from '../db/schema';
 import { notFound, unauthenticated } from '../errors';
 import { parseBody } from '../validate';
-import { registerMailContext } from '../services/notify-followers';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 
@@ -32,7 +31,6 @@ const FEED_ACTIONS: Record<string, (d: Record<string, unknown>) => string> = {
 
 export function registerFollowRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
-  registerMailContext(ctx);
 
   const userId = (a: Request['actor']) => {
     if (a.kind !== 'user') throw unauthenticated();

@@ -2,7 +2,7 @@
  * Moderation: the review queue with its automatic checks, decisions on entries in review,
  * curation (feature, hide), disputed targets, challenge settings, sealed references for blind
  * rounds and the teams' commitments. Every write is one transaction with its audit line; mail
- * and worker kicks happen after the commit.
+ * and worker kicks are the services' effects, applied after the commit by the route table.
  */
 import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
@@ -14,7 +14,7 @@ import { entryCommitments, referenceSeals } from '../db/schema';
 import { notFound } from '../errors';
 import { isPublicEntry } from '../queries/entries';
 import { QueueChecksCache, reviewQueue } from '../services/check-entries';
-import { decideEntry, DECISIONS, notifyDecision, type Decision } from '../services/decide-entry';
+import { decideEntry, DECISIONS, type Decision } from '../services/decide-entry';
 import { curateEntry } from '../services/curate-entry';
 import { disputeTarget } from '../services/dispute-target';
 import { updateChallengeSettings } from '../services/update-challenge-settings';
@@ -24,7 +24,7 @@ import { parseBody } from '../validate';
 import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
-import { notifyFollowers } from '../services/notify-followers';
+import { reply } from '../effects';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
@@ -51,7 +51,6 @@ const sealBody = z.object({
 }).strict();
 const commitmentBody = z.object({ sha256: z.string().regex(/^[0-9a-fA-F]{64}$/, 'a SHA-256 as 64 hexadecimal characters') }).strict();
 
-const moderatorName = (req: Request) => (req.actor.kind === 'user' ? req.actor.user.name : 'a moderator');
 const actorId = (req: Request) => (req.actor.kind === 'user' ? req.actor.user.id : req.actor.kind);
 
 export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): void {
@@ -76,16 +75,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     handler: async (req) => {
       const body = parseBody(decisionBody, req.body);
       const e = await loadEntry(req);
-      const out = await decideEntry(db, { entryId: e.id, decision: body.decision, reason: body.reason, actor: req.actor, now: ctx.now() });
+      const { result: out, effects } = await decideEntry(db, { entryId: e.id, decision: body.decision, reason: body.reason, actor: req.actor, now: ctx.now() });
       ctx.log.info('moderation.decision', { entry: out.entryId, decision: out.decision, from: out.fromState, to: out.state, actor: actorId(req), at: out.decidedAt.toISOString() });
-      if (out.jobIds.length) ctx.jobs.kick();
-      const mailed = await notifyDecision(db, ctx.mailer, ctx.log, ctx.config.baseUrl, out, body.reason, moderatorName(req));
-      if (out.decision === 'publish') {
-        const base = ctx.config.baseUrl.replace(/\/$/, '');
-        await notifyFollowers(db, { slug: out.challengeSlug, teamId: out.teamId, event: 'entry.published', subject: `Parallax: new entry on ${out.challengeSlug}: ${out.label.slice(0, 120)}`,
-          lines: [`The entry "${out.label}" was published on the challenge ${out.challengeSlug} at ${out.decidedAt.toISOString()}.`, '', `The entry: ${base}/entries/${out.entryId}`, `The standings (recomputed shortly): ${base}/challenges/${out.challengeSlug}`] });
-      }
-      return { id: out.entryId, decision: out.decision, state: out.state, reviewId: out.reviewId, decidedAt: out.decidedAt, superseded: out.superseded, jobIds: out.jobIds, mailed };
+      return reply(effects, ({ mailed }) => ({ id: out.entryId, decision: out.decision, state: out.state, reviewId: out.reviewId, decidedAt: out.decidedAt, superseded: out.superseded, jobIds: out.jobIds, mailed }));
     },
   });
 
@@ -95,12 +87,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     handler: async (req) => {
       const body = parseBody(curationBody, req.body);
       const e = await loadEntry(req);
-      const out = await curateEntry(db, { entryId: e.id, featured: body.featured, hidden: body.hidden, actor: req.actor, now: ctx.now() });
-      if (out.changes.length) {
-        ctx.log.info('moderation.curation', { entry: e.id, changes: out.changes.join(','), actor: actorId(req) });
-        ctx.jobs.kick();
-      }
-      return out;
+      const { result: out, effects } = await curateEntry(db, { entryId: e.id, featured: body.featured, hidden: body.hidden, actor: req.actor, now: ctx.now() });
+      if (out.changes.length) ctx.log.info('moderation.curation', { entry: e.id, changes: out.changes.join(','), actor: actorId(req) });
+      return reply(effects, out);
     },
   });
 
@@ -110,10 +99,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     handler: async (req) => {
       const body = parseBody(disputeBody, req.body);
       const { challenge: c, version: v } = await loadChallengeVersion(db, req);
-      const out = await disputeTarget(db, { slug: c.slug, versionId: v.id, version: v.version, targetKey: String(req.params.targetKey), disputed: body.disputed, note: body.note ?? null, actor: req.actor, now: ctx.now() });
+      const { result: out, effects } = await disputeTarget(db, { slug: c.slug, versionId: v.id, version: v.version, targetKey: String(req.params.targetKey), disputed: body.disputed, note: body.note ?? null, actor: req.actor, now: ctx.now() });
       ctx.log.info('moderation.dispute', { challenge: c.slug, target: out.target, disputed: out.disputed, actor: actorId(req) });
-      ctx.jobs.kick();
-      return out;
+      return reply(effects, out);
     },
   });
 
@@ -122,10 +110,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     summary: `Challenge settings (fields not sent keep their value): estimator (${CONSENSUS_ESTIMATORS.join(' | ')}), primaryMetric (${PRIMARY_METRICS.join(' | ')}), tracks (hardware, classical), submissionWindow {opensAt, closesAt}, license, state (open | closed), reason`,
     handler: async (req) => {
       const body = parseBody(settingsBody, req.body);
-      const out = await updateChallengeSettings(db, { slug: String(req.params.slug), patch: body as never, actor: req.actor, now: ctx.now() });
+      const { result: out, effects } = await updateChallengeSettings(db, { slug: String(req.params.slug), patch: body as never, actor: req.actor, now: ctx.now() });
       ctx.log.info('moderation.settings', { challenge: out.slug, changed: out.changed.join(','), actor: actorId(req) });
-      if (out.jobId) ctx.jobs.kick();
-      return out;
+      return reply(effects, out);
     },
   });
 
@@ -135,10 +122,9 @@ export function registerModerationRoutes(routes: RouteTable, ctx: AppContext): v
     handler: async (req) => {
       const body = parseBody(sealBody, req.body);
       const { challenge: c, version: v } = await loadChallengeVersion(db, req);
-      const out = await sealReferences(db, { slug: c.slug, versionId: v.id, version: v.version, targets: body.targets, until: new Date(body.until), actor: req.actor, now: ctx.now() });
+      const { result: out, effects } = await sealReferences(db, { slug: c.slug, versionId: v.id, version: v.version, targets: body.targets, until: new Date(body.until), actor: req.actor, now: ctx.now() });
       ctx.log.info('moderation.seal', { challenge: c.slug, version: v.version, targets: out.targets, until: out.sealedUntil.toISOString(), actor: actorId(req) });
-      ctx.jobs.kick();
-      return out;
+      return reply(effects, out);
     },
   });
 

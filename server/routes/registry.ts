@@ -7,6 +7,7 @@ import type { NextFunction, Request, RequestHandler, Response, Router } from 'ex
 import type { Db } from '../db/client';
 import { teamRole } from '../middleware/actor';
 import { forbidden, unauthenticated } from '../errors';
+import { Reply, type EffectApplier } from '../effects';
 
 /**
  * public: anyone. signed-in: a user session. verified: a user whose e-mail is confirmed.
@@ -40,14 +41,19 @@ export class RouteTable {
   add(def: RouteDef): void {
     this.defs.push(def);
   }
-  /** json: the default body parser (small limit); no body is read before the access check passed */
-  mount(router: Router, db: Db, json: RequestHandler): void {
+  /**
+   * json: the default body parser (small limit); no body is read before the access check passed.
+   * applyEffects: a handler that answers reply(effects, body) has its service's after-commit effects
+   * applied here, once, before the body is sent (server/effects.ts).
+   */
+  mount(router: Router, db: Db, json: RequestHandler, applyEffects: EffectApplier): void {
     for (const def of this.defs) {
       const access = (req: Request, _res: Response, next: NextFunction) => { checkAccess(def, req, db).then(() => next(), next); };
       const body = def.body ?? (def.method === 'get' ? null : json);
       const wrap = async (req: Request, res: Response, next: NextFunction) => {
         try {
-          const out = await def.handler(req, res);
+          let out = await def.handler(req, res);
+          if (out instanceof Reply) out = out.render(await applyEffects(out.effects));
           if (out !== undefined && !res.headersSent) res.json(out);
         } catch (e) {
           next(e);

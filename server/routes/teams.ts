@@ -84,7 +84,7 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
         await db.delete(apikey).where(eq(apikey.id, created.id));
         throw e;
       }
-      await recordAudit(db, { actor: req.actor, action: 'api-key.create', subjectType: 'team', subjectId: teamId, details: { keyId: created.id, name: body.name } });
+      await recordAudit(db, { actor: req.actor, action: 'api-key.create', subjectType: 'team', subjectId: teamId, at: ctx.now(), details: { keyId: created.id, name: body.name } });
       res.status(201);
       return { id: created.id, name: created.name, key: created.key, start: created.start, expiresAt: created.expiresAt };
     },
@@ -96,7 +96,7 @@ export function registerTeamRoutes(routes: RouteTable, ctx: AppContext): void {
       const teamId = String(req.params.teamId);
       const gone = await db.delete(apikey).where(and(eq(apikey.id, String(req.params.keyId)), eq(apikey.referenceId, teamId))).returning({ id: apikey.id });
       if (!gone.length) throw notFound('The API key');
-      await recordAudit(db, { actor: req.actor, action: 'api-key.revoke', subjectType: 'team', subjectId: teamId, details: { keyId: gone[0].id } });
+      await recordAudit(db, { actor: req.actor, action: 'api-key.revoke', subjectType: 'team', subjectId: teamId, at: ctx.now(), details: { keyId: gone[0].id } });
       return { revoked: gone[0].id };
     },
   });

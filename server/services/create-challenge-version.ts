@@ -44,14 +44,14 @@ export async function createChallengeVersion(db: Db, spec: unknown, actor: Audit
       await tx.insert(challenges).values({
         slug, title: ch.spec.title, summary: ch.spec.description.slice(0, 400), state: 'draft',
         settings: { estimator: 'random-effects-dl', primaryMetric: DEFAULT_PRIMARY_METRIC, tracks: ['hardware', 'classical'], license: ch.spec.license ?? 'CC-BY-4.0' },
-        createdBy: actor.kind === 'user' ? actor.user.id : null,
+        createdBy: actor.kind === 'user' ? actor.user.id : null, createdAt: now, updatedAt: now,
       });
     }
     const [{ latest }] = await tx.select({ latest: max(challengeVersions.version) }).from(challengeVersions).where(eq(challengeVersions.challengeSlug, slug));
     if (latest !== null && ch.spec.version <= latest) {
       throw invalid([{ path: '/version', message: `version ${ch.spec.version} exists already for "${slug}"; use ${latest + 1}` }]);
     }
-    const [v] = await tx.insert(challengeVersions).values({ challengeSlug: slug, version: ch.spec.version, checksum: ch.checksum, spec: ch.spec, state: 'draft' }).returning();
+    const [v] = await tx.insert(challengeVersions).values({ challengeSlug: slug, version: ch.spec.version, checksum: ch.checksum, spec: ch.spec, state: 'draft', createdAt: now }).returning();
     const instRows = await insertChunks(tx, instances, shapes.map((s) => ({ versionId: v.id, ...s })), { id: instances.id, key: instances.key });
     const obsRows = await insertChunks(tx, observables, ch.spec.observables.map((o, i) => ({ versionId: v.id, key: o.id, spec: o, bound: coefficientBound(ch.observables[i]) })), { id: observables.id, key: observables.key });
     const instId = new Map(instRows.map((r) => [r.key, r.id]));

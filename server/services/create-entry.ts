@@ -67,7 +67,7 @@ export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string
       idempotencyKey: p.idempotency?.key ?? null, idempotencyHash: p.idempotency?.hash ?? null,
     });
     await insertEstimates(tx, id, doc.estimates);
-    await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, details: { teamId: p.teamId, versionId: check.version.versionId, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings.slice(0, 20) } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, at: p.now, details: { teamId: p.teamId, versionId: check.version.versionId, estimates: doc.estimates.length, coverage: check.coverage, warnings: check.warnings.slice(0, 20) } });
     return { id, state: 'draft' as const };
   });
 }
@@ -99,7 +99,7 @@ export async function createIncompleteEntry(db: Db, p: { slug: string; versionId
       label: f.label, document: f.document, problems: p.problems, createdAt: p.now, updatedAt: p.now,
       idempotencyKey: p.idempotency?.key ?? null, idempotencyHash: p.idempotency?.hash ?? null,
     });
-    await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, details: { teamId: p.teamId, versionId: p.versionId, incomplete: true, problems: p.problems.length } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.create', subjectType: 'entry', subjectId: id, at: p.now, details: { teamId: p.teamId, versionId: p.versionId, incomplete: true, problems: p.problems.length } });
     return { id, state: 'draft' as const };
   });
 }

@@ -2,7 +2,7 @@
  * Curation of a published entry: feature / unfeature it, hide it with a public reason (it leaves
  * the standings: recomputeStandings skips hidden entries) or show it again. One transaction with
  * the audit lines ('entry.feature', 'entry.hide': the public history reads them) and the standings
- * job; the caller kicks the worker after the commit.
+ * job; the worker kick is an effect, applied after the commit (server/effects.ts).
  */
 import { eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
@@ -11,9 +11,10 @@ import { conflict, notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
 import { refuseOwnTeamEntry } from './own-team-guard';
+import { kickJobs, type WithEffects } from '../effects';
 
 export async function curateEntry(db: Db, p: { entryId: string; featured?: boolean; hidden?: { reason: string } | null; actor: AuditActor; now: Date }) {
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
     await refuseOwnTeamEntry(tx, p.actor, e.teamId, 'feature or hide');
@@ -40,4 +41,5 @@ export async function curateEntry(db: Db, p: { entryId: string; featured?: boole
     }
     return { id: e.id, featured: set.featured ?? e.featured, hiddenReason: set.hiddenReason === undefined ? e.hiddenReason : set.hiddenReason, changes, jobId };
   });
+  return { result, effects: result.jobId ? [kickJobs()] : [] } satisfies WithEffects<typeof result>;
 }

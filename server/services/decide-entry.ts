@@ -4,14 +4,13 @@
  * the transition written (publishing through publishEntry, which also queues the standings), a
  * reviews row and an audit line ('entry.review', with the reason) appended. Of two moderators
  * deciding at once, the second waits for the lock, then finds the entry decided and gets 409.
- * The e-mail to the team goes out after the commit (notifyDecision), never inside it.
+ * The e-mail to the team and to the followers are effects (decisionEffects), sent after the commit.
  */
 import { desc, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
-import { entries, member, reviews, user } from '../db/schema';
+import { entries, reviews, user } from '../db/schema';
 import { conflict, notFound } from '../errors';
-import type { Mailer } from '../mail/mailer';
-import type { Logger } from '../log';
+import { kickJobs, type Effect, type WithEffects } from '../effects';
 import { publishEntry } from './publish-entry';
 import { recordAudit, type AuditActor } from './record-audit';
 import { refuseOwnTeamEntry } from './own-team-guard';
@@ -26,8 +25,8 @@ export interface DecisionResult {
   teamId: string; label: string; challengeSlug: string;
 }
 
-export async function decideEntry(db: Db, p: { entryId: string; decision: Decision; reason: string; actor: AuditActor; now: Date }): Promise<DecisionResult> {
-  return db.transaction(async (tx) => {
+export async function decideEntry(db: Db, p: { entryId: string; decision: Decision; reason: string; actor: AuditActor; now: Date }): Promise<WithEffects<DecisionResult>> {
+  const result = await db.transaction(async (tx): Promise<DecisionResult> => {
     const [e] = await tx.select().from(entries).where(eq(entries.id, p.entryId)).for('update');
     if (!e) throw notFound('The entry');
     await refuseOwnTeamEntry(tx, p.actor, e.teamId, 'decide on');
@@ -57,30 +56,8 @@ export async function decideEntry(db: Db, p: { entryId: string; decision: Decisi
     });
     return { entryId: e.id, decision: p.decision, fromState: e.state, state: to, reviewId: rv.id, decidedAt: p.now, jobIds, superseded, teamId: e.teamId, label: e.label, challengeSlug: e.challengeSlug };
   });
-}
-
-/** Addresses of a team's members (a Parallax team is a better-auth organization). */
-export async function teamEmails(db: Db, teamIds: string[]): Promise<{ email: string; name: string; teamId: string }[]> {
-  const out: { email: string; name: string; teamId: string }[] = [];
-  for (const teamId of [...new Set(teamIds)]) {
-    const rows = await db.select({ email: user.email, name: user.name }).from(member).innerJoin(user, eq(user.id, member.userId)).where(eq(member.organizationId, teamId));
-    for (const r of rows) out.push({ ...r, teamId });
-  }
-  return out;
-}
-
-/** Sends one message to each address; a failed send is logged and does not undo anything. */
-export async function sendAll(mailer: Mailer, log: Logger, to: string[], subject: string, text: string, event: string): Promise<number> {
-  let sent = 0;
-  await Promise.all([...new Set(to)].map(async (addr) => {
-    try {
-      await mailer.send({ to: addr, subject, text });
-      sent++;
-    } catch (err) {
-      log.error('mail.failed', { event, error: String((err as Error).message ?? err) });
-    }
-  }));
-  return sent;
+  const moderatorName = p.actor.kind === 'user' ? p.actor.user.name : 'a moderator';
+  return { result, effects: decisionEffects(result, p.reason, moderatorName) };
 }
 
 const WHAT: Record<Decision, string> = {
@@ -89,19 +66,33 @@ const WHAT: Record<Decision, string> = {
   reject: 'was rejected',
 };
 
-/** The decision e-mail to every member of the entry's team (after the commit). */
-export async function notifyDecision(db: Db, mailer: Mailer, log: Logger, baseUrl: string, d: DecisionResult, reason: string, moderatorName: string): Promise<number> {
-  const to = (await teamEmails(db, [d.teamId])).map((r) => r.email);
-  const subject = `Parallax: your entry "${d.label.slice(0, 120)}" ${d.decision === 'publish' ? 'was published' : d.decision === 'return' ? 'was returned' : 'was rejected'}`;
-  const text = [
-    `Your entry "${d.label}" for the challenge ${d.challengeSlug} ${WHAT[d.decision]}.`,
-    '',
-    `Moderator: ${moderatorName}`,
-    `Decided at: ${d.decidedAt.toISOString()}`,
-    'Reason:',
-    reason,
-    '',
-    `The entry: ${baseUrl.replace(/\/$/, '')}/entries/${d.entryId}`,
-  ].join('\n');
-  return sendAll(mailer, log, to, subject, text, 'entry.review');
+/**
+ * The after-commit effects of a decision: the worker kicked when a standings job was queued, the
+ * decision mailed to every member of the entry's team, and on a publication the followers of the
+ * challenge and of the team told.
+ */
+export function decisionEffects(d: DecisionResult, reason: string, moderatorName: string): Effect[] {
+  const effects: Effect[] = [];
+  if (d.jobIds.length) effects.push(kickJobs());
+  effects.push({
+    kind: 'mail-team', teamIds: [d.teamId], event: 'entry.review',
+    subject: `Parallax: your entry "${d.label.slice(0, 120)}" ${d.decision === 'publish' ? 'was published' : d.decision === 'return' ? 'was returned' : 'was rejected'}`,
+    lines: [
+      `Your entry "${d.label}" for the challenge ${d.challengeSlug} ${WHAT[d.decision]}.`,
+      '',
+      `Moderator: ${moderatorName}`,
+      `Decided at: ${d.decidedAt.toISOString()}`,
+      'Reason:',
+      reason,
+      '',
+      ['The entry: ', { path: `/entries/${d.entryId}` }],
+    ],
+  });
+  if (d.decision === 'publish') {
+    effects.push({
+      kind: 'notify-followers', slug: d.challengeSlug, teamId: d.teamId, event: 'entry.published', subject: `Parallax: new entry on ${d.challengeSlug}: ${d.label.slice(0, 120)}`,
+      lines: [`The entry "${d.label}" was published on the challenge ${d.challengeSlug} at ${d.decidedAt.toISOString()}.`, '', ['The entry: ', { path: `/entries/${d.entryId}` }], ['The standings (recomputed shortly): ', { path: `/challenges/${d.challengeSlug}` }]],
+    });
+  }
+  return effects;
 }

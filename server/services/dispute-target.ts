@@ -9,9 +9,10 @@ import { targets } from '../db/schema';
 import { notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
+import { kickJobs, type WithEffects } from '../effects';
 
 export async function disputeTarget(db: Db, p: { slug: string; versionId: string; version: number; targetKey: string; disputed: boolean; note: string | null; actor: AuditActor; now: Date }) {
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [t] = await tx.select().from(targets).where(and(eq(targets.versionId, p.versionId), eq(targets.key, p.targetKey))).for('update');
     if (!t) throw notFound(`The target "${p.targetKey}" of version ${p.version}`);
     const note = p.disputed ? p.note : null;
@@ -23,4 +24,5 @@ export async function disputeTarget(db: Db, p: { slug: string; versionId: string
     const jobId = await enqueueJob(tx, 'standings', { versionId: p.versionId }, `standings:${p.versionId}`);
     return { target: p.targetKey, version: p.version, disputed: p.disputed, note, jobId };
   });
+  return { result, effects: [kickJobs()] } satisfies WithEffects<typeof result>;
 }

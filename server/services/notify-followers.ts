@@ -4,21 +4,17 @@
  * (the in-process fake SMTP by default) after the change is committed, never inside a transaction;
  * every message ends with its one-click unfollow link. A failed send is logged and changes nothing.
  *
- * Jobs run without an app context: the app registers its context here (by database handle), as the
- * reveal job does, and a worker without an app in its process mails nobody.
+ * Nothing calls this directly: a service or a job returns a 'notify-followers' effect and
+ * server/effects.ts applies it after the commit (with the app's mailer and base URL; a worker
+ * without an app in its process mails nobody).
  */
 import { and, eq, or, type SQL } from 'drizzle-orm';
-import type { AppContext } from '../context';
 import type { Db } from '../db/client';
+import type { Logger } from '../log';
+import type { Mailer } from '../mail/mailer';
 import { follows, user } from '../db/schema';
 
 export type FollowEvent = 'entry.published' | 'references.computed' | 'references.revealed' | 'standings.rescored';
-
-const contexts = new WeakMap<Db, Pick<AppContext, 'mailer' | 'log' | 'config'>>();
-
-export function registerMailContext(ctx: Pick<AppContext, 'db' | 'mailer' | 'log' | 'config'>): void {
-  contexts.set(ctx.db, ctx);
-}
 
 export const unfollowLink = (baseUrl: string, token: string) => `${baseUrl.replace(/\/$/, '')}/unfollow/${token}`;
 
@@ -26,9 +22,8 @@ export const unfollowLink = (baseUrl: string, token: string) => `${baseUrl.repla
  * Mails every follower of the challenge (slug) or of the team (teamId) once, even when they follow
  * both; the unfollow link is that of the follow that matched first (the challenge's).
  */
-export async function notifyFollowers(db: Db, p: { slug: string; teamId?: string | null; event: FollowEvent; subject: string; lines: string[] }): Promise<number> {
-  const ctx = contexts.get(db);
-  if (!ctx) return 0;
+export async function notifyFollowers(ctx: { db: Db; mailer: Mailer; log: Logger; baseUrl: string }, p: { slug: string; teamId?: string | null; event: FollowEvent; subject: string; lines: string[] }): Promise<number> {
+  const { db } = ctx;
   const match: SQL[] = [and(eq(follows.subjectType, 'challenge'), eq(follows.subjectId, p.slug))!];
   if (p.teamId) match.push(and(eq(follows.subjectType, 'team'), eq(follows.subjectId, p.teamId))!);
   const rows = await db.select({ email: user.email, token: follows.token, type: follows.subjectType }).from(follows)
@@ -36,7 +31,7 @@ export async function notifyFollowers(db: Db, p: { slug: string; teamId?: string
   rows.sort((a, b) => (a.type === b.type ? 0 : a.type === 'challenge' ? -1 : 1));
   const once = new Map<string, { token: string; type: string }>();
   for (const r of rows) if (!once.has(r.email)) once.set(r.email, r);
-  const base = ctx.config.baseUrl.replace(/\/$/, '');
+  const base = ctx.baseUrl.replace(/\/$/, '');
   let sent = 0;
   for (const [to, f] of once) {
     const text = [...p.lines, '', `You receive this because you follow ${f.type === 'challenge' ? `the challenge ${p.slug}` : 'this team'} on Parallax.`, `Stop following: ${unfollowLink(base, f.token)}`].join('\n');
@@ -51,5 +46,5 @@ export async function notifyFollowers(db: Db, p: { slug: string; teamId?: string
   return sent;
 }
 
-/** The challenge page's address in mail. */
-export const challengeLink = (db: Db, slug: string) => `${(contexts.get(db)?.config.baseUrl ?? '').replace(/\/$/, '')}/challenges/${slug}`;
+/** The challenge page's address in a mail line (server/effects.ts adds the base URL). */
+export const challengeLink = (slug: string) => ({ path: `/challenges/${slug}` });

@@ -2,6 +2,8 @@
  * Publishing freezes a draft version (its spec and checksum never change again), makes it the
  * challenge's current version, marks the previous published version superseded with the reason,
  * and queues the reference job. One transaction; the computation runs later, off the request path.
+ * Effects after the commit: every cached standings response dropped (the current version changed)
+ * and the worker kicked.
  */
 import { and, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
@@ -9,9 +11,10 @@ import { challengeVersions, challenges } from '../db/schema';
 import { conflict, invalid, notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
+import { invalidateStandings, kickJobs, type WithEffects } from '../effects';
 
 export async function publishChallengeVersion(db: Db, p: { slug: string; version?: number; reason?: string; actor: AuditActor; now: Date }) {
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [c] = await tx.select().from(challenges).where(eq(challenges.slug, p.slug)).for('update');
     if (!c) throw notFound(`The challenge "${p.slug}"`);
     const drafts = await tx.select().from(challengeVersions).where(and(eq(challengeVersions.challengeSlug, p.slug), eq(challengeVersions.state, 'draft')));
@@ -26,4 +29,5 @@ export async function publishChallengeVersion(db: Db, p: { slug: string; version
     await recordAudit(tx, { actor: p.actor, action: 'challenge.publish', subjectType: 'challenge', subjectId: p.slug, at: p.now, details: { version: v.version, checksum: v.checksum, supersedes: previous, reason: p.reason ?? null } });
     return { slug: p.slug, versionId: v.id, version: v.version, checksum: v.checksum, jobId };
   });
+  return { result, effects: [invalidateStandings(null), kickJobs()] } satisfies WithEffects<typeof result>;
 }

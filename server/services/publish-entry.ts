@@ -2,7 +2,7 @@
  * Publishing an entry (called by moderation inside its own transaction): in-review -> published;
  * the previous published revision of the same lineage becomes superseded (both stay visible; the
  * standings use the newest published one); a standings recomputation is queued for every version
- * whose set of published entries changed. The caller kicks the worker after its commit.
+ * whose set of published entries changed. The caller returns the worker kick as an effect (decideEntry).
  */
 import { and, eq, ne } from 'drizzle-orm';
 import type { Tx } from '../db/client';
@@ -11,7 +11,7 @@ import { conflict, notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
 
-export async function publishEntry(tx: Tx, entryId: string, actor: AuditActor, now: Date = new Date()) {
+export async function publishEntry(tx: Tx, entryId: string, actor: AuditActor, now: Date) {
   const [e] = await tx.select().from(entries).where(eq(entries.id, entryId)).for('update');
   if (!e) throw notFound('The entry');
   if (e.state !== 'in-review') throw conflict(`This entry is ${e.state}; only an entry in review can be published.`);
@@ -26,6 +26,6 @@ export async function publishEntry(tx: Tx, entryId: string, actor: AuditActor, n
   }
   const jobIds: string[] = [];
   for (const v of versions) jobIds.push(await enqueueJob(tx, 'standings', { versionId: v }, `standings:${v}`));
-  await recordAudit(tx, { actor, action: 'entry.publish', subjectType: 'entry', subjectId: e.id, details: { versionId: e.versionId, supersedes: superseded, revision: e.revision } });
+  await recordAudit(tx, { actor, action: 'entry.publish', subjectType: 'entry', subjectId: e.id, at: now, details: { versionId: e.versionId, supersedes: superseded, revision: e.revision } });
   return { id: e.id, state: 'published' as const, superseded, jobIds };
 }

@@ -12,7 +12,7 @@ import { computeStandings, type StandingsEntryInput, type StandingsEstimate, typ
 import { SCORING_RULES_VERSION, type ConsensusEstimator } from '@shared/scoring';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db, DbOrTx } from '../db/client';
-import { standingsCache } from './standings-cache';
+import { invalidateStandings, type WithEffects } from '../effects';
 import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys } from '../queries/visibility';
 import { challengeVersions, challenges, entries, observables, organization, references, standings, targets } from '../db/schema';
 import { enqueueJob } from '../jobs/queue';
@@ -23,10 +23,10 @@ export const privateView = (p: StandingsPayload): StandingsResult => p.private ?
 
 export interface RecomputeTimings { readMs: number; computeMs: number; storeMs: number }
 
-export async function recomputeStandings(db: Db, versionId: string, now: Date = new Date()): Promise<{ id: string; computedAt: Date; timings: RecomputeTimings }> {
-  const out = await recomputeInTransaction(db, versionId, now);
-  standingsCache.invalidate(versionId);
-  return out;
+/** The new row; effect: the version's cached standings responses dropped after the commit. */
+export async function recomputeStandings(db: Db, versionId: string, now: Date): Promise<WithEffects<{ id: string; computedAt: Date; timings: RecomputeTimings }>> {
+  const result = await recomputeInTransaction(db, versionId, now);
+  return { result, effects: [invalidateStandings(versionId)] };
 }
 
 function recomputeInTransaction(db: Db, versionId: string, now: Date) {

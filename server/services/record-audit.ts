@@ -10,11 +10,15 @@ export function actorLabel(a: Actor): { actorId: string | null; actorLabel: stri
   return { actorId: null, actorLabel: 'system' };
 }
 
-/** Appends one line to the audit log (inside the caller's transaction when given one). */
+/**
+ * Appends one line to the audit log (inside the caller's transaction when given one). `at` is the
+ * injected clock's time, always: the public history and the feed order events by it, and the
+ * database's own clock (the column's default) would disagree with a moved test clock.
+ */
 export async function recordAudit(
   db: DbOrTx,
-  e: { actor: AuditActor; action: string; subjectType: string; subjectId: string; details?: Record<string, unknown>; at?: Date },
+  e: { actor: AuditActor; action: string; subjectType: string; subjectId: string; details?: Record<string, unknown>; at: Date },
 ): Promise<void> {
   const who = e.actor.kind === 'system' ? { actorId: null, actorLabel: e.actor.label } : actorLabel(e.actor);
-  await db.insert(auditLog).values({ ...who, action: e.action, subjectType: e.subjectType, subjectId: e.subjectId, details: e.details ?? {}, ...(e.at ? { at: e.at } : {}) });
+  await db.insert(auditLog).values({ ...who, action: e.action, subjectType: e.subjectType, subjectId: e.subjectId, details: e.details ?? {}, at: e.at });
 }

@@ -3,7 +3,9 @@
  * revealed (so the trigger no longer seals new rows), every pending commitment of the version is
  * checked against the entry's stored estimates (match / mismatch), audit 'references.unseal'.
  * The values themselves become public by the date alone (every read asks isVisibleNow,
- * server/queries/visibility.ts, on the injected clock); the job then recomputes the standings and e-mails the teams.
+ * server/queries/visibility.ts, on the injected clock); the job then recomputes the standings. Effects
+ * (server/effects.ts, applied after the job): a mail to the members of every team with an entry in the
+ * version (with their commitments' results), and one to the challenge's followers.
  * Idempotent: the seal row is locked and a revealed seal is skipped.
  */
 import { and, eq, inArray, isNull } from 'drizzle-orm';
@@ -12,6 +14,8 @@ import { entries, entryCommitments, referenceSeals, references, targets } from '
 import { recordAudit } from './record-audit';
 import { isSealInForce, isVisibleNow, PUBLIC_VIEWER } from '../queries/visibility';
 import { storedEstimatesHash } from './register-commitment';
+import type { Effect, WithEffects } from '../effects';
+import { challengeLink } from './notify-followers';
 
 export interface RevealOutcome {
   revealed: boolean;
@@ -24,8 +28,8 @@ export interface RevealOutcome {
   teamIds?: string[];
 }
 
-export async function revealSeal(db: Db, sealId: string, now: Date): Promise<RevealOutcome> {
-  return db.transaction(async (tx) => {
+export async function revealSeal(db: Db, sealId: string, now: Date): Promise<WithEffects<RevealOutcome>> {
+  const result = await db.transaction(async (tx): Promise<RevealOutcome> => {
     const [s] = await tx.select().from(referenceSeals).where(eq(referenceSeals.id, sealId)).for('update');
     if (!s) return { revealed: false, skipped: 'no such seal', sealId };
     if (s.revealedAt) return { revealed: false, skipped: 'already revealed', sealId };
@@ -59,4 +63,25 @@ export async function revealSeal(db: Db, sealId: string, now: Date): Promise<Rev
     });
     return { revealed: true, sealId: s.id, versionId: s.versionId, slug: s.challengeSlug, targets: covered.length, commitments, teamIds: teams.map((t) => t.teamId) };
   });
+  return { result, effects: result.revealed ? revealEffects(result, now) : [] };
+}
+
+/** The mails of a reveal: each team with an entry in the version (its own commitments' results), then the followers. */
+function revealEffects(out: RevealOutcome, now: Date): Effect[] {
+  const slug = out.slug!;
+  const effects: Effect[] = (out.teamIds ?? []).map((teamId) => {
+    const mine = (out.commitments ?? []).filter((c) => c.teamId === teamId);
+    return {
+      kind: 'mail-team', teamIds: [teamId], event: 'references.unseal', subject: `Parallax: reference values of ${slug} revealed`,
+      lines: [
+        `The sealed reference values of ${slug} (${out.targets} target(s)) are now public.`,
+        '',
+        ...(mine.length ? ['Your commitments:', ...mine.map((c) => [`- "${c.label}": ${c.result === 'match' ? 'matches its estimates' : 'does NOT match its estimates'} (`, { path: `/entries/${c.entryId}` }, ')']), ''] : []),
+        ['The standings: ', challengeLink(slug)],
+      ],
+    };
+  });
+  effects.push({ kind: 'notify-followers', slug, event: 'references.revealed', subject: `Parallax: reference values of ${slug} revealed`,
+    lines: [`The sealed reference values of ${slug} (${out.targets} target(s)) became public at ${now.toISOString()}; the standings were rescored with them.`, '', ['The standings: ', challengeLink(slug)]] });
+  return effects;
 }

@@ -34,7 +34,7 @@ export async function reviseEntry(db: Db, p: { entryId: string; actor: AuditActo
     });
     await tx.execute(sql`insert into estimates (entry_id, target_key, value, uncertainty, kind, raw)
       select ${id}::uuid, target_key, value, uncertainty, kind, raw from estimates where entry_id = ${e.id}::uuid order by id`);
-    await recordAudit(tx, { actor: p.actor, action: 'entry.revise', subjectType: 'entry', subjectId: id, details: { supersedes: e.id, lineageId: lineage, revision } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.revise', subjectType: 'entry', subjectId: id, at: p.now, details: { supersedes: e.id, lineageId: lineage, revision } });
     return { id, state: 'draft' as const, revision, lineageId: lineage, supersedesId: e.id };
   });
 }

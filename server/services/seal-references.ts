@@ -16,10 +16,11 @@ import { referenceSeals, references, targets } from '../db/schema';
 import { invalid } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
+import { kickJobs, type WithEffects } from '../effects';
 
 export async function sealReferences(db: Db, p: { slug: string; versionId: string; version: number; targets: string[] | 'all'; until: Date; actor: AuditActor; now: Date }) {
   if (!(p.until > p.now)) throw invalid([{ path: '/until', message: `the date must be in the future (now is ${p.now.toISOString()})` }]);
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const all = await tx.select({ id: targets.id, key: targets.key }).from(targets).where(eq(targets.versionId, p.versionId));
     let chosen = all;
     if (p.targets !== 'all') {
@@ -46,5 +47,6 @@ export async function sealReferences(db: Db, p: { slug: string; versionId: strin
     const jobId = await enqueueJob(tx, 'standings', { versionId: p.versionId }, `standings:${p.versionId}`);
     return { sealId: seal.id, version: p.version, targets: chosen.length, referencesSealedNow: existing, pendingReferences: chosen.length - existing, sealedUntil: p.until, jobId };
   });
+  return { result, effects: [kickJobs()] } satisfies WithEffects<typeof result>;
 }
 

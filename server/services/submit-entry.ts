@@ -29,7 +29,7 @@ export async function submitEntry(db: Db, p: { entryId: string; actor: AuditActo
     }
     if (e.state === 'draft') refuse(gateProblems(await loadGate(tx, e.challengeSlug), e.track, p.now, 'submit'));
     await tx.update(entries).set({ state: 'in-review', submittedAt: p.now, updatedAt: p.now }).where(eq(entries.id, e.id));
-    await recordAudit(tx, { actor: p.actor, action: 'entry.submit', subjectType: 'entry', subjectId: e.id, details: { from: e.state } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.submit', subjectType: 'entry', subjectId: e.id, at: p.now, details: { from: e.state } });
     return { id: e.id, state: 'in-review' as const, submittedAt: p.now };
   });
 }

@@ -10,6 +10,7 @@ import { challenges } from '../db/schema';
 import { conflict, notFound } from '../errors';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit, type AuditActor } from './record-audit';
+import { kickJobs, type WithEffects } from '../effects';
 
 export interface SettingsPatch {
   estimator?: string;
@@ -22,7 +23,7 @@ export interface SettingsPatch {
 }
 
 export async function updateChallengeSettings(db: Db, p: { slug: string; patch: SettingsPatch; actor: AuditActor; now: Date }) {
-  return db.transaction(async (tx) => {
+  const result = await db.transaction(async (tx) => {
     const [c] = await tx.select().from(challenges).where(eq(challenges.slug, p.slug)).for('update');
     if (!c) throw notFound(`The challenge "${p.slug}"`);
     const { state, reason, ...rest } = p.patch;
@@ -41,4 +42,5 @@ export async function updateChallengeSettings(db: Db, p: { slug: string; patch: 
     const jobId = c.currentVersionId ? await enqueueJob(tx, 'standings', { versionId: c.currentVersionId }, `standings:${c.currentVersionId}`) : null;
     return { slug: p.slug, state: after.state, settings, changed, jobId };
   });
+  return { result, effects: result.jobId ? [kickJobs()] : [] } satisfies WithEffects<typeof result>;
 }

@@ -44,7 +44,7 @@ export async function updateEntry(db: Db, p: { entryId: string; check: EntryChec
     await tx.delete(estimates).where(eq(estimates.entryId, e.id));
     await insertEstimates(tx, e.id, doc.estimates);
     await tx.update(entries).set({ versionId: p.check.version.versionId, track: doc.track, methodFamily: doc.method.family, label: doc.label, document: entryMetadata(doc), problems: null, updatedAt: p.now }).where(eq(entries.id, e.id));
-    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, details: { estimates: doc.estimates.length, coverage: p.check.coverage, warnings: p.check.warnings.slice(0, 20) } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, at: p.now, details: { estimates: doc.estimates.length, coverage: p.check.coverage, warnings: p.check.warnings.slice(0, 20) } });
     return { id: e.id, state: e.state };
   });
 }
@@ -62,7 +62,7 @@ export async function updateIncompleteEntry(db: Db, p: { entryId: string; raw: u
     }
     await tx.delete(estimates).where(eq(estimates.entryId, e.id));
     await tx.update(entries).set({ track: f.track, methodFamily: f.methodFamily, label: f.label, document: f.document, problems: p.problems, updatedAt: p.now }).where(eq(entries.id, e.id));
-    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, details: { incomplete: true, problems: p.problems.length } });
+    await recordAudit(tx, { actor: p.actor, action: 'entry.update', subjectType: 'entry', subjectId: e.id, at: p.now, details: { incomplete: true, problems: p.problems.length } });
     return { id: e.id, state: e.state };
   });
 }

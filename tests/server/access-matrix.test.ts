@@ -156,7 +156,7 @@ beforeAll(async () => {
   ids.entryDelete = await newEntry();
   expect((await as.memberA!.post(`/api/entries/${ids.entryReview}/submit`)).status).toBe(200);
   expect((await as.memberA!.post(`/api/entries/${ids.entryPublished}/submit`)).status).toBe(200);
-  await t.database.db.transaction((tx) => publishEntry(tx, ids.entryPublished, { kind: 'system', label: 'matrix' }));
+  await t.database.db.transaction((tx) => publishEntry(tx, ids.entryPublished, { kind: 'system', label: 'matrix' }, new Date()));
 }, 120_000);
 afterAll(async () => { await t.close(); });
 

@@ -45,7 +45,7 @@ async function draft(doc: unknown = fullSweep(w)): Promise<string> {
 async function published(doc: unknown = fullSweep(w)): Promise<string> {
   const id = await draft(doc);
   expect((await submit(id)).status).toBe(200);
-  await w.t.database.db.transaction((tx) => publishEntry(tx, id, { kind: 'system', label: 'test moderator' }));
+  await w.t.database.db.transaction((tx) => publishEntry(tx, id, { kind: 'system', label: 'test moderator' }, new Date()));
   return id;
 }
 /** a refusal by the settings: 409 with the field problems, and nothing stored */

@@ -240,7 +240,7 @@ describe('editing, submitting, revisions and withdrawal', () => {
     const first = fullSweep(w, { label: 'rev 1' });
     const id1 = (await post(first)).body.id;
     await w.memberA.post(`/api/entries/${id1}/submit`);
-    await db.transaction((tx) => publishEntry(tx, id1, { kind: 'system', label: 'test moderator' }));
+    await db.transaction((tx) => publishEntry(tx, id1, { kind: 'system', label: 'test moderator' }, new Date()));
     expect((await agent(w.t).get(`/api/entries/${id1}`)).status).toBe(200);
     const put = await w.memberA.raw.put(`/api/entries/${id1}`).set('Origin', ORIGIN).send(first);
     expect(put.status).toBe(409);
@@ -257,7 +257,7 @@ describe('editing, submitting, revisions and withdrawal', () => {
     expect((await w.memberA.raw.put(`/api/entries/${id2}`).set('Origin', ORIGIN).send(second)).status).toBe(200);
     expect((await w.memberA.post(`/api/entries/${id2}/submit`)).status).toBe(200);
     await db.delete(jobs);
-    await db.transaction((tx) => publishEntry(tx, id2, { kind: 'system', label: 'test moderator' }));
+    await db.transaction((tx) => publishEntry(tx, id2, { kind: 'system', label: 'test moderator' }, new Date()));
     const queued = await db.select().from(jobs);
     expect(queued.map((j) => j.kind)).toEqual(['standings']);
 

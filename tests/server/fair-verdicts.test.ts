@@ -80,7 +80,7 @@ beforeAll(async () => {
     await db.insert(estimates).values(g.est.map(([targetKey, value, uncertainty]) => ({ entryId: id, targetKey, value, uncertainty, kind: uncertainty === 0 ? 'none' : 'statistical' })));
     n++;
   }
-  await recomputeStandings(db, tg[0].versionId);
+  await recomputeStandings(db, tg[0].versionId, new Date());
 }, 120_000);
 afterAll(async () => {
   // the places, for the report (before / after the change)

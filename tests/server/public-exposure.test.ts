@@ -147,7 +147,7 @@ beforeAll(async () => {
   // the baseline's estimates are the sealed values (to 1e-9): the entry page is where they leaked
   const be = await db.select({ target: estimates.targetKey, value: estimates.value }).from(estimates).where(eq(estimates.entryId, baselineId));
   expect(be.filter((x) => secrets.some((s) => s.key === x.target && Math.abs(s.value - x.value) < 1e-9)).length).toBe(secrets.length);
-  await recomputeStandings(db, versionId, t.clock.now);
+  await t.ctx.applyEffects((await recomputeStandings(db, versionId, t.clock.now)).effects);
   // a moderator who is also a member of a team: competes, so sees what the public sees
   competingMod = await signUpVerified(t, 'competing-mod@p.test', 'Competing Mod');
   await setRole(t, 'competing-mod@p.test', 'moderator');
@@ -190,7 +190,7 @@ describe('public exposure', () => {
     expect(leaks((await mod.get(`/api/entries/${baselineId}`)).text)).toEqual(secrets.map((x) => x.key).sort());
 
     t.clock.advance(2 * 86400_000);
-    await recomputeStandings(t.database.db, versionId, t.clock.now);
+    await t.ctx.applyEffects((await recomputeStandings(t.database.db, versionId, t.clock.now)).effects);
     const after = await agent(t).get('/api/challenges/pub-chain/targets');
     expect(after.body.targets.find((x: any) => x.key === sealedKey).reference).toMatchObject({ status: 'exact', value: sealedValue });
     expect(leaks((await agent(t).get(`/api/entries/${baselineId}`)).text)).toEqual(secrets.map((x) => x.key).sort());

@@ -58,7 +58,7 @@ beforeAll(async () => {
     await db.insert(estimates).values(nums.map(([value, u], k) => ({ entryId: id, targetKey: keys[k], value, uncertainty: u, kind: 'statistical' })));
     n++;
   }
-  await recomputeStandings(db, tg[0].versionId);
+  await recomputeStandings(db, tg[0].versionId, new Date());
 }, 120_000);
 afterAll(async () => { await worker.stop(); await t.close(); });
 

@@ -41,7 +41,7 @@ beforeAll(async () => {
   await db.insert(estimates).values(tg.map((x) => ({ entryId: ids.hw, targetKey: x.key, value: 0.95, uncertainty: 0.02, kind: 'statistical', raw: x.key === KEY ? { noiseScaled, unmitigated: 0.8 } : null })));
   await db.insert(estimates).values(tg.map((x) => ({ entryId: ids.cl, targetKey: x.key, value: 0.9, uncertainty: 0.001, kind: 'systematic' })));
   await db.insert(estimates).values(tg.map((x) => ({ entryId: ids.hidden, targetKey: x.key, value: 0.111222333, uncertainty: 0.01, kind: 'statistical' })));
-  await recomputeStandings(db, versionId);
+  await recomputeStandings(db, versionId, new Date());
 }, 120_000);
 afterAll(async () => { await worker.stop(); await t.close(); });
 
