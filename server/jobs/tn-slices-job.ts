@@ -136,5 +136,5 @@ export const tnSlicesJob: JobHandler = async (job, w) => {
     await w.db.insert(tnSliceParts).values({ runId: run.id, term: p.term, sliceStart: p.start, sliceEnd: p.end, partials, wallMs }).onConflictDoNothing();
   }
   const value = await combineRun(w.db, run.id, w.now());
-  return { target: run.targetKey, term: p.term, slices: [p.start, p.end], wallMs, ...(value !== null ? { combined: value } : {}) };
+  return { target: run.targetKey, worker: job.lockedBy, term: p.term, slices: [p.start, p.end], wallMs, ...(value !== null ? { combined: value } : {}) };
 };
