@@ -18,7 +18,7 @@ export interface ComputeRequest {
   targetIds: string[];
   /** baseline thresholds (truncated Pauli propagation) */
   baseline?: { delta: number; maxTerms: number };
-  planner?: { secondsBudget: number; coneQubitLimit: number };
+  planner?: { secondsBudget: number; coneQubitLimit: number; tnMemoryBytes?: number };
   /** threads that share the slice blocks of a sliced tensor-network plan (1: this thread alone) */
   sliceThreads?: number;
   /**
@@ -77,7 +77,7 @@ function computeTargets() {
   // the same planner options as /plan and the preview (server/planner-options.ts); a sliced
   // tensor-network term spreads its slice blocks over the slice threads
   const runner = new ReferenceRunner(challenge, {
-    ...plannerOptions(req.planner ? { secondsPerTarget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit } : DEFAULT_REFERENCE_BUDGET),
+    ...plannerOptions(req.planner ? { secondsPerTarget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit, tnMemoryBytes: req.planner.tnMemoryBytes } : DEFAULT_REFERENCE_BUDGET),
     contractTerm: (plan, at) => pool.contract(plan, {
       onStep: at.onStep,
       onBlock: blockProgress(done + at.term / at.terms, 1 / at.terms, req.targetIds.length, `${current}: tensor network, term ${at.term + 1} of ${at.terms}`),

@@ -4,7 +4,7 @@ import type { Logger } from '../log';
 import type { JobRow } from './queue';
 
 export type JobHandler = (job: JobRow, w: WorkerContext) => Promise<Record<string, unknown>>;
-export interface PlannerBudget { secondsBudget: number; coneQubitLimit: number }
+export interface PlannerBudget { secondsBudget: number; coneQubitLimit: number; tnMemoryBytes?: number }
 /** How sliced tensor-network contractions are spread (server/config.ts referenceThreads, tnSliceJobs). */
 export interface SliceSettings {
   /** worker threads that share one plan's slice blocks */

@@ -206,6 +206,49 @@ describe('slice jobs (PGlite: one worker claims them all)', () => {
   }, 180_000);
 });
 
+describe('the reference job with sliced tensor-network terms', () => {
+  // a cone limit of 8 qubits rules the statevectors out and a width-7 memory budget slices the network
+  const planner = { secondsBudget: 120, coneQubitLimit: 8, tnMemoryBytes: 96 * 2 ** 7 };
+
+  async function runReferences(slug: string, slices: WorkerContext['slices']) {
+    const db = t.database.db;
+    const p = await prepare(slug);
+    const w = await startWorker(db, log, { kinds: ['references', 'tn-slices'], pollMs: 20, recover: 'all', planner, slices, now: () => t.clock.now });
+    for (let i = 0; i < 1200; i++) {
+      const left = await db.select({ id: jobs.id }).from(jobs).where(and(sql`${jobs.kind} in ('references', 'tn-slices')`, sql`${jobs.payload}->>'versionId' = ${p.versionId}`, sql`${jobs.state} not in ('done', 'failed')`));
+      if (!left.length) break;
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    await w.stop();
+    const [parent] = await db.select().from(jobs).where(eq(jobs.id, p.parentJobId));
+    const [ref] = await db.select().from(references).where(eq(references.targetId, p.targetId));
+    return { p, parent, ref };
+  }
+
+  it('on two threads: the value of one thread, the slices recorded, progress per slice block', async () => {
+    const { p, parent, ref } = await runReferences('tn-slices-c', { threads: 2, jobsAbove: null, jobsPerTerm: 4 });
+    expect(parent.state).toBe('done');
+    expect(ref.method).toBe('tensor-network');
+    expect(ref.value).toBe(p.want);
+    expect(Math.abs(ref.value! - p.sv)).toBeLessThan(1e-12);
+    expect((ref.size as { slices: number }).slices).toBe(p.message.slices);
+    expect(parent.progressNote).toMatch(/tensor network, term 2 of 2, slice block \d+ of \d+/);
+  }, 120_000);
+
+  it('above the slice-job threshold: the target becomes slice jobs that the worker claims; the reference is written once', async () => {
+    const { p, parent, ref } = await runReferences('tn-slices-d', { threads: 1, jobsAbove: 8, jobsPerTerm: 3 });
+    expect(parent.state).toBe('done');
+    const sliceJobs = await t.database.db.select().from(jobs).where(and(eq(jobs.kind, 'tn-slices'), sql`${jobs.payload}->>'versionId' = ${p.versionId}`));
+    expect((parent.result as { sliceJobs?: number }).sliceJobs).toBe(sliceJobs.length);
+    expect(sliceJobs.length).toBeGreaterThan(1);
+    expect(sliceJobs.every((j) => j.state === 'done')).toBe(true);
+    expect(sliceJobs.filter((j) => (j.result as { combined?: number }).combined !== undefined)).toHaveLength(1);
+    expect(ref.value).toBe(p.want);
+    expect(Math.abs(ref.value! - p.sv)).toBeLessThan(1e-12);
+    expect(String((ref.size as { detail: string }).detail)).toMatch(/slice jobs/);
+  }, 180_000);
+});
+
 // ---- PostgreSQL: two workers on two pools split the slice jobs (scripts/pg-test.sh) ---------
 
 const url = inject('databaseUrl');
