@@ -4,11 +4,12 @@
  * server/jobs/engine-upgrade.ts), in a compute thread; then queues the house baseline and the
  * standings.
  */
-import { and, eq, sql } from 'drizzle-orm';
-import { ENGINE_VERSION, type ReferenceResult } from '@shared/physics/reference';
-import type { Db, DbOrTx } from '../db/client';
+import { and, eq } from 'drizzle-orm';
+import { ENGINE_VERSION } from '@shared/physics/reference';
+import type { Db } from '../db/client';
 import { challengeVersions, challenges, references, targets, tnSliceRuns } from '../db/schema';
 import { combineRun, distributeTarget } from './tn-slices-job';
+import { storeReference } from './store-reference';
 import { enqueueJob, PublicJobError } from './queue';
 import { challengeLink, notifyFollowers } from '../services/notify-followers';
 import { runCompute } from './run-compute';
@@ -29,22 +30,6 @@ async function plannerFor(w: WorkerContext, slug: string): Promise<PlannerBudget
   const cap = (c?.settings as { referenceSecondsBudget?: unknown } | undefined)?.referenceSecondsBudget;
   if (typeof cap !== 'number' || !(cap > 0)) return w.planner;
   return { ...w.planner, secondsBudget: Math.min(cap, w.planner?.secondsBudget ?? Infinity), coneQubitLimit: w.planner?.coneQubitLimit ?? 27 };
-}
-
-/**
- * Stores a computed reference of a target: a stale one is replaced in place (its seal, if any,
- * stays); a supplied one, or one this engine already wrote, is never touched.
- */
-export async function storeReference(db: DbOrTx, targetId: string, r: ReferenceResult, now: Date): Promise<void> {
-  const row = r.value === null
-    ? { value: null, method: 'none', reason: r.reason, engineVersion: r.engineVersion, size: {}, wallMs: null }
-    // size: the method's own measure, plus the tensor network's width, flops and slices and the
-    // cross-check by a second exact method where one ran (shown with the reference)
-    : { value: r.value, method: r.method, size: { [r.unit]: r.size, detail: r.detail, ...(r.width !== undefined ? { width: r.width, flops: r.flops, slices: r.slices } : {}), ...(r.crossCheck ? { crossCheck: r.crossCheck } : {}) }, wallMs: r.wallMs, engineVersion: r.engineVersion, reason: null };
-  await db.insert(references).values({ targetId, ...row }).onConflictDoUpdate({
-    target: references.targetId, set: { ...row, uncertainty: 0, createdAt: now },
-    setWhere: sql`${references.method} <> 'supplied' and ${references.engineVersion} is distinct from ${ENGINE_VERSION}`,
-  });
 }
 
 /** a computed reference (not one a moderator supplied) made by another engine than this one */

@@ -18,7 +18,7 @@ import type { Db } from '../db/client';
 import { targets, tnSliceParts, tnSliceRuns } from '../db/schema';
 import type { ComputeMessage } from './compute-thread';
 import { enqueueJob } from './queue';
-import { storeReference } from './references-job';
+import { storeReference } from './store-reference';
 import { runCompute } from './run-compute';
 import type { JobHandler } from './types';
 
