@@ -12,10 +12,14 @@
  * to call `onStep` (the engine's time cap: a throw there stops the threads at their next pairwise
  * step) and reports finished blocks through `onBlock` (the job's progress).
  *
+ * Each thread holds one slice's intermediates (plan.memoryBytes, within the plan's memory budget),
+ * so a plan runs on at most as many threads as half the machine's memory holds such slices.
+ *
  * Threads start on first use and live as long as this pool (close() ends them; they are unref'd, so
  * a compute thread that ends takes them with it).
  */
 import { MessageChannel, receiveMessageOnPort, Worker, type MessagePort } from 'node:worker_threads';
+import { totalmem } from 'node:os';
 import { contractSliceRange, sliceBlocks, sumBlocks, type TnTermPlan } from '@shared/physics/tensor-network/index';
 
 /** Slots of the shared control array: next block to take, blocks done, abort flag, error flag. */
@@ -36,6 +40,11 @@ export interface BlockRunOptions {
   onBlock?: (done: number, total: number) => void;
   /** longest wait between onStep calls, ms (default 200) */
   pollMs?: number;
+}
+
+/** How many slices of `bytes` each fit in half the machine's memory (at least 1). */
+export function threadsForMemory(bytes: number, total = totalmem()): number {
+  return Math.max(1, Math.floor((0.5 * total) / Math.max(1, bytes)));
 }
 
 interface SliceWorker { worker: Worker; errors: MessagePort; dead: boolean }
@@ -67,7 +76,7 @@ export class SliceThreads {
   runBlocks(plan: TnTermPlan, blocks: [number, number][], opts: BlockRunOptions = {}): Float64Array {
     const nb = blocks.length;
     const out = new Float64Array(new SharedArrayBuffer(16 * Math.max(1, nb)));
-    const threads = Math.min(this.size, nb);
+    const threads = Math.min(this.size, nb, threadsForMemory(plan.memoryBytes));
     if (threads <= 1) {
       blocks.forEach(([s, e], b) => {
         const [re, im] = contractSliceRange(plan, s, e, { onStep: opts.onStep });

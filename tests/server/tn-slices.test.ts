@@ -18,7 +18,7 @@ import { contractPlan, contractSliceRange, planTerm, sliceBlocks } from '../../s
 import { jobs, references, targets, tnSliceParts, tnSliceRuns } from '../../server/db/schema';
 import { openDatabase } from '../../server/db/client';
 import { claimJob, finishJob } from '../../server/jobs/queue';
-import { SliceThreads } from '../../server/jobs/slice-threads';
+import { SliceThreads, threadsForMemory } from '../../server/jobs/slice-threads';
 import { combineRun, decodePlan, distributeTarget, encodePlan, sliceRanges, tnSlicesJob } from '../../server/jobs/tn-slices-job';
 import { startWorker, type WorkerContext } from '../../server/jobs/worker';
 import { createLogger } from '../../server/log';
@@ -82,6 +82,9 @@ describe('slices on worker threads', () => {
     expect(sliceRanges(256, 8)).toEqual([[0, 32], [32, 64], [64, 96], [96, 128], [128, 160], [160, 192], [192, 224], [224, 256]]);
     expect(sliceRanges(4, 8)).toEqual([[0, 1], [1, 2], [2, 3], [3, 4]]);
     expect(sliceRanges(64, 3)).toEqual([[0, 22], [22, 44], [44, 64]]);
+    // threads are capped by memory: slices of 2 GiB on a 16 GiB machine, 4 at a time
+    expect(threadsForMemory(2 * 1024 ** 3, 16 * 1024 ** 3)).toBe(4);
+    expect(threadsForMemory(40 * 1024 ** 3, 16 * 1024 ** 3)).toBe(1);
     // a stored plan decodes to the same numbers (base64 of the float64 bytes)
     const back = decodePlan(JSON.parse(JSON.stringify(encodePlan(sliced))));
     expect(contractPlan(back)[0]).toBe(contractPlan(sliced)[0]);
