@@ -58,7 +58,7 @@ try {
   if (req.mode === 'slices') {
     const { plan, blocks } = req.slices!;
     const t0 = performance.now();
-    const partials = pool.runBlocks(plan, blocks, { onBlock: blockProgress(0, 1, 1, 'tensor network') });
+    const partials = await pool.runBlocksAsync(plan, blocks, { onBlock: blockProgress(0, 1, 1, 'tensor network') });
     post({ type: 'blocks', partials: Array.from(partials.subarray(0, 2 * blocks.length)), wallMs: performance.now() - t0 });
   } else {
     computeTargets();

@@ -48,6 +48,7 @@ export function threadsForMemory(bytes: number, total = totalmem()): number {
 }
 
 interface SliceWorker { worker: Worker; errors: MessagePort; dead: boolean }
+interface Run { ctl: Int32Array; ws: SliceWorker[]; nb: number; seen: number }
 
 export class SliceThreads {
   private readonly workers: SliceWorker[] = [];
@@ -69,42 +70,71 @@ export class SliceThreads {
     return this.workers.slice(0, n);
   }
 
+  /** Starts the threads on a plan's blocks; null when they run in this thread (one thread, one block). */
+  private launch(plan: TnTermPlan, blocks: [number, number][], out: Float64Array): Run | null {
+    const threads = Math.min(this.size, blocks.length, threadsForMemory(plan.memoryBytes));
+    if (threads <= 1) return null;
+    const ctl = new Int32Array(new SharedArrayBuffer(4 * 4));
+    const ws = this.ensure(threads);
+    // errors a thread posted after an earlier run was given up are not this run's
+    for (const w of ws) while (receiveMessageOnPort(w.errors));
+    const task: SliceTask = { plan, blocks, ctl: ctl.buffer as SharedArrayBuffer, out: out.buffer as SharedArrayBuffer };
+    for (const w of ws) w.worker.postMessage(task);
+    return { ctl, ws, nb: blocks.length, seen: 0 };
+  }
+
+  /** One look at a run: progress reported, a failed or stopped thread thrown; true when every block is done. */
+  private poll(r: Run, opts: BlockRunOptions): boolean {
+    const done = Atomics.load(r.ctl, CTL.done);
+    if (Atomics.load(r.ctl, CTL.error)) {
+      const msgs = r.ws.map((w) => receiveMessageOnPort(w.errors)?.message).filter(Boolean);
+      throw new Error(`a slice thread failed: ${msgs.join('; ') || 'no message'}`);
+    }
+    if (done !== r.seen) { r.seen = done; opts.onBlock?.(done, r.nb); }
+    if (done >= r.nb) return true;
+    // seen only where the caller's event loop runs (runBlocksAsync): a thread that died (out of memory)
+    if (r.ws.some((w) => w.dead)) throw new Error('a slice thread stopped before its blocks were done');
+    opts.onStep?.();
+    return false;
+  }
+
+  private inline(plan: TnTermPlan, blocks: [number, number][], out: Float64Array, opts: BlockRunOptions): Float64Array {
+    blocks.forEach(([s, e], b) => {
+      const [re, im] = contractSliceRange(plan, s, e, { onStep: opts.onStep });
+      out[2 * b] = re;
+      out[2 * b + 1] = im;
+      opts.onBlock?.(b + 1, blocks.length);
+    });
+    return out;
+  }
+
   /**
    * The partial sums of the given blocks of a plan ([re0, im0, re1, im1, ...] in the order of
-   * `blocks`), computed on min(size, blocks) threads, or in this thread when that is one.
+   * `blocks`), computed on min(size, blocks) threads, or in this thread when that is one. Blocks
+   * the calling thread until they are done (for the synchronous reference engine).
    */
   runBlocks(plan: TnTermPlan, blocks: [number, number][], opts: BlockRunOptions = {}): Float64Array {
-    const nb = blocks.length;
-    const out = new Float64Array(new SharedArrayBuffer(16 * Math.max(1, nb)));
-    const threads = Math.min(this.size, nb, threadsForMemory(plan.memoryBytes));
-    if (threads <= 1) {
-      blocks.forEach(([s, e], b) => {
-        const [re, im] = contractSliceRange(plan, s, e, { onStep: opts.onStep });
-        out[2 * b] = re;
-        out[2 * b + 1] = im;
-        opts.onBlock?.(b + 1, nb);
-      });
-      return out;
-    }
-    const ctl = new Int32Array(new SharedArrayBuffer(4 * 4));
-    const task: SliceTask = { plan, blocks, ctl: ctl.buffer as SharedArrayBuffer, out: out.buffer as SharedArrayBuffer };
-    const ws = this.ensure(threads);
-    for (const w of ws) w.worker.postMessage(task);
-    let seen = 0;
+    const out = new Float64Array(new SharedArrayBuffer(16 * Math.max(1, blocks.length)));
+    const r = this.launch(plan, blocks, out);
+    if (!r) return this.inline(plan, blocks, out, opts);
     try {
-      for (;;) {
-        const done = Atomics.load(ctl, CTL.done);
-        if (Atomics.load(ctl, CTL.error)) {
-          const msgs = ws.map((w) => receiveMessageOnPort(w.errors)?.message).filter(Boolean);
-          throw new Error(`a slice thread failed: ${msgs.join('; ') || 'no message'}`);
-        }
-        if (done !== seen) { seen = done; opts.onBlock?.(done, nb); }
-        if (done >= nb) break;
-        opts.onStep?.();
-        Atomics.wait(ctl, CTL.done, done, opts.pollMs ?? 200);
-      }
+      while (!this.poll(r, opts)) Atomics.wait(r.ctl, CTL.done, r.seen, opts.pollMs ?? 200);
     } catch (e) {
-      Atomics.store(ctl, CTL.abort, 1);
+      Atomics.store(r.ctl, CTL.abort, 1);
+      throw e;
+    }
+    return out;
+  }
+
+  /** As runBlocks, without blocking this thread's event loop (so a thread that dies is noticed). */
+  async runBlocksAsync(plan: TnTermPlan, blocks: [number, number][], opts: BlockRunOptions = {}): Promise<Float64Array> {
+    const out = new Float64Array(new SharedArrayBuffer(16 * Math.max(1, blocks.length)));
+    const r = this.launch(plan, blocks, out);
+    if (!r) return this.inline(plan, blocks, out, opts);
+    try {
+      while (!this.poll(r, opts)) await new Promise((res) => setTimeout(res, opts.pollMs ?? 200));
+    } catch (e) {
+      Atomics.store(r.ctl, CTL.abort, 1);
       throw e;
     }
     return out;

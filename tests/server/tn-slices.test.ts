@@ -75,6 +75,21 @@ describe('slices on worker threads', () => {
     }
   }, 60_000);
 
+  it('off the event loop (slice jobs): the same partials; a slice thread that dies fails the run instead of hanging it', async () => {
+    const pool = new SliceThreads(2);
+    try {
+      const blocks = sliceBlocks(sliced.slices);
+      const sync = new SliceThreads(1).runBlocks(sliced, blocks);
+      expect(Array.from(await pool.runBlocksAsync(sliced, blocks, { pollMs: 10 }))).toEqual(Array.from(sync));
+      const run = pool.runBlocksAsync(sliced, blocks, { pollMs: 10 });
+      // a thread killed mid-run (as the runtime does when it runs out of memory)
+      await (pool as unknown as { workers: { worker: import('node:worker_threads').Worker }[] }).workers[0].worker.terminate();
+      await expect(run).rejects.toThrow(/slice thread stopped/);
+    } finally {
+      await pool.close();
+    }
+  }, 60_000);
+
   it('the blocks depend on the slice count only; slice ranges of jobs are runs of whole blocks', () => {
     expect(sliceBlocks(8)).toEqual([[0, 1], [1, 2], [2, 3], [3, 4], [4, 5], [5, 6], [6, 7], [7, 8]]);
     expect(sliceBlocks(256)).toHaveLength(64);
