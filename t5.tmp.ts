@@ -13,7 +13,9 @@ const pools = [new SliceThreads(1), new SliceThreads(2)];
 await pools[1].contract(planTerm(c, [{ qubit: 24, op: 'Z' }], { memoryBytes: 96 * 2 ** 8 }));
 for (let rep = 0; rep < Number(process.argv[3] ?? 2); rep++) for (const [k, pool] of pools.entries()) {
   const t = performance.now();
+  const cpu = process.cpuUsage();
   const v = pool.contract(p);
-  console.log(`threads ${k + 1}: ${((performance.now() - t) / 1000).toFixed(2)} s value ${v[0]} load ${loadavg()[0].toFixed(1)}`);
+  const u = process.cpuUsage(cpu);
+  console.log(`threads ${k + 1}: wall ${((performance.now() - t) / 1000).toFixed(2)} s, cpu ${((u.user + u.system) / 1e6).toFixed(2)} s, value ${v[0]}, load ${loadavg()[0].toFixed(1)}`);
 }
 await Promise.all(pools.map((x) => x.close()));
