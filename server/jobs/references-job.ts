@@ -74,5 +74,5 @@ export const referencesJob: JobHandler = async (job, w) => {
     await notifyFollowers(w.db, { slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
       lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${todo.length - exact - handed} target(s) have none and are scored against the consensus.`, '', `The challenge: ${challengeLink(w.db, v.challengeSlug)}`] });
   }
-  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION, ...(sliceJobs ? { sliceJobs } : {}) };
+  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION, ...(sliceJobs ? { sliceJobs, bySliceJobs: handed } : {}) };
 };
