@@ -81,10 +81,15 @@ describe('slices on worker threads', () => {
       const blocks = sliceBlocks(sliced.slices);
       const sync = new SliceThreads(1).runBlocks(sliced, blocks);
       expect(Array.from(await pool.runBlocksAsync(sliced, blocks, { pollMs: 10 }))).toEqual(Array.from(sync));
-      const run = pool.runBlocksAsync(sliced, blocks, { pollMs: 10 });
-      // a thread killed mid-run (as the runtime does when it runs out of memory)
-      await (pool as unknown as { workers: { worker: import('node:worker_threads').Worker }[] }).workers[0].worker.terminate();
-      await expect(run).rejects.toThrow(/slice thread stopped/);
+      // the threads are killed (as the runtime does when one runs out of memory) just as the run
+      // hands them its blocks: no block ever finishes, and the run fails instead of waiting forever
+      const threads = (pool as unknown as { workers: { worker: import('node:worker_threads').Worker }[] }).workers;
+      expect(threads).toHaveLength(2);
+      const killed = threads.map((w) => w.worker.terminate());
+      await expect(pool.runBlocksAsync(sliced, blocks, { pollMs: 10 })).rejects.toThrow(/slice thread stopped/);
+      await Promise.all(killed);
+      // dead threads are replaced at the next run
+      expect(Array.from(await pool.runBlocksAsync(sliced, blocks, { pollMs: 10 }))).toEqual(Array.from(sync));
     } finally {
       await pool.close();
     }
