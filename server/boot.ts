@@ -85,6 +85,7 @@ export async function boot(config: Config, opts: { dev?: boolean; quiet?: boolea
     worker = await startWorker(database.db, log, {
       recover: config.databaseUrl ? 10 * 60_000 : 'all',
       planner: { secondsBudget: config.referenceBudget.secondsPerTarget, coneQubitLimit: config.referenceBudget.coneQubitLimit },
+      slices: { threads: config.referenceThreads, jobsAbove: config.tnSliceJobs.above, jobsPerTerm: config.tnSliceJobs.perTerm },
       now: ctx.now,
     });
     ctx.jobs.kick = () => worker!.kick();

@@ -2,6 +2,7 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { availableParallelism } from 'node:os';
 import { DEFAULT_REFERENCE_BUDGET } from './planner-options';
 
 export interface ScryptCost { N: number; r: number; p: number }
@@ -49,6 +50,14 @@ export interface Config {
   referenceBudget: { secondsPerTarget: number; coneQubitLimit: number };
   /** run reference jobs in this process */
   runWorker: boolean;
+  /** worker threads that share the slices of one sliced tensor-network contraction (REFERENCE_THREADS) */
+  referenceThreads: number;
+  /**
+   * a target whose tensor-network plan has a term of at least `above` slices is computed as up to
+   * `perTerm` slice jobs per term that any worker process claims (TN_SLICE_JOBS_ABOVE, default 64 on
+   * PostgreSQL, off on PGlite; TN_SLICE_JOBS_PER_TERM, default 8)
+   */
+  tnSliceJobs: { above: number | null; perTerm: number };
 }
 
 export const ASVS_SCRYPT: ScryptCost = { N: 2 ** 15, r: 8, p: 3 };
@@ -93,6 +102,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
     referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? DEFAULT_REFERENCE_BUDGET.secondsPerTarget), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? DEFAULT_REFERENCE_BUDGET.coneQubitLimit) },
     runWorker: env.RUN_WORKER !== '0',
+    referenceThreads: Math.max(1, Math.floor(Number(env.REFERENCE_THREADS ?? Math.max(2, availableParallelism() - 1))) || 1),
+    tnSliceJobs: {
+      above: env.TN_SLICE_JOBS_ABOVE === '0' ? null : env.TN_SLICE_JOBS_ABOVE ? Number(env.TN_SLICE_JOBS_ABOVE) : env.DATABASE_URL ? 64 : null,
+      perTerm: Math.max(1, Number(env.TN_SLICE_JOBS_PER_TERM ?? 8) || 8),
+    },
   };
 }
 

@@ -294,6 +294,37 @@ export const jobs = pgTable('jobs', {
   finishedAt: ts('finished_at'),
 }, (t) => [index('jobs_state_idx').on(t.state, t.createdAt)]);
 
+/**
+ * A target whose tensor-network reference is computed as slice jobs (issue 15): the reference job
+ * that handed it out, its terms with their plans (server/jobs/tn-slices-job.ts encodes them), how
+ * many slice jobs make it, and what the reference will record. Written once per (job, target).
+ */
+export const tnSliceRuns = pgTable('tn_slice_runs', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  parentJobId: uuid('parent_job_id').notNull().references(() => jobs.id, { onDelete: 'cascade' }),
+  versionId: uuid('version_id').notNull().references(() => challengeVersions.id, { onDelete: 'cascade' }),
+  targetKey: text('target_key').notNull(),
+  terms: jsonb('terms').notNull(),
+  parts: integer('parts').notNull(),
+  /** method, size, detail, width, flops, slices, engine version of the reference to write */
+  template: jsonb('template').notNull(),
+  /** pending | combined */
+  state: text('state').notNull().default('pending'),
+  createdAt: created(),
+  combinedAt: ts('combined_at'),
+}, (t) => [uniqueIndex('tn_slice_runs_job_target').on(t.parentJobId, t.targetKey)]);
+
+/** The partial sums of one slice job: one [re, im] per slice block, in block order; one row per (run, term, slice range). */
+export const tnSliceParts = pgTable('tn_slice_parts', {
+  runId: uuid('run_id').notNull().references(() => tnSliceRuns.id, { onDelete: 'cascade' }),
+  term: integer('term').notNull(),
+  sliceStart: integer('slice_start').notNull(),
+  sliceEnd: integer('slice_end').notNull(),
+  partials: jsonb('partials').notNull(),
+  wallMs: doublePrecision('wall_ms').notNull(),
+  createdAt: created(),
+}, (t) => [uniqueIndex('tn_slice_parts_range').on(t.runId, t.term, t.sliceStart, t.sliceEnd)]);
+
 /** Cached standings per challenge version (recomputed off the request path). */
 export const standings = pgTable('standings', {
   id: uuid('id').primaryKey().defaultRandom(),

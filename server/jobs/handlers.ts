@@ -8,6 +8,7 @@ import { referencesJob } from './references-job';
 import { baselineJob } from './baseline-job';
 import { standingsJob } from './standings-job';
 import { revealJob } from './reveal-job';
+import { tnSlicesJob } from './tn-slices-job';
 import { demoEntriesJob } from '../db/demo-entries';
 
 export const JOB_HANDLERS: Record<JobKind, JobHandler> = {
@@ -16,4 +17,5 @@ export const JOB_HANDLERS: Record<JobKind, JobHandler> = {
   standings: standingsJob,
   reveal: revealJob,
   'demo-entries': demoEntriesJob,
+  'tn-slices': tnSlicesJob,
 };

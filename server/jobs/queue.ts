@@ -8,7 +8,7 @@ import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { Db, DbOrTx } from '../db/client';
 import { jobs } from '../db/schema';
 
-export type JobKind = 'references' | 'baseline' | 'standings' | 'demo-entries' | 'reveal';
+export type JobKind = 'references' | 'baseline' | 'standings' | 'demo-entries' | 'reveal' | 'tn-slices';
 export type JobRow = typeof jobs.$inferSelect;
 
 export async function enqueueJob(db: DbOrTx, kind: JobKind, payload: Record<string, unknown>, dedupeKey?: string): Promise<string> {
@@ -22,8 +22,8 @@ export async function enqueueJob(db: DbOrTx, kind: JobKind, payload: Record<stri
   return row.id;
 }
 
-/** Cheap, visible work first: standings, then references, then the house baseline, then demo data. */
-const PRIORITY = sql.raw(`case kind when 'standings' then 0 when 'references' then 1 when 'baseline' then 2 when 'reveal' then 0 else 3 end`);
+/** Cheap, visible work first: standings, then references (and their slice jobs), then the house baseline, then demo data. */
+const PRIORITY = sql.raw(`case kind when 'standings' then 0 when 'references' then 1 when 'tn-slices' then 1 when 'baseline' then 2 when 'reveal' then 0 else 3 end`);
 
 export async function claimJob(db: Db, workerId: string, kinds?: JobKind[]): Promise<JobRow | null> {
   const kindFilter = kinds?.length ? sql`and kind in (${sql.join(kinds.map((k) => sql`${k}`), sql`, `)})` : sql``;
@@ -51,7 +51,7 @@ export class PublicJobError extends Error {}
 
 const JOB_WHAT: Record<string, string> = {
   references: 'The exact-reference computation', baseline: 'The house baseline', standings: 'The standings computation',
-  'demo-entries': 'The demo data', reveal: 'The reveal of sealed references',
+  'demo-entries': 'The demo data', reveal: 'The reveal of sealed references', 'tn-slices': 'A part of a tensor-network reference computation',
 };
 
 /**

@@ -4,10 +4,12 @@
  * server/jobs/engine-upgrade.ts), in a compute thread; then queues the house baseline and the
  * standings.
  */
-import { eq, sql } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import type { Db } from '../db/client';
-import { challengeVersions, challenges, references, targets } from '../db/schema';
+import { challengeVersions, challenges, references, targets, tnSliceRuns } from '../db/schema';
+import { combineRun, distributeTarget } from './tn-slices-job';
+import { storeReference } from './store-reference';
 import { enqueueJob, PublicJobError } from './queue';
 import { challengeLink } from '../services/notify-followers';
 import type { Effect } from '../effects';
@@ -40,34 +42,36 @@ export const referencesJob: JobHandler = async (job, w) => {
   const all = await w.db.select({ id: targets.id, key: targets.key, refId: references.id, method: references.method, engineVersion: references.engineVersion }).from(targets)
     .leftJoin(references, eq(references.targetId, targets.id)).where(eq(targets.versionId, versionId));
   const idOf = new Map(all.map((t) => [t.key, t.id]));
-  const todo = all.filter((t) => !t.refId || isStale(t)).map((t) => t.key);
+  // targets this job already handed out as slice jobs (a resumed job): combined when all their parts are in
+  const runs = await w.db.select({ id: tnSliceRuns.id, targetKey: tnSliceRuns.targetKey }).from(tnSliceRuns).where(and(eq(tnSliceRuns.parentJobId, job.id), eq(tnSliceRuns.state, 'pending')));
+  for (const r of runs) await combineRun(w.db, r.id, w.now());
+  const handedOut = new Set(runs.map((r) => r.targetKey));
+  const todo = all.filter((t) => (!t.refId || isStale(t)) && !handedOut.has(t.key)).map((t) => t.key);
   const recomputed = all.filter((t) => t.refId && isStale(t)).length;
   const already = all.length - todo.length;
   let stored = 0;
   let exact = 0;
+  let sliceJobs = 0;
+  let handed = 0;
   await w.progress(already / Math.max(1, all.length), `${already} of ${all.length} targets done`);
   const planner = await plannerFor(w, v.challengeSlug);
-  await runCompute({ mode: 'references', spec: v.spec, targetIds: todo, planner }, async (m) => {
+  const slices = w.slices;
+  await runCompute({ mode: 'references', spec: v.spec, targetIds: todo, planner, sliceThreads: slices?.threads ?? 1, distributeAbove: slices?.jobsAbove ?? undefined }, async (m) => {
     if (m.type === 'progress') await w.progress((already + m.done) / Math.max(1, all.length), m.note);
+    if (m.type === 'distribute') {
+      handed++;
+      sliceJobs += await distributeTarget(w.db, { parentJobId: job.id, versionId, message: m, jobsPerTerm: slices?.jobsPerTerm ?? 8 });
+      return;
+    }
     if (m.type !== 'reference') return;
     const r = m.result;
-    const targetId = idOf.get(m.targetId)!;
-    const row = r.value === null
-      ? { value: null, method: 'none', reason: r.reason, engineVersion: r.engineVersion, size: {}, wallMs: null }
-      // size: the method's own measure, plus the tensor network's width, flops and slices and the
-      // cross-check by a second exact method where one ran (shown with the reference)
-      : { value: r.value, method: r.method, size: { [r.unit]: r.size, detail: r.detail, ...(r.width !== undefined ? { width: r.width, flops: r.flops, slices: r.slices } : {}), ...(r.crossCheck ? { crossCheck: r.crossCheck } : {}) }, wallMs: r.wallMs, engineVersion: r.engineVersion, reason: null };
-    // a stale reference is replaced in place (its seal, if any, stays); a supplied one is never touched
-    await w.db.insert(references).values({ targetId, ...row, createdAt: w.now() }).onConflictDoUpdate({
-      target: references.targetId, set: { ...row, uncertainty: 0, createdAt: w.now() },
-      setWhere: sql`${references.method} <> 'supplied' and ${references.engineVersion} is distinct from ${ENGINE_VERSION}`,
-    });
+    await storeReference(w.db, idOf.get(m.targetId)!, r, w.now());
     stored++;
     if (r.value !== null) exact++;
   });
   await enqueueJob(w.db, 'baseline', { versionId }, `baseline:${versionId}`);
   await enqueueJob(w.db, 'standings', { versionId }, `standings:${versionId}`);
   const effects: Effect[] = exact ? [{ kind: 'notify-followers', slug: v.challengeSlug, event: 'references.computed', subject: `Parallax: exact references computed for ${v.challengeSlug}`,
-    lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${todo.length - exact} target(s) have none and are scored against the consensus.`, '', ['The challenge: ', challengeLink(v.challengeSlug)]] }] : [];
-  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION, effects };
+    lines: [`${exact} exact reference value(s) of ${v.challengeSlug} version ${v.version} were computed (engine ${ENGINE_VERSION}); ${todo.length - exact - handed} target(s) have none and are scored against the consensus.`, '', ['The challenge: ', challengeLink(v.challengeSlug)]] }] : [];
+  return { targets: all.length, computed: stored, recomputed, exact, engine: ENGINE_VERSION, ...(sliceJobs ? { sliceJobs, bySliceJobs: handed } : {}), effects };
 };

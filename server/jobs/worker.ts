@@ -8,10 +8,10 @@ import type { Db } from '../db/client';
 import type { Logger } from '../log';
 import { claimJob, failJob, finishJob, newWorkerId, reportProgress, requeueStale, type JobKind } from './queue';
 import { JOB_HANDLERS } from './handlers';
-import type { JobHandler, PlannerBudget } from './types';
+import type { JobHandler, PlannerBudget, SliceSettings } from './types';
 import { applierFor } from '../effects';
 
-export type { JobHandler, PlannerBudget, WorkerContext } from './types';
+export type { JobHandler, PlannerBudget, SliceSettings, WorkerContext } from './types';
 
 export interface Worker { stop(): Promise<void>; kick(): void; idle(): Promise<void> }
 
@@ -20,6 +20,8 @@ export interface WorkerOptions {
   kinds?: JobKind[];
   recover?: 'all' | number;
   planner?: PlannerBudget;
+  /** threads and slice jobs for sliced tensor-network contractions (default: REFERENCE_THREADS' default, no slice jobs) */
+  slices?: SliceSettings;
   /** the injected clock handed to the handlers (server/boot.ts passes the app's ctx.now); the process clock by default */
   now?: () => Date;
   /** extra handlers for kinds of the tests' own (tests/server/jobs.test.ts, workers.test.ts); the real ones are JOB_HANDLERS */
@@ -44,7 +46,7 @@ export async function startWorker(db: Db, log: Logger, opts: WorkerOptions = {})
     const t0 = performance.now();
     try {
       if (!h) throw new Error(`no handler for job kind ${job.kind}`);
-      const { effects, ...result } = await h(job, { db, log, planner: opts.planner, now, progress: (p, note) => reportProgress(db, job.id, p, note) });
+      const { effects, ...result } = await h(job, { db, log, planner: opts.planner, slices: opts.slices, now, progress: (p, note) => reportProgress(db, job.id, p, note) });
       await finishJob(db, job.id, result, now());
       log.info('job.done', { id: job.id, kind: job.kind, ms: Math.round(performance.now() - t0) });
       // the job's writes are committed: its effects, once, through the app's applier (server/effects.ts)

@@ -127,8 +127,8 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
       }
       const js = vIds.length ? await db.select().from(jobs).where(and(eq(jobs.kind, 'references'), eq(jobs.state, 'done'), sql`${jobs.payload}->>'versionId' in (${sql.join(vIds.map((x) => sql`${x}`), sql`, `)})`)) : [];
       for (const j of js) {
-        const r = j.result as { targets?: number; exact?: number; engine?: string } | null;
-        events.push({ at: (j.finishedAt ?? j.createdAt).toISOString(), kind: 'references', version: vOf.get((j.payload as { versionId: string }).versionId), summary: `Exact references computed: ${r?.exact ?? '?'} of ${r?.targets ?? '?'} targets (${r?.engine ?? ''})` });
+        const r = j.result as { targets?: number; exact?: number; engine?: string; bySliceJobs?: number } | null;
+        events.push({ at: (j.finishedAt ?? j.createdAt).toISOString(), kind: 'references', version: vOf.get((j.payload as { versionId: string }).versionId), summary: `Exact references computed: ${r?.exact ?? '?'} of ${r?.targets ?? '?'} targets${r?.bySliceJobs ? `, ${r.bySliceJobs} more handed to tensor-network slice jobs` : ''} (${r?.engine ?? ''})` });
       }
       const st = vIds.length ? await db.select({ id: standings.id, versionId: standings.versionId, at: standings.computedAt, engine: standings.engineVersion, rules: standings.scoringRulesVersion }).from(standings).where(inArray(standings.versionId, vIds)).orderBy(desc(standings.computedAt)).limit(200) : [];
       st.forEach((s, i) => {

@@ -13,7 +13,7 @@ import { lightConeStatevectorValue } from './light-cone-statevector';
 import { propagate } from './pauli-propagation';
 import { freeFermionSites, METHOD_NAMES, Planner, tnOptions, ATTEMPT_SHARE, type ExactMethod, type MethodEstimate, type PlannerOptions, type TargetPlan } from './planner';
 import { statevectorExpectation } from './statevector';
-import { contractPlan, planTerm } from './tensor-network/index';
+import { contractPlan, planTerm, type TnTermPlan } from './tensor-network/index';
 
 /** 0.2.0: the tensor-network rung, cross-checks recorded with references, recalibrated planner. */
 export const ENGINE_VERSION = 'parallax-engine 0.2.0';
@@ -74,6 +74,18 @@ export type ReferenceResult = ReferenceValue | ReferenceMissing;
 export interface ReferenceOptions extends PlannerOptions {
   /** progress of the running method, 0..1 */
   onProgress?: (fraction: number) => void;
+  /**
+   * How the tensor network contracts one term's plan (default contractPlan, in this thread): the
+   * server spreads a sliced plan's blocks over worker threads (server/jobs/slice-threads.ts). It
+   * must call onStep often (the time cap throws from it).
+   */
+  contractTerm?: (plan: TnTermPlan, at: { term: number; terms: number; onStep: () => void }) => [number, number];
+}
+
+/** One term of an observable with its tensor-network plan (null for the identity). */
+export interface TnTerm {
+  coef: number;
+  plan: TnTermPlan | null;
 }
 
 const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -275,10 +287,9 @@ export class ReferenceRunner {
             value += term.coef;
             return;
           }
-          const one = this.planner.restrict(inst, { id: `${obs.id}#${k}`, terms: [{ coef: 1, factors: term.factors }] });
-          const plan = planTerm(one.circuit, one.observable.terms[0].factors, tnOptions(this.planner.options));
+          const plan = this.tnPlan(inst, obs, k);
           check();
-          const [re] = contractPlan(plan, { onStep: check });
+          const [re] = this.options.contractTerm ? this.options.contractTerm(plan, { term: k, terms: obs.terms.length, onStep: check }) : contractPlan(plan, { onStep: check });
           value += term.coef * re;
           stats.width = Math.max(stats.width, plan.width);
           stats.flops += plan.flops;
@@ -289,6 +300,25 @@ export class ReferenceRunner {
         return { ok: true, value, size: stats.width, stats, perTerm: obs.terms.length > 1 };
       }
     }
+  }
+
+  /** The tensor-network plan of term k of an observable on its own light cone (the planner's search options). */
+  tnPlan(inst: Instance, obs: ObservableSpec, k: number): TnTermPlan {
+    const one = this.planner.restrict(inst, { id: `${obs.id}#${k}`, terms: [{ coef: 1, factors: obs.terms[k].factors }] });
+    return planTerm(one.circuit, one.observable.terms[0].factors, tnOptions(this.planner.options));
+  }
+
+  /** Every term of a target's observable with its tensor-network plan, as the tensor-network method runs them. */
+  tnTerms(target: Target): TnTerm[] {
+    const inst = this.planner.instance(target.instanceId);
+    const obs = this.planner.observable(target.observableId);
+    return obs.terms.map((t, k) => ({ coef: t.coef, plan: t.factors.length ? this.tnPlan(inst, obs, k) : null }));
+  }
+
+  /** The provenance sentence of a tensor-network value computed elsewhere (as slice jobs), from its terms' plans. */
+  tnDetail(target: Target, plan: TargetPlan, terms: TnTerm[]): string {
+    const stats = tnStats(terms);
+    return this.detail('tensor-network', { size: stats.width, stats, perTerm: terms.length > 1 }, plan, this.planner.observable(target.observableId));
   }
 
   private detail(method: ExactMethod, r: { size: number; perTerm?: boolean; stats?: RunStats }, plan: TargetPlan, obs: ObservableSpec, cc?: CrossCheck): string {
@@ -322,6 +352,18 @@ export class ReferenceRunner {
     }
     return c;
   }
+}
+
+/** Width (widest term), flops (all terms) and slices (most of one term) of a tensor-network run. */
+export function tnStats(terms: readonly TnTerm[]): { width: number; flops: number; slices: number } {
+  const s = { width: 0, flops: 0, slices: 1 };
+  for (const t of terms) {
+    if (!t.plan) continue;
+    s.width = Math.max(s.width, t.plan.width);
+    s.flops += t.plan.flops;
+    s.slices = Math.max(s.slices, t.plan.slices);
+  }
+  return s;
 }
 
 /** One-shot helper: plan and compute a single target. */

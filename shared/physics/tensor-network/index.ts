@@ -142,16 +142,55 @@ export function contractSlice(plan: TnTermPlan, i: number, opts: ContractOptions
   return [sr * r - si * m, sr * m + si * r];
 }
 
-/** Contract every slice of a plan and sum. */
-export function contractPlan(plan: TnTermPlan, opts: ContractOptions = {}): [number, number] {
-  if (plan.leaves.length === 0) return [plan.scalar[0], plan.scalar[1]];
+/** Slices are summed in at most this many fixed blocks of consecutive slices (sliceBlocks). */
+export const SLICE_BLOCKS = 64;
+
+/**
+ * The fixed blocks [start, end) in which the slices of a plan are summed: the partial sum of each
+ * block runs in slice order, and the total adds the block partials in block order. The blocks
+ * depend on the slice count only, never on how many threads or jobs compute them, so a plan's value
+ * is the same number (bit for bit) however its blocks are spread.
+ */
+export function sliceBlocks(slices: number): [number, number][] {
+  const size = Math.max(1, Math.ceil(slices / SLICE_BLOCKS));
+  const out: [number, number][] = [];
+  for (let s = 0; s < slices; s += size) out.push([s, Math.min(slices, s + size)]);
+  return out;
+}
+
+/** Contract slices start..end-1 of a plan and sum them in slice order. */
+export function contractSliceRange(plan: TnTermPlan, start: number, end: number, opts: ContractOptions = {}): [number, number] {
+  if (plan.leaves.length === 0) return start === 0 && end > 0 ? [plan.scalar[0], plan.scalar[1]] : [0, 0];
   let re = 0, im = 0;
-  for (let i = 0; i < plan.slices; i++) {
+  for (let i = start; i < end; i++) {
     const [a, b] = contractSlice(plan, i, opts);
     re += a;
     im += b;
   }
   return [re, im];
+}
+
+/** Adds block partials ([re0, im0, re1, im1, ...], in block order) into the value. */
+export function sumBlocks(partials: ArrayLike<number>): [number, number] {
+  let re = 0, im = 0;
+  for (let b = 0; b + 1 < partials.length; b += 2) {
+    re += partials[b];
+    im += partials[b + 1];
+  }
+  return [re, im];
+}
+
+/** Contract every slice of a plan and sum, block by block (sliceBlocks). */
+export function contractPlan(plan: TnTermPlan, opts: ContractOptions = {}): [number, number] {
+  if (plan.leaves.length === 0) return [plan.scalar[0], plan.scalar[1]];
+  const blocks = sliceBlocks(plan.slices);
+  const partials = new Float64Array(2 * blocks.length);
+  blocks.forEach(([s, e], b) => {
+    const [re, im] = contractSliceRange(plan, s, e, opts);
+    partials[2 * b] = re;
+    partials[2 * b + 1] = im;
+  });
+  return sumBlocks(partials);
 }
 
 /** What a contraction cost: width (log2 of the largest intermediate), flops, slices, memory, cone and time. */

@@ -278,7 +278,7 @@ function VersionsPanel({ c }: { c: ChallengeDetail }) {
   );
 }
 
-const JOB_LABEL: Record<string, string> = { references: 'Exact references', 'demo-entries': 'Demo entries', standings: 'Standings', baseline: 'House baseline' };
+const JOB_LABEL: Record<string, string> = { references: 'Exact references', 'demo-entries': 'Demo entries', standings: 'Standings', baseline: 'House baseline', 'tn-slices': 'Exact reference (tensor-network slice job)' };
 
 function JobsPanel({ c }: { c: ChallengeDetail }) {
   if (!c.jobs.length) return null;
