@@ -12,6 +12,7 @@ import { runCompute } from '../jobs/run-compute';
 import type { JobHandler } from '../jobs/types';
 import { enqueueJob } from '../jobs/queue';
 import { recordAudit } from '../services/record-audit';
+import type { MethodFamily, Track } from '@shared/vocabulary';
 
 /**
  * Truncated propagation settings for the stand-in values where no exact reference exists (tighter
@@ -81,7 +82,7 @@ function neuralState(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[
   });
 }
 
-interface DemoEntry { team: string; state: 'published' | 'in-review'; track: 'hardware' | 'classical'; family: string; label: string; document: Record<string, unknown>; estimates: Est[] }
+interface DemoEntry { team: string; state: 'published' | 'in-review'; track: Track; family: MethodFamily; label: string; document: Record<string, unknown>; estimates: Est[] }
 
 async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry, at: Date) {
   const [team] = await db.select({ id: organization.id }).from(organization).where(eq(organization.slug, e.team));

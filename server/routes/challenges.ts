@@ -28,6 +28,7 @@ import { computeForVersion } from '../services/version-cache';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
 import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';
+import type { Track } from '@shared/vocabulary';
 
 /** a moment as the short reasons say it, in UTC: "2026-12-24 00:00 UTC" (seconds only when there are any) */
 const utcText = (d: Date) => {
@@ -56,7 +57,7 @@ const reasonText = (r: GateReason): string => {
  */
 export function submissionsStatus(c: ChallengeGate, now: Date) {
   const g = entryGateStatus(c, now);
-  const track = (t: 'hardware' | 'classical') => ({
+  const track = (t: Track) => ({
     acceptsEntriesNow: g.tracks[t].acceptsEntries, acceptsDraftsNow: g.tracks[t].acceptsDrafts,
     reason: g.tracks[t].reasons.map(reasonText).join('; ') || null,
   });

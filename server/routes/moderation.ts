@@ -25,6 +25,7 @@ import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
 import { notifyFollowers } from '../services/notify-followers';
+import { TRACKS } from '@shared/vocabulary';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
@@ -38,7 +39,7 @@ const isoDate = z.string().datetime({ offset: true, message: 'an ISO 8601 date a
 const settingsBody = z.object({
   estimator: z.enum(CONSENSUS_ESTIMATORS as unknown as [string, ...string[]]).optional(),
   primaryMetric: z.enum(PRIMARY_METRICS as unknown as [string, ...string[]]).optional(),
-  tracks: z.array(z.enum(['hardware', 'classical'])).min(1, 'at least one track').max(2).refine((t) => new Set(t).size === t.length, 'each track once').optional(),
+  tracks: z.array(z.enum(TRACKS)).min(1, 'at least one track').max(2).refine((t) => new Set(t).size === t.length, 'each track once').optional(),
   submissionWindow: z.object({ opensAt: isoDate.nullable().optional(), closesAt: isoDate.nullable().optional() }).strict()
     .refine((w) => !w.opensAt || !w.closesAt || Date.parse(w.opensAt) < Date.parse(w.closesAt), { message: 'closesAt must be after opensAt', path: ['closesAt'] }).nullable().optional(),
   license: z.string().trim().min(1).max(200).optional(),

@@ -13,8 +13,9 @@ import { loadChallengeVersion } from '../queries/challenge-version';
 import { isEstimateWithheld, PUBLIC_VIEWER, seesSealedValues, viewerOf, visibleReferences, type Viewer } from '../queries/visibility';
 import type { RouteTable } from './registry';
 import { standingsCache } from '../services/standings-cache';
+import { TRACK_VIEWS } from '@shared/vocabulary';
 
-const TRACKS = ['all', 'hardware', 'classical'] as const;
+const TRACKS = TRACK_VIEWS;
 
 function parseQuery(req: Request, settings: { primaryMetric?: string }, viewer: Viewer) {
   // names of the previous rules (rmse-verifiable, ...) still work: they rank by the proper score of their scope

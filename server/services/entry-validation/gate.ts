@@ -8,6 +8,7 @@ import type { DbOrTx } from '../../db/client';
 import { challenges } from '../../db/schema';
 import { AppError, notFound, type FieldProblem } from '../../errors';
 import { MAX_PROBLEMS } from './types';
+import { TRACKS } from '@shared/vocabulary';
 
 const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
 
@@ -41,7 +42,7 @@ const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typ
  * enforcement (gateProblems) and the public status (entryGateStatus) both apply them. The clock is
  * always the request's (ctx.now()), never the process's.
  */
-export const TRACKS = ['hardware', 'classical'] as const;
+export { TRACKS };
 export type GateAction = 'create' | 'submit' | 'revise';
 /** A challenge as its settings see it. */
 export interface ChallengeGate { slug: string; state: string; settings: unknown }
