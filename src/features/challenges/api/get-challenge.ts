@@ -1,12 +1,13 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
 export interface ChallengeVersionInfo { version: number; checksum: string; state: string; publishedAt: string | null; supersededReason: string | null }
 export interface ChallengeJob { id: string; kind: string; state: 'queued' | 'running' | 'done' | 'failed' | string; progress: number | null; note: string | null; error: string | null; createdAt: string; finishedAt: string | null }
 export interface ChallengeInstance { key: string; params: { family?: string; steps?: number; thetaH?: number; thetaJ?: number } & Record<string, unknown>; qubits: number; gateCount: number; depth: number }
 export interface ObservableSpec { id?: string; terms?: { coef: number; pauli: string }[]; pauli?: string; label?: string; description?: string }
 export interface ChallengeObservable { key: string; spec: ObservableSpec; bound: number | null }
-export type TrackKey = 'hardware' | 'classical';
+export type TrackKey = Track;
 /**
  * Whether the challenge takes entries now, on the server's clock (asOf): the same answer as the
  * enforcement. acceptsEntriesNow: a submission would be taken now; acceptsDraftsNow: a new draft
