@@ -14,6 +14,7 @@ import { isEstimateWithheld, PUBLIC_VIEWER, seesSealedValues, viewerOf, visibleR
 import type { RouteTable } from './registry';
 import { standingsCache } from '../services/standings-cache';
 import { TRACK_VIEWS } from '@shared/vocabulary';
+import type { StandingsResponse } from '@shared/api-types';
 
 const TRACKS = TRACK_VIEWS;
 
@@ -70,7 +71,7 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
         estimator: payload?.estimator ?? null, metric: q.metric, metrics: PRIMARY_METRICS, track: q.track, view: q.view, asOf: q.asOf ?? null,
         counts: result?.counts ?? null,
         entries: ranked,
-      });
+      } satisfies StandingsResponse);
       const etag = `"${createHash('sha1').update(body).digest('base64url')}"`;
       if (!q.asOf) standingsCache.set(rawKey, body, etag, v.id);
       send(req, res, body, etag);
