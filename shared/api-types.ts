@@ -14,8 +14,7 @@ export type { ChallengeSpec, ObservableJson, Track, TrackView, UncertaintyKind }
 /** T as JSON.stringify writes it and the client parses it back. */
 export type Wire<T> =
   T extends Date ? string
-  : T extends (infer U)[] ? Wire<U>[]
-  : T extends readonly (infer U)[] ? readonly Wire<U>[]
+  // a mapped type keeps arrays, tuples and readonly as they are
   : T extends object ? { [K in keyof T]: Wire<T[K]> }
   : T;
 
@@ -28,13 +27,20 @@ export type EntryEstimate = EntryEstimateJson;
 
 // ------------------------------------------------------------------ references
 
+/** What mattered for a reference's cost, as the engine recorded it (shared/physics/reference.ts). */
+export interface ReferenceSize {
+  sites?: number; qubits?: number; terms?: number; width?: number; flops?: number; slices?: number;
+  detail?: string;
+  crossCheck?: { method: string; value: number; absDiff: number; wallMs: number };
+  [k: string]: unknown;
+}
 /** A target's exact reference as a caller sees it (server/presenters/reference.ts): sealed values withheld until their date. */
 export type ReferenceView =
   | { status: 'pending' }
   | { status: 'sealed'; sealedUntil: Date | null }
   | { status: 'none'; reason: string | null; engineVersion: string | null }
   | {
-    status: 'exact'; value: number; uncertainty: number; method: string; size: unknown; wallMs: number | null; engineVersion: string | null; createdAt: Date;
+    status: 'exact'; value: number; uncertainty: number; method: string; size: ReferenceSize; wallMs: number | null; engineVersion: string | null; createdAt: Date;
     /** set for a caller who may see a sealed value: the date until which the public does not */
     sealedUntil?: Date | null;
   };
