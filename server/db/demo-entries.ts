@@ -11,6 +11,7 @@ import { runCompute } from '../jobs/run-compute';
 import type { JobHandler } from '../jobs/types';
 import { createSystemEntry } from '../services/create-system-entry';
 import type { Effect } from '../effects';
+import type { MethodFamily, Track } from '@shared/vocabulary';
 
 /**
  * Truncated propagation settings for the stand-in values where no exact reference exists (tighter
@@ -80,7 +81,7 @@ function neuralState(ts: Awaited<ReturnType<typeof truths>>, seed: number): Est[
   });
 }
 
-interface DemoEntry { team: string; state: 'published' | 'in-review'; track: 'hardware' | 'classical'; family: string; label: string; document: Record<string, unknown>; estimates: Est[] }
+interface DemoEntry { team: string; state: 'published' | 'in-review'; track: Track; family: MethodFamily; label: string; document: Record<string, unknown>; estimates: Est[] }
 
 /** Stored through the service that owns system entries (entry, estimates, audit line, standings job). */
 async function insertEntry(db: Db, slug: string, versionId: string, e: DemoEntry, at: Date): Promise<Effect[]> {

@@ -7,6 +7,7 @@ import { sql } from 'drizzle-orm';
 import {
   bigserial, boolean, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex, uuid,
 } from 'drizzle-orm/pg-core';
+import type { Track } from '@shared/vocabulary';
 
 const ts = (name: string) => timestamp(name, { withTimezone: true, mode: 'date' });
 const created = () => ts('created_at').notNull().defaultNow();
@@ -207,7 +208,7 @@ export const entries = pgTable('entries', {
   /** draft | in-review | published | returned | rejected | withdrawn | superseded */
   state: text('state').notNull().default('draft'),
   /** hardware | classical */
-  track: text('track').notNull(),
+  track: text('track').$type<Track>().notNull(),
   methodFamily: text('method_family').notNull(),
   label: text('label').notNull(),
   /** the submitted document's metadata (settings, resources, links, licence) */

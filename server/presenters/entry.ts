@@ -14,6 +14,7 @@ import { effectiveUncertainty } from '@shared/scoring/standings';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import { entryListContext, isPublicEntry, type EntryListContext, type EntryRow } from '../queries/entries';
 import { isEstimateWithheld, PUBLIC_VIEWER, visibleReferences, type VisibleReferences, type Viewer } from '../queries/visibility';
+import type { EntryPage, EntrySummary, EstimateScore } from '@shared/api-types';
 
 export { isPublicEntry, type EntryRow };
 
@@ -25,7 +26,7 @@ const PUBLIC_REASON_ACTIONS = new Set(['entry.publish', 'entry.withdraw', 'entry
  * covered by +/- 2u), and the degree of equivalence with the consensus (d, U with k = 2; u^2(d) =
  * u^2 + tau^2 -/+ u^2(y) for an entry inside/outside the consensus) from the latest public standings.
  */
-export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[], refs: VisibleReferences) {
+export async function estimateScores(db: Db, e: EntryRow, ests: EntryEstimate[], refs: VisibleReferences): Promise<EstimateScore[]> {
   const st = await latestStandings(db, e.versionId);
   const cons = new Map(((st?.payload as StandingsPayload | undefined)?.public.targets ?? []).map((t) => [t.key, t]));
   const inStandings = e.state === 'published' && e.hiddenReason === null;
@@ -59,7 +60,7 @@ export async function entryDocument(db: Db, e: EntryRow, sealed: ReadonlySet<str
 }
 
 /** The fields every view of an entry shares (pages and lists), from a batch context (queries/entries.ts). */
-export function entrySummary(e: EntryRow, c: EntryListContext) {
+export function entrySummary(e: EntryRow, c: EntryListContext): EntrySummary {
   const v = c.version.get(e.versionId);
   const n = c.stats.get(e.id)?.estimates ?? 0;
   const total = v?.targets ?? 0;
@@ -78,7 +79,7 @@ export function entrySummary(e: EntryRow, c: EntryListContext) {
 }
 
 /** opts.now: the app's clock; opts.viewer: whether sealed values are visible is decided for this caller (queries/visibility.ts) */
-export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean; now: Date; viewer?: Viewer }) {
+export async function presentEntry(db: Db, e: EntryRow, opts: { document?: boolean; privileged?: boolean; now: Date; viewer?: Viewer }): Promise<EntryPage> {
   const viewer = opts.viewer ?? PUBLIC_VIEWER;
   const ctx = await entryListContext(db, [e]);
   const lineage = e.lineageId

@@ -28,6 +28,8 @@ import { computeForVersion } from '../services/version-cache';
 import { documentBody } from '../util/document-body';
 import { parseStrictJson } from '../util/strict-json';
 import { entryGateStatus, type ChallengeGate, type GateReason } from '../services/validate-entry';
+import { TRACKS, type Track } from '@shared/vocabulary';
+import type { ChallengeDetail, ChallengeSettings, InstanceParams, ObservableJson, SubmissionsStatus } from '@shared/api-types';
 
 /** a moment as the short reasons say it, in UTC: "2026-12-24 00:00 UTC" (seconds only when there are any) */
 const utcText = (d: Date) => {
@@ -54,9 +56,9 @@ const reasonText = (r: GateReason): string => {
  * Drafts already stored stay editable and returned entries can be resubmitted whatever this says
  * (see the settings section there).
  */
-export function submissionsStatus(c: ChallengeGate, now: Date) {
+export function submissionsStatus(c: ChallengeGate, now: Date): SubmissionsStatus {
   const g = entryGateStatus(c, now);
-  const track = (t: 'hardware' | 'classical') => ({
+  const track = (t: Track) => ({
     acceptsEntriesNow: g.tracks[t].acceptsEntries, acceptsDraftsNow: g.tracks[t].acceptsDrafts,
     reason: g.tracks[t].reasons.map(reasonText).join('; ') || null,
   });
@@ -68,7 +70,7 @@ export function submissionsStatus(c: ChallengeGate, now: Date) {
     reason: g.acceptsEntries ? null : shared.length ? shared.map(reasonText).join('; ') : 'no track open',
     openTracks: g.openTracks,
     window: { opensAt: g.window.opensAt?.toISOString() ?? null, closesAt: g.window.closesAt?.toISOString() ?? null },
-    tracks: { hardware: track('hardware'), classical: track('classical') },
+    tracks: Object.fromEntries(TRACKS.map((t) => [t, track(t)])) as SubmissionsStatus['tracks'],
     asOf: now.toISOString(),
   };
 }
@@ -149,16 +151,16 @@ export function registerChallengeRoutes(routes: RouteTable, ctx: AppContext): vo
       const js = await db.select({ id: jobs.id, kind: jobs.kind, state: jobs.state, progress: jobs.progress, note: jobs.progressNote, error: jobs.error, createdAt: jobs.createdAt, finishedAt: jobs.finishedAt })
         .from(jobs).where(sql`${jobs.payload}->>'versionId' = ${v.id}`).orderBy(desc(jobs.createdAt)).limit(20);
       return {
-        slug: c.slug, title: spec.title, description: spec.description, state: c.state, settings: c.settings,
+        slug: c.slug, title: spec.title, description: spec.description, state: c.state, settings: c.settings as ChallengeSettings,
         submissions: submissionsStatus(c, ctx.now()),
         version: { id: v.id, version: v.version, checksum: v.checksum, state: v.state, publishedAt: v.publishedAt, supersededReason: v.supersededReason },
         versions: versions.map((x) => ({ version: x.version, checksum: x.checksum, state: x.state, publishedAt: x.publishedAt, supersededReason: x.supersededReason })),
         spec,
         lattice: { kind: spec.lattice.kind, qubits: graph.n, edges: graph.edges, coords: graph.coords },
-        instances: inst.map((i) => ({ key: i.key, params: i.params, qubits: i.qubits, gateCount: i.gateCount, depth: i.depth })),
-        observables: obs.map((o) => ({ key: o.key, spec: o.spec, bound: o.bound })),
+        instances: inst.map((i) => ({ key: i.key, params: i.params as InstanceParams, qubits: i.qubits, gateCount: i.gateCount, depth: i.depth })),
+        observables: obs.map((o) => ({ key: o.key, spec: o.spec as ObservableJson, bound: o.bound })),
         jobs: js,
-      };
+      } satisfies ChallengeDetail;
     },
   });
 

@@ -35,6 +35,7 @@ import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
 import { teamTrack as teamTrackOf } from '../util/team-meta';
 import { reply } from '../effects';
+import type { Track } from '@shared/vocabulary';
 
 /** A draft with problems is stored only up to this size (its parse runs on the event loop: ~1 MiB is a few ms). */
 export const INCOMPLETE_DRAFT_MAX_BYTES = 1024 * 1024;
@@ -85,7 +86,7 @@ export function registerEntryRoutes(routes: RouteTable, ctx: AppContext): void {
   const { loadEntry, entryTeam, privileged } = entryAccess(db);
 
   /** the team's kind (hardware or classical) from its metadata; classical when unstated */
-  const teamTrack = async (teamId: string): Promise<string> => {
+  const teamTrack = async (teamId: string): Promise<Track> => {
     const [o] = await db.select({ metadata: organization.metadata }).from(organization).where(eq(organization.id, teamId));
     return teamTrackOf(o?.metadata ?? null);
   };

@@ -25,6 +25,8 @@ import { loadChallengeVersion } from '../queries/challenge-version';
 import type { RouteTable } from './registry';
 import { entryAccess } from '../queries/entry-access';
 import { reply } from '../effects';
+import { ENTRY_FORMAT_LIMITS, TRACKS } from '@shared/vocabulary';
+import { LIMITS as CHALLENGE_LIMITS } from '@shared/physics/challenge';
 
 const reason = z.string().trim().min(1, 'give a reason: the team reads it in the e-mail').max(2000, 'at most 2000 characters');
 const decisionBody = z.object({ decision: z.enum(DECISIONS as [Decision, ...Decision[]], { message: 'decision is one of "publish", "return", "reject"' }), reason }).strict();
@@ -38,7 +40,7 @@ const isoDate = z.string().datetime({ offset: true, message: 'an ISO 8601 date a
 const settingsBody = z.object({
   estimator: z.enum(CONSENSUS_ESTIMATORS as unknown as [string, ...string[]]).optional(),
   primaryMetric: z.enum(PRIMARY_METRICS as unknown as [string, ...string[]]).optional(),
-  tracks: z.array(z.enum(['hardware', 'classical'])).min(1, 'at least one track').max(2).refine((t) => new Set(t).size === t.length, 'each track once').optional(),
+  tracks: z.array(z.enum(TRACKS)).min(1, 'at least one track').max(2).refine((t) => new Set(t).size === t.length, 'each track once').optional(),
   submissionWindow: z.object({ opensAt: isoDate.nullable().optional(), closesAt: isoDate.nullable().optional() }).strict()
     .refine((w) => !w.opensAt || !w.closesAt || Date.parse(w.opensAt) < Date.parse(w.closesAt), { message: 'closesAt must be after opensAt', path: ['closesAt'] }).nullable().optional(),
   license: z.string().trim().min(1).max(200).optional(),
@@ -46,7 +48,7 @@ const settingsBody = z.object({
   reason: z.string().trim().max(2000).optional(),
 }).strict().refine((b) => Object.keys(b).some((k) => k !== 'reason'), { message: 'send at least one setting' });
 const sealBody = z.object({
-  targets: z.union([z.literal('all'), z.array(z.string().min(1).max(200)).min(1).max(100_000)]),
+  targets: z.union([z.literal('all'), z.array(z.string().min(1).max(ENTRY_FORMAT_LIMITS.targetKey)).min(1).max(CHALLENGE_LIMITS.maxTargets)]),
   until: isoDate,
 }).strict();
 const commitmentBody = z.object({ sha256: z.string().regex(/^[0-9a-fA-F]{64}$/, 'a SHA-256 as 64 hexadecimal characters') }).strict();

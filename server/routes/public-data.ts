@@ -14,6 +14,7 @@ import { presentReference } from '../presenters/reference';
 import { latestStandings, type StandingsPayload } from '../services/recompute-standings';
 import { ENGINE_CHANGE } from '../jobs/engine-upgrade';
 import type { RouteTable } from './registry';
+import type { InstanceParams, ObservableJson, TargetDetail } from '@shared/api-types';
 
 export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): void {
   const { db } = ctx;
@@ -91,7 +92,7 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         if (!r) return [];
         const raw = (r.raw ?? null) as { unmitigated?: number; noiseScaled?: { scale: number; value: number; uncertainty: number }[] } | null;
         const points = Array.isArray(raw?.noiseScaled) ? raw.noiseScaled.filter((p) => Number.isFinite(p.scale) && Number.isFinite(p.value) && Number.isFinite(p.uncertainty)) : [];
-        const zne = points.length ? { points, unmitigated: raw?.unmitigated ?? null, fits: zneSummary(points).models.map((m) => ({ model: m.model, ok: m.ok, value: m.ok ? m.value : null, uncertainty: m.ok ? m.uncertainty : null, reason: m.reason ?? null, chi2: Number.isFinite(m.chi2) ? m.chi2 : null, nu: m.nu ?? null })) } : null;
+        const zne = points.length ? { points, unmitigated: raw?.unmitigated ?? null, fits: zneSummary(points).models.map((m) => ({ model: m.model, ok: m.ok, value: m.ok ? m.value : null, uncertainty: m.ok ? m.uncertainty : null, reason: m.reason ?? null, chi2: m.chi2 !== undefined && Number.isFinite(m.chi2) ? m.chi2 : null, nu: m.nu ?? null })) } : null;
         // the house baseline states a truncation bound (capped at the observable's bound), not a standard
         // uncertainty: it gets no degree of equivalence and is never in the consensus (scoring rules)
         const uncertainty = e.isBaseline ? Math.min(r.uncertainty, t.bound) : r.uncertainty;
@@ -103,13 +104,13 @@ export function registerPublicDataRoutes(routes: RouteTable, ctx: AppContext): v
         .where(and(eq(targets.versionId, v.id), eq(observables.key, t.observable)));
       return {
         version: v.version, checksum: v.checksum, engineVersion: ENGINE_VERSION,
-        key: t.key, instance: t.instance, params: t.params, observable: { key: t.observable, spec: t.spec, bound: t.bound },
+        key: t.key, instance: t.instance, params: t.params as InstanceParams, observable: { key: t.observable, spec: t.spec as ObservableJson, bound: t.bound },
         disputed: t.disputed || Boolean(c?.disputed), disputeNote: t.disputeNote ?? c?.disputedNote ?? null,
         reference,
         consensus: c ? { estimator: c.estimator, entries: c.entries, includedCount: c.includedCount, excluded: c.excluded, value: c.value, uncertainty: c.uncertainty, chi2: c.chi2, nu: c.nu, p: c.p, birgeRatio: c.birgeRatio, tau2: c.tau2, I2: c.I2, disputed: c.disputed, computedAt: st!.computedAt, engineVersion: st!.engineVersion } : null,
         estimates: list,
         siblings: siblings.map((s) => ({ key: s.key, steps: (s.params as { steps?: number }).steps ?? null, thetaH: (s.params as { thetaH?: number }).thetaH ?? null })),
-      };
+      } satisfies TargetDetail;
     },
   });
 

@@ -13,8 +13,10 @@ import { loadChallengeVersion } from '../queries/challenge-version';
 import { isEstimateWithheld, PUBLIC_VIEWER, seesSealedValues, viewerOf, visibleReferences, type Viewer } from '../queries/visibility';
 import type { RouteTable } from './registry';
 import { standingsCache } from '../services/standings-cache';
+import { TRACK_VIEWS } from '@shared/vocabulary';
+import type { StandingsResponse } from '@shared/api-types';
 
-const TRACKS = ['all', 'hardware', 'classical'] as const;
+const TRACKS = TRACK_VIEWS;
 
 function parseQuery(req: Request, settings: { primaryMetric?: string }, viewer: Viewer) {
   // names of the previous rules (rmse-verifiable, ...) still work: they rank by the proper score of their scope
@@ -69,7 +71,7 @@ export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): vo
         estimator: payload?.estimator ?? null, metric: q.metric, metrics: PRIMARY_METRICS, track: q.track, view: q.view, asOf: q.asOf ?? null,
         counts: result?.counts ?? null,
         entries: ranked,
-      });
+      } satisfies StandingsResponse);
       const etag = `"${createHash('sha1').update(body).digest('base64url')}"`;
       if (!q.asOf) standingsCache.set(rawKey, body, etag, v.id);
       send(req, res, body, etag);

@@ -25,6 +25,7 @@ import { challengeVersions, entries, entryCommitments, observables, organization
 import { commitmentHash } from './register-commitment';
 import type { StandingsPayload } from './recompute-standings';
 import { isVisibleNow, PUBLIC_VIEWER, visibleReferences } from '../queries/visibility';
+import { isUncertaintyKind } from '@shared/vocabulary';
 
 const fin = (x: number | null | undefined): number | null => (typeof x === 'number' && Number.isFinite(x) ? x : null);
 const LIST = 50;
@@ -186,7 +187,7 @@ async function checkVersion(db: Db, versionId: string, group: QueuedRow[], now: 
       if (!t) { bad(`"${x.key}" is not a target of version ${version}`); continue; }
       if (!Number.isFinite(x.value)) { bad('the value is not a finite number'); continue; }
       if (!Number.isFinite(x.u) || x.u < 0) { bad('the uncertainty is not a finite number >= 0'); continue; }
-      if (!['statistical', 'systematic', 'bound', 'none'].includes(x.kind)) bad(`unknown uncertainty kind "${x.kind}"`);
+      if (!isUncertaintyKind(x.kind)) bad(`unknown uncertainty kind "${x.kind}"`);
       answered.set(x.key, { value: x.value, uncertainty: x.u });
       if (Math.abs(x.value) > t.bound) {
         checks.bounds.count++;

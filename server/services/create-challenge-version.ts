@@ -12,6 +12,7 @@ import { challengeVersions, challenges, instances, observables, targets } from '
 import { conflict, invalid } from '../errors';
 import { recordAudit, type AuditActor } from './record-audit';
 import { DEFAULT_PRIMARY_METRIC } from '@shared/scoring/standings';
+import { TRACKS } from '@shared/vocabulary';
 
 export function validateSpecOrThrow(spec: unknown): ValidatedChallenge {
   const r = validateChallenge(spec);
@@ -43,7 +44,7 @@ export async function createChallengeVersion(db: Db, spec: unknown, actor: Audit
     if (!existing) {
       await tx.insert(challenges).values({
         slug, title: ch.spec.title, summary: ch.spec.description.slice(0, 400), state: 'draft',
-        settings: { estimator: 'random-effects-dl', primaryMetric: DEFAULT_PRIMARY_METRIC, tracks: ['hardware', 'classical'], license: ch.spec.license ?? 'CC-BY-4.0' },
+        settings: { estimator: 'random-effects-dl', primaryMetric: DEFAULT_PRIMARY_METRIC, tracks: [...TRACKS], license: ch.spec.license ?? 'CC-BY-4.0' },
         createdBy: actor.kind === 'user' ? actor.user.id : null, createdAt: now, updatedAt: now,
       });
     }

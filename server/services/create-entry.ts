@@ -13,7 +13,8 @@ import type { Db, DbOrTx } from '../db/client';
 import { entries } from '../db/schema';
 import { recordAudit, type AuditActor } from './record-audit';
 import type { FieldProblem } from '../errors';
-import { gateProblems, loadGate, refuse, TRACKS, type EntryCheck, type EntryDocument, type EntryEstimate } from './validate-entry';
+import { gateProblems, loadGate, refuse, type EntryCheck, type EntryDocument, type EntryEstimate } from './validate-entry';
+import { ENTRY_FORMAT_LIMITS, isTrack, type Track } from '@shared/vocabulary';
 
 /** rows per insert statement: fewer, larger statements are faster on PGlite (measured: 20,000 beats 2,000 by about 25 %) */
 export const ESTIMATE_BATCH = 20_000;
@@ -73,11 +74,11 @@ export async function createEntry(db: Db, p: { check: EntryCheck; teamId: string
 }
 
 /** What an incomplete draft records of a document that failed validation (it is stored as sent). */
-export function incompleteFields(raw: unknown, teamTrack: string) {
+export function incompleteFields(raw: unknown, teamTrack: Track) {
   const d = (raw && typeof raw === 'object' && !Array.isArray(raw) ? raw : {}) as Record<string, unknown>;
   const m = (d.method && typeof d.method === 'object' ? d.method : {}) as Record<string, unknown>;
-  const track = typeof d.track === 'string' && (TRACKS as readonly string[]).includes(d.track) ? d.track : teamTrack;
-  const label = typeof d.label === 'string' && d.label.trim() ? d.label.slice(0, 120) : 'Untitled draft';
+  const track = isTrack(d.track) ? d.track : teamTrack;
+  const label = typeof d.label === 'string' && d.label.trim() ? d.label.slice(0, ENTRY_FORMAT_LIMITS.label) : 'Untitled draft';
   const methodFamily = typeof m.family === 'string' ? m.family.slice(0, 60) : 'other';
   return { track, label, methodFamily, document: d };
 }
@@ -88,7 +89,7 @@ export function incompleteFields(raw: unknown, teamTrack: string) {
  * validation found. The challenge settings still refuse as for any new entry; the draft cannot be
  * submitted until a valid document replaces it (PUT).
  */
-export async function createIncompleteEntry(db: Db, p: { slug: string; versionId: string; raw: unknown; problems: FieldProblem[]; teamId: string; teamTrack: string; actor: AuditActor; now: Date; idempotency?: Idempotency | null }) {
+export async function createIncompleteEntry(db: Db, p: { slug: string; versionId: string; raw: unknown; problems: FieldProblem[]; teamId: string; teamTrack: Track; actor: AuditActor; now: Date; idempotency?: Idempotency | null }) {
   const f = incompleteFields(p.raw, p.teamTrack);
   return db.transaction(async (tx) => {
     refuse(gateProblems(await loadGate(tx, p.slug), f.track, p.now, 'create'));

@@ -16,6 +16,7 @@ import { invalidateStandings, type WithEffects } from '../effects';
 import { isEstimateWithheld, PUBLIC_VIEWER, sealedKeys } from '../queries/visibility';
 import { challengeVersions, challenges, entries, observables, organization, references, standings, targets } from '../db/schema';
 import { enqueueJob } from '../jobs/queue';
+import type { Track } from '@shared/vocabulary';
 
 /** `private` is null when nothing is sealed (it would equal `public`); use privateView(). */
 export interface StandingsPayload { public: StandingsResult; private: StandingsResult | null; computedAt: string; versionId: string; estimator: ConsensusEstimator; rulesVersion?: string }
@@ -45,7 +46,7 @@ function recomputeInTransaction(db: Db, versionId: string, now: Date) {
     const entryInputs: StandingsEntryInput[] = eRows.map(({ e, teamName }) => {
       const res = ((e.document as { resources?: StandingsEntryInput['cost'] }).resources ?? {}) as StandingsEntryInput['cost'];
       return {
-        id: e.id, label: e.label, teamId: e.teamId, teamName, track: e.track as 'hardware' | 'classical', methodFamily: e.methodFamily,
+        id: e.id, label: e.label, teamId: e.teamId, teamName, track: e.track as Track, methodFamily: e.methodFamily,
         submittedAt: (e.submittedAt ?? e.createdAt).toISOString(), isBaseline: e.isBaseline, featured: e.featured,
         cost: { cpuCoreHours: res.cpuCoreHours, gpuHours: res.gpuHours, qpuSeconds: res.qpuSeconds, wallTimeSeconds: res.wallTimeSeconds },
         estimates: byEntry.get(e.id)!,

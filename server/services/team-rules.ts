@@ -20,11 +20,12 @@ import { z } from 'zod';
 import type { Db } from '../db/client';
 import { mailQuota, member, organization } from '../db/schema';
 import { HOUSE_TEAM } from '../house-team';
+import { TRACKS } from '@shared/vocabulary';
 
 export const TEAM_NAME_MAX = 80;
 export const TEAM_SLUG_MAX = 48;
 export const TEAM_DESCRIPTION_MAX = 500;
-export const TEAM_TRACKS = ['hardware', 'classical'] as const;
+export const TEAM_TRACKS = TRACKS;
 
 export const teamMetadataSchema = z.object({
   track: z.enum(TEAM_TRACKS, { message: 'metadata.track must be "hardware" or "classical"' }).optional(),

@@ -4,5 +4,6 @@
  * which takes only typed, limited fields.
  */
 import { readTeamMetadata } from '../services/team-rules';
+import type { Track } from '@shared/vocabulary';
 
-export const teamTrack = (m: string | null): 'hardware' | 'classical' => (readTeamMetadata(m).track === 'hardware' ? 'hardware' : 'classical');
+export const teamTrack = (m: string | null): Track => (readTeamMetadata(m).track === 'hardware' ? 'hardware' : 'classical');

@@ -15,6 +15,7 @@ import { latticeQubits, type LatticeSpec } from './lattices';
 import { ObservableError, parseObservable } from './observable';
 import { sha256Hex } from './sha256';
 import type { ChallengeSpec } from './challenge-spec';
+import { CHALLENGE_FORMAT_LIMITS } from '../vocabulary';
 
 export type { ChallengeSpec, GateJson, GatesCircuitJson, KickedIsingCircuitJson } from './challenge-spec';
 
@@ -25,7 +26,8 @@ export interface ChallengeError {
 }
 
 export const LIMITS = {
-  maxQubits: 10_000,
+  /** the schema's qubit count limit, also applied to rows x cols lattices */
+  maxQubits: CHALLENGE_FORMAT_LIMITS.qubits,
   maxTargets: 100_000,
   /**
    * compiled gates in one instance (kicked-ising: steps * (qubits + edges)). One million covers a

@@ -10,6 +10,7 @@
  * and qubits outside the register are errors. Leading and trailing spaces are allowed.
  */
 import type { ObservableSpec, PauliFactor, PauliTerm } from './circuit';
+import { CHALLENGE_FORMAT_LIMITS } from '../vocabulary';
 
 export class PauliParseError extends Error {
   constructor(
@@ -23,7 +24,7 @@ export class PauliParseError extends Error {
 }
 
 /** The longest accepted Pauli string (also the schema's maxLength). */
-export const MAX_PAULI_LENGTH = 100_000;
+export const MAX_PAULI_LENGTH = CHALLENGE_FORMAT_LIMITS.pauliLength;
 
 /**
  * Parse one sparse Pauli string. Factors are returned sorted by qubit.

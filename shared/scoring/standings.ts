@@ -21,6 +21,7 @@ import {
   type NearCopy,
 } from './rules';
 import type { Measurement, UncertaintyKind } from './types';
+import { TRACKS, TRACK_VIEWS, type Track, type TrackView } from '../vocabulary';
 
 /** Ranking keys: 'overall' (every ranked target), 'crps-verifiable' (targets with an exact
  * reference), 'agreement' (targets scored against the consensus). All are proper scores. */
@@ -39,8 +40,7 @@ export const RANKING_KEYS: Record<PrimaryMetric, [ScoreKey, ScoreKey]> = {
   agreement: ['scoreAgreement', 'scoreVerifiable'],
 };
 const SCOPE: Record<PrimaryMetric, 'overall' | 'verifiable' | 'agreement'> = { overall: 'overall', 'crps-verifiable': 'verifiable', agreement: 'agreement' };
-export const TRACK_VIEWS = ['all', 'hardware', 'classical'] as const;
-export type TrackView = (typeof TRACK_VIEWS)[number];
+export { TRACK_VIEWS, type TrackView };
 
 export interface StandingsEstimate { value: number; uncertainty: number; kind: UncertaintyKind }
 
@@ -49,7 +49,7 @@ export interface StandingsEntryInput {
   label: string;
   teamId: string;
   teamName: string;
-  track: 'hardware' | 'classical';
+  track: Track;
   methodFamily: string;
   submittedAt: string;
   isBaseline: boolean;
@@ -112,7 +112,7 @@ export interface StandingsRow {
   label: string;
   teamId: string;
   teamName: string;
-  track: 'hardware' | 'classical';
+  track: Track;
   methodFamily: string;
   submittedAt: string;
   isBaseline: boolean;
@@ -178,7 +178,7 @@ export function costHours(c: StandingsEntryInput['cost']): number | null {
 }
 
 /** The cost of an entry in its track's own resource: QPU hours on hardware, CPU core-hours + GPU hours in classical simulation. */
-export function trackCostHours(track: 'hardware' | 'classical', c: StandingsEntryInput['cost']): number | null {
+export function trackCostHours(track: Track, c: StandingsEntryInput['cost']): number | null {
   const parts = track === 'hardware' ? [c.qpuSeconds === undefined ? undefined : c.qpuSeconds / 3600] : [c.cpuCoreHours, c.gpuHours];
   const xs = parts.filter((x): x is number => typeof x === 'number');
   return xs.length ? xs.reduce((a, b) => a + b, 0) : null;
@@ -377,7 +377,7 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
 
   // one front per track, each in its own resource: QPU time is not added to classical compute
   const onFront = new Set<string>();
-  for (const track of ['hardware', 'classical'] as const) {
+  for (const track of TRACKS) {
     const front = accuracyCostFront(rows.filter((r) => !r.isBaseline && r.e.track === track).map((r) => ({ id: r.e.id, error: r.metrics.scoreOverall, cost: trackCostHours(track, r.e.cost) })));
     for (const p of front.front) onFront.add(p.id);
   }

@@ -3,9 +3,12 @@
  * Plain data; no framework imports.
  */
 
-/** Kind of the declared uncertainty. It is metadata: every formula treats `uncertainty` as a
- * standard uncertainty (1 sigma) whatever the kind; 'none' normally comes with uncertainty 0. */
-export type UncertaintyKind = 'statistical' | 'systematic' | 'bound' | 'none';
+import type { UncertaintyKind } from '../vocabulary';
+
+/** Kind of the declared uncertainty (shared/vocabulary.ts, from the entry schema). It is metadata: every
+ * formula treats `uncertainty` as a standard uncertainty (1 sigma) whatever the kind; 'none' normally
+ * comes with uncertainty 0. */
+export type { UncertaintyKind };
 
 /** The minimum every statistic needs: a value and its standard uncertainty (1 sigma). */
 export interface Measurement {

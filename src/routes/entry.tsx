@@ -10,6 +10,7 @@ import { formatDate, formatDateTime, formatHours, formatMeasurement, formatMetri
 import { Badge, ChartTableToggle, EmptyState, ErrorState, Measured, PageHeader, PageLoading, Panel, Provenance, ProvenanceList, TrackBadge, buttonClass, cx, inputClass } from '@/components/ui';
 import { COLORS } from '@/features/challenges/charts/theme';
 import { useDocumentTitle } from '@/lib/use-document-title';
+import type { Track } from '@shared/vocabulary';
 
 const ConvergenceChart = lazy(() => import('@/features/entries/components/convergence-chart'));
 
@@ -293,7 +294,7 @@ export function Component() {
   );
 }
 
-function EstimateDetail({ s, track }: { s: Row; track: 'hardware' | 'classical' }) {
+function EstimateDetail({ s, track }: { s: Row; track: Track }) {
   const [table, setTable] = useState(false);
   useEffect(() => { document.getElementById('entry-detail')?.scrollIntoView({ block: 'nearest' }); }, [s.e.target]);
   const exact = exactOf(s);

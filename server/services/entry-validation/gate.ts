@@ -8,6 +8,7 @@ import type { DbOrTx } from '../../db/client';
 import { challenges } from '../../db/schema';
 import { AppError, notFound, type FieldProblem } from '../../errors';
 import { MAX_PROBLEMS } from './types';
+import { isTrack, TRACKS, type Track } from '@shared/vocabulary';
 
 const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
 
@@ -41,12 +42,12 @@ const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typ
  * enforcement (gateProblems) and the public status (entryGateStatus) both apply them. The clock is
  * always the request's (ctx.now()), never the process's.
  */
-export const TRACKS = ['hardware', 'classical'] as const;
+export { TRACKS };
 export type GateAction = 'create' | 'submit' | 'revise';
 /** A challenge as its settings see it. */
 export interface ChallengeGate { slug: string; state: string; settings: unknown }
 
-export function openTracks(settings: unknown): string[] {
+export function openTracks(settings: unknown): Track[] {
   const t = isObject(settings) ? settings.tracks : undefined;
   if (!Array.isArray(t)) return [...TRACKS];
   return TRACKS.filter((x) => t.includes(x));
@@ -66,7 +67,7 @@ const TAKES_NO: Record<GateAction, string> = { create: 'takes no new entries', s
 
 /** The problem with a closed track, or null when the track is open (or not a track at all: the schema says so). */
 export function closedTrackProblem(c: ChallengeGate, track: unknown, action: GateAction | 'move', from?: string): FieldProblem | null {
-  if (typeof track !== 'string' || !(TRACKS as readonly string[]).includes(track)) return null;
+  if (!isTrack(track)) return null;
   const open = openTracks(c.settings);
   if (open.includes(track)) return null;
   const fix = {
@@ -98,7 +99,7 @@ export function gateReasons(c: ChallengeGate, track: unknown, now: Date | undefi
     if (w.opensAt && now.getTime() < w.opensAt.getTime()) out.push({ kind: 'before-window', at: w.opensAt });
     else if (w.closesAt && now.getTime() >= w.closesAt.getTime()) out.push({ kind: 'after-window', at: w.closesAt });
   }
-  if (typeof track === 'string' && (TRACKS as readonly string[]).includes(track) && !openTracks(c.settings).includes(track)) out.push({ kind: 'track-closed', track });
+  if (isTrack(track) && !openTracks(c.settings).includes(track)) out.push({ kind: 'track-closed', track });
   return out;
 }
 
@@ -161,7 +162,7 @@ export interface EntryGateStatus {
   acceptsEntries: boolean;
   /** a new draft in at least one track would be stored now (before the window opens: yes, but not submitted) */
   acceptsDrafts: boolean;
-  openTracks: string[];
+  openTracks: Track[];
   window: { opensAt: Date | null; closesAt: Date | null };
   /** reasons: why a submission in this track is not taken now (empty when it is) */
   tracks: Record<(typeof TRACKS)[number], { acceptsEntries: boolean; acceptsDrafts: boolean; reasons: GateReason[] }>;
@@ -177,10 +178,10 @@ export function entryGateStatus(c: ChallengeGate, now: Date): EntryGateStatus {
     const reasons = gateReasons(c, track, now);
     return { acceptsEntries: !reasons.some(REFUSES.submit), acceptsDrafts: !reasons.some(REFUSES.create), reasons };
   };
-  const tracks = { hardware: one('hardware'), classical: one('classical') };
+  const tracks = Object.fromEntries(TRACKS.map((t) => [t, one(t)])) as Record<Track, ReturnType<typeof one>>;
   return {
-    acceptsEntries: tracks.hardware.acceptsEntries || tracks.classical.acceptsEntries,
-    acceptsDrafts: tracks.hardware.acceptsDrafts || tracks.classical.acceptsDrafts,
+    acceptsEntries: TRACKS.some((t) => tracks[t].acceptsEntries),
+    acceptsDrafts: TRACKS.some((t) => tracks[t].acceptsDrafts),
     openTracks: openTracks(c.settings), window: submissionWindow(c.settings), tracks,
   };
 }

@@ -12,6 +12,7 @@ import { Ajv2020, type ErrorObject, type ValidateFunction } from 'ajv/dist/2020.
 import addFormatsModule from 'ajv-formats';
 import type { FieldProblem } from '../../errors';
 import { MAX_ESTIMATES, MAX_PROBLEMS, type Problems } from './types';
+import { UNCERTAINTY_KINDS } from '@shared/vocabulary';
 
 export const ENTRY_SCHEMA = JSON.parse(readFileSync(new URL('../../../schemas/entry.schema.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 
@@ -51,6 +52,9 @@ const article = (t: string) => (/^[aeiou]/.test(t) ? `an ${t}` : `a ${t}`);
 const last = (p: string) => p.slice(p.lastIndexOf('/') + 1);
 const clip = (k: string) => (k.length > 60 ? `${k.slice(0, 60)}...` : k);
 
+/** '"a", "b" or "c"' */
+const orList = (xs: readonly string[]) => `${xs.slice(0, -1).map((x) => JSON.stringify(x)).join(', ')} or ${JSON.stringify(xs[xs.length - 1])}`;
+
 const REQUIRED_HINT: Record<string, string> = {
   challenge: 'name the challenge version this entry answers: {"id": "...", "version": N, "checksum": "sha256:..."} (GET /api/challenges/<id> shows them)',
   id: 'give the challenge id, e.g. "kicked-chain-60"',
@@ -64,7 +68,7 @@ const REQUIRED_HINT: Record<string, string> = {
   target: 'give the target id, "<instance id>:<observable id>" (GET /api/challenges/<id>/targets lists them)',
   value: 'give the estimated expectation value',
   uncertainty: 'give the standard uncertainty (1 sigma); use 0 with uncertaintyKind "none" for a value you claim is exact',
-  uncertaintyKind: 'say what kind of uncertainty this is: "statistical", "systematic", "bound" or "none"',
+  uncertaintyKind: `say what kind of uncertainty this is: ${orList(UNCERTAINTY_KINDS)}`,
   scale: 'give the noise-scale factor (>= 1)',
   parameter: 'give the control parameter of this point (bond dimension, threshold ...)',
   name: 'give the software name',

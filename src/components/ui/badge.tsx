@@ -1,7 +1,8 @@
 import type { ReactNode } from 'react';
 import { cx } from './cx';
+import type { Track } from '@shared/vocabulary';
 
-export type BadgeTone = 'neutral' | 'hardware' | 'classical' | 'exact' | 'consensus' | 'disputed' | 'danger' | 'ok';
+export type BadgeTone = 'neutral' | Track | 'exact' | 'consensus' | 'disputed' | 'danger' | 'ok';
 
 const tones: Record<BadgeTone, string> = {
   neutral: 'bg-paper-sunk text-ink-soft border-rule',

@@ -1,6 +1,7 @@
 import { cx } from './cx';
+import type { Track } from '@shared/vocabulary';
 
-export type TrackName = 'hardware' | 'classical';
+export type TrackName = Track;
 
 export const TRACK_LABEL: Record<TrackName, string> = {
   hardware: 'Quantum hardware',

@@ -1,7 +1,8 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
-export interface AgreementEntry { id: string; label?: string; teamName?: string; track?: 'hardware' | 'classical'; value?: number; uncertainty?: number }
+export interface AgreementEntry { id: string; label?: string; teamName?: string; track?: Track; value?: number; uncertainty?: number }
 export interface AgreementAverage { mode: 'average-unverifiable'; computedAt: string | null; entries: AgreementEntry[]; meanRatio: (number | null)[][]; targets: number[][]; incompatible: number[][] }
 export interface AgreementTarget {
   mode: 'target'; target: string; computedAt: string | null; entries: AgreementEntry[];

@@ -1,43 +1,22 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
-export interface ChallengeVersionInfo { version: number; checksum: string; state: string; publishedAt: string | null; supersededReason: string | null }
-export interface ChallengeJob { id: string; kind: string; state: 'queued' | 'running' | 'done' | 'failed' | string; progress: number | null; note: string | null; error: string | null; createdAt: string; finishedAt: string | null }
-export interface ChallengeInstance { key: string; params: { family?: string; steps?: number; thetaH?: number; thetaJ?: number } & Record<string, unknown>; qubits: number; gateCount: number; depth: number }
-export interface ObservableSpec { id?: string; terms?: { coef: number; pauli: string }[]; pauli?: string; label?: string; description?: string }
-export interface ChallengeObservable { key: string; spec: ObservableSpec; bound: number | null }
-export type TrackKey = 'hardware' | 'classical';
+import type { ChallengeDetail as ChallengeDetailShared, ChallengeInstance as ChallengeInstanceShared, ChallengeJob as ChallengeJobShared, ChallengeObservable as ChallengeObservableShared, ChallengeVersionInfo as ChallengeVersionInfoShared, ObservableJson, SubmissionsStatus as SubmissionsStatusShared, Wire } from '@shared/api-types';
+
+// GET /api/challenges/:slug as the client receives it (server/routes/challenges.ts; the types: shared/api-types.ts)
+export type ChallengeVersionInfo = Wire<ChallengeVersionInfoShared>;
+export type ChallengeJob = Wire<ChallengeJobShared>;
+export type ChallengeInstance = Wire<ChallengeInstanceShared>;
+export type ObservableSpec = ObservableJson;
+export type ChallengeObservable = Wire<ChallengeObservableShared>;
+export type TrackKey = Track;
 /**
  * Whether the challenge takes entries now, on the server's clock (asOf): the same answer as the
- * enforcement. acceptsEntriesNow: a submission would be taken now; acceptsDraftsNow: a new draft
- * would be stored now (also before the window opens, when only the submission waits). Drafts
- * already saved stay editable whatever it says, and a returned entry can be sent back to review.
+ * enforcement (shared/api-types.ts SubmissionsStatus).
  */
-export interface SubmissionsStatus {
-  acceptsEntriesNow: boolean;
-  acceptsDraftsNow: boolean;
-  /** short, when it takes no submission: "submissions closed", "opens 2026-12-24 00:00 UTC", "closed …", "no track open" */
-  reason: string | null;
-  openTracks: TrackKey[];
-  window: { opensAt: string | null; closesAt: string | null };
-  tracks: Record<TrackKey, { acceptsEntriesNow: boolean; acceptsDraftsNow: boolean; reason: string | null }>;
-  asOf: string;
-}
-export interface ChallengeDetail {
-  slug: string;
-  title: string;
-  description: string;
-  state: string;
-  settings: { estimator?: string; primaryMetric?: string; tracks?: string[]; license?: string };
-  submissions: SubmissionsStatus;
-  version: ChallengeVersionInfo & { id: string };
-  versions: ChallengeVersionInfo[];
-  spec: Record<string, unknown>;
-  lattice: { kind: string; qubits: number; edges: [number, number][]; coords: [number, number][] };
-  instances: ChallengeInstance[];
-  observables: ChallengeObservable[];
-  jobs: ChallengeJob[];
-}
+export type SubmissionsStatus = Wire<SubmissionsStatusShared>;
+export type ChallengeDetail = Wire<ChallengeDetailShared>;
 
 export const getChallenge = (slug: string, signal?: AbortSignal) => api.get<ChallengeDetail>(`/challenges/${encodeURIComponent(slug)}`, { signal });
 

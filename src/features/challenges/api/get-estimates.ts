@@ -1,7 +1,8 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
-export interface EstimateEntry { id: string; label: string; teamName: string; track: 'hardware' | 'classical'; methodFamily: string; isBaseline: boolean }
+export interface EstimateEntry { id: string; label: string; teamName: string; track: Track; methodFamily: string; isBaseline: boolean }
 export interface SweepEstimate { entryId: string; target: string; value: number; uncertainty: number; kind: string; raw?: unknown }
 export interface EstimatesResponse { entries: EstimateEntry[]; estimates: SweepEstimate[] }
 

@@ -1,11 +1,9 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { ReferenceSize, ReferenceView, Wire } from '@shared/api-types';
 
-export type Reference =
-  | { status: 'exact'; value: number; uncertainty: number; method: string; size: Record<string, number> | null; wallMs: number | null; engineVersion: string | null; createdAt: string }
-  | { status: 'none'; reason: string | null; engineVersion?: string | null }
-  | { status: 'sealed'; sealedUntil: string }
-  | { status: 'pending' };
+/** a target's reference as the caller may see it (server/presenters/reference.ts; the type: shared/api-types.ts) */
+export type Reference = Wire<ReferenceView>;
 
 export interface TargetConsensusInfo {
   estimator: string; entries: number; value: number | null; uncertainty: number | null;
@@ -35,12 +33,7 @@ export const useTargets = (slug: string) => useQuery({ ...getTargetsQueryOptions
 
 /** "free-fermion, 60 sites" */
 /** What a reference's size record holds: the method's measure, and for a tensor network its width, flops and slices; the provenance sentence and a cross-check by a second exact method where one ran. */
-export interface ReferenceSize {
-  sites?: number; qubits?: number; terms?: number; width?: number; flops?: number; slices?: number;
-  detail?: string;
-  crossCheck?: { method: string; value: number; absDiff: number; wallMs: number };
-  [k: string]: unknown;
-}
+export type { ReferenceSize };
 
 export function describeSize(size: ReferenceSize | Record<string, unknown> | null | undefined): string {
   if (!size) return '';

@@ -1,3 +1,4 @@
+import type { Track } from '@shared/vocabulary';
 /** The charts' look, from the design tokens in tailwind.config.ts (nivo needs literal colours). */
 export const COLORS = {
   ink: '#1b2130', inkSoft: '#4b5466', inkFaint: '#646c7d', rule: '#dedad1', ruleStrong: '#c3bdb0', paper: '#ffffff',
@@ -15,7 +16,7 @@ export const chartTheme = {
   tooltip: { container: { fontFamily: '"Fira Sans", system-ui, sans-serif', fontSize: 12, borderRadius: 4, boxShadow: '0 2px 8px rgba(0,0,0,.12)' } },
 };
 
-export type MarkKind = 'hardware' | 'classical' | 'baseline';
+export type MarkKind = Track | 'baseline';
 export const markColor = (k: MarkKind) => (k === 'hardware' ? COLORS.hardware : k === 'classical' ? COLORS.classical : COLORS.exact);
 
 /** the track marks in SVG: hardware a filled diamond, classical a hollow circle, the house baseline a hollow square */

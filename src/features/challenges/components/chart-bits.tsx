@@ -1,10 +1,11 @@
 import type { ReactNode } from 'react';
 import { TrackMark } from '@/components/ui';
+import type { Track } from '@shared/vocabulary';
 
 export function Legend({ children }: { children: ReactNode }) {
   return <div className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-ink-soft">{children}</div>;
 }
-export function LegendMark({ kind, children }: { kind: 'hardware' | 'classical' | 'baseline' | 'exact' | 'consensus' | 'disputed' | 'verifiable'; children: ReactNode }) {
+export function LegendMark({ kind, children }: { kind: Track | 'baseline' | 'exact' | 'consensus' | 'disputed' | 'verifiable'; children: ReactNode }) {
   const mark =
     kind === 'hardware' || kind === 'classical' ? <TrackMark track={kind} size={11} /> :
     kind === 'baseline' ? <svg width="11" height="11" aria-hidden="true"><rect x="1.5" y="1.5" width="8" height="8" fill="#fff" stroke="#111621" strokeWidth="1.6" /></svg> :

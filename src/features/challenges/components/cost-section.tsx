@@ -7,6 +7,7 @@ import { formatHours, formatMetric } from '@/lib/format';
 import { Badge, ChartTableToggle, EmptyState, ErrorState, PageLoading, Panel, TrackMark } from '@/components/ui';
 import CostChart, { type CostPoint } from '@/features/challenges/charts/cost-chart';
 import { Legend, LegendMark } from './chart-bits';
+import type { Track } from '@shared/vocabulary';
 
 export default function CostSection({ c }: { c: ChallengeDetail }) {
   const s = useStandings(c.slug, { track: 'all' });
@@ -23,7 +24,7 @@ export default function CostSection({ c }: { c: ChallengeDetail }) {
       return parts.length ? parts.reduce((a, b) => a + b, 0) : null;
     };
     const qpuCost = (e: (typeof es)[number]) => (typeof e.cost.qpuSeconds === 'number' ? e.cost.qpuSeconds / 3600 : null);
-    const panel = (track: 'hardware' | 'classical') => {
+    const panel = (track: Track) => {
       const cost = track === 'hardware' ? qpuCost : classicalCost;
       const mine = es.filter((e) => e.track === track);
       const plotted = mine.filter((e) => (cost(e) ?? 0) > 0 && (acc(e) ?? 0) > 0);

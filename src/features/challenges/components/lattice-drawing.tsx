@@ -1,6 +1,6 @@
 import { useId, useMemo, useState } from 'react';
 
-export interface LatticeGeometry { kind: string; qubits: number; edges: [number, number][]; coords: [number, number][] }
+export interface LatticeGeometry { kind: string; qubits: number; edges: readonly (readonly [number, number])[]; coords: readonly (readonly [number, number])[] }
 
 /** chains longer than this are wrapped into serpentine rows (neighbours stay neighbours) */
 const CHAIN_ROW = 20;

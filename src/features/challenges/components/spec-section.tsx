@@ -16,7 +16,7 @@ const api = (slug: string, rest: string) => `/api/challenges/${encodeURIComponen
 
 /** "w3 = X3 Y4 Z9" for option labels and headings (the one Pauli grammar: shared/physics/observable.ts) */
 export function observableLabel(o: ChallengeDetail['observables'][number]): string {
-  const [p] = parseObservables({ observables: [o], lattice: { kind: '', qubits: Number.POSITIVE_INFINITY, edges: [], coords: [] } }).values();
+  const [p] = parseObservables({ observables: [o], lattice: { qubits: Number.POSITIVE_INFINITY } }).values();
   const text = observableText(p);
   return text ? `${o.key} = ${text}` : o.key;
 }

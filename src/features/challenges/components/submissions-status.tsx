@@ -6,11 +6,11 @@
  * submissions wait for opensAt. Dates are shown in UTC, the reader's local time in the tooltip.
  */
 import { useEffect, useState } from 'react';
-import type { SubmissionsStatus, TrackKey } from '@/features/challenges/api/get-challenge';
+import type { SubmissionsStatus } from '@/features/challenges/api/get-challenge';
 import { formatFromNow, formatLocalDateTime, formatUtcDate, formatUtcDateTime } from '@/lib/format-time';
 import { Badge, ButtonLink, TrackMark, buttonClass, cx, type BadgeTone } from '@/components/ui';
+import { TRACKS } from '@shared/vocabulary';
 
-const TRACKS: TrackKey[] = ['hardware', 'classical'];
 
 /** a moment in UTC, with the reader's local time in the tooltip */
 export function UtcTime({ at, date = false, className }: { at: string; date?: boolean; className?: string }) {

@@ -11,7 +11,7 @@ import { parseObservable, type ObservableJson } from '@shared/physics/observable
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 
 /** each observable of the challenge parsed with the one Pauli grammar; null where it does not parse */
-export function parseObservables(c: Pick<ChallengeDetail, 'observables' | 'lattice'>): Map<string, ObservableSpec | null> {
+export function parseObservables(c: { observables: ChallengeDetail['observables']; lattice: Pick<ChallengeDetail['lattice'], 'qubits'> }): Map<string, ObservableSpec | null> {
   const out = new Map<string, ObservableSpec | null>();
   for (const o of c.observables) {
     try {

@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
 export type SiteRole = 'user' | 'moderator' | 'admin';
 export type TeamRole = 'lead' | 'member';
@@ -17,7 +18,7 @@ export interface MeTeam {
   slug: string;
   role: TeamRole;
   /** the team's kind: the track its new entries start in */
-  track?: 'hardware' | 'classical';
+  track?: Track;
 }
 export type Me =
   | { kind: 'visitor' }

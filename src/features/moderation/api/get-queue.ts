@@ -1,5 +1,6 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
 export interface QueueChecks {
   schema: { ok: boolean; problems: { target: string; message: string }[] };
@@ -15,7 +16,7 @@ export interface QueueItem {
   id: string;
   challenge: { slug: string; version: number };
   team: { id: string; name: string };
-  label: string; track: 'hardware' | 'classical'; methodFamily: string; revision: number; lineageId: string | null; supersedesId: string | null;
+  label: string; track: Track; methodFamily: string; revision: number; lineageId: string | null; supersedesId: string | null;
   submittedAt: string | null;
   flags: string[];
   checks: QueueChecks;

@@ -15,6 +15,7 @@ import { useSealReferences } from '../api/seal-references';
 import { useDisputeTarget } from '../api/dispute-target';
 import { useChallengeEntries } from '../api/get-challenge-entries';
 import { useCurateEntry, type CurationResult } from '../api/curate-entry';
+import { TRACKS } from '@shared/vocabulary';
 
 const toLocal = (iso: string | null | undefined) => (iso ? new Date(iso).toISOString().slice(0, 16) : '');
 const fromLocal = (v: string) => (v ? new Date(`${v}:00Z`).toISOString() : null);
@@ -23,7 +24,7 @@ export function SettingsForm({ c }: { c: ChallengeDetail }) {
   const s = c.settings as ChallengeDetail['settings'] & { submissionWindow?: { opensAt?: string | null; closesAt?: string | null } | null };
   const [estimator, setEstimator] = useState(s.estimator ?? '');
   const [metric, setMetric] = useState(s.primaryMetric ?? '');
-  const [tracks, setTracks] = useState<string[]>(s.tracks ?? ['hardware', 'classical']);
+  const [tracks, setTracks] = useState<string[]>(s.tracks ?? [...TRACKS]);
   const [opens, setOpens] = useState(toLocal(s.submissionWindow?.opensAt));
   const [closes, setCloses] = useState(toLocal(s.submissionWindow?.closesAt));
   const [license, setLicense] = useState(s.license ?? '');
@@ -35,7 +36,7 @@ export function SettingsForm({ c }: { c: ChallengeDetail }) {
     const out: SettingsPatch = {};
     if (estimator && estimator !== s.estimator) out.estimator = estimator;
     if (metric && metric !== s.primaryMetric) out.primaryMetric = metric;
-    if (JSON.stringify(tracks) !== JSON.stringify(s.tracks ?? ['hardware', 'classical'])) out.tracks = tracks;
+    if (JSON.stringify(tracks) !== JSON.stringify(s.tracks ?? TRACKS)) out.tracks = tracks;
     if (opens !== toLocal(s.submissionWindow?.opensAt) || closes !== toLocal(s.submissionWindow?.closesAt)) out.submissionWindow = opens || closes ? { opensAt: fromLocal(opens), closesAt: fromLocal(closes) } : null;
     if (license && license !== s.license) out.license = license;
     if (state !== (c.state === 'closed' ? 'closed' : 'open') && c.state !== 'draft') out.state = state as 'open' | 'closed';
@@ -57,7 +58,7 @@ export function SettingsForm({ c }: { c: ChallengeDetail }) {
           <fieldset className="min-w-0">
             <legend className="text-sm font-medium">Tracks</legend>
             <div className="mt-2 flex flex-wrap gap-x-4 gap-y-2">
-              {(['hardware', 'classical'] as const).map((t) => (
+              {TRACKS.map((t) => (
                 <label key={t} className="flex items-center gap-2 text-sm">
                   <input type="checkbox" checked={tracks.includes(t)} onChange={(e) => setTracks((ts) => (e.target.checked ? [...ts.filter((x) => x !== t), t].sort() : ts.filter((x) => x !== t)))} />
                   <TrackBadge track={t} />

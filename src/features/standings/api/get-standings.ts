@@ -1,35 +1,13 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 
-export interface StandingsMetrics {
-  /** proper scores (lower is better), the ranking keys: mean over the ranked targets, a missing answer counting 2B */
-  scoreOverall: number | null; scoreVerifiable: number | null; scoreAgreement: number | null; scoreOverallSe: number | null;
-  rmseVerifiable: number | null; maxErrorVerifiable: number | null; meanZ2Verifiable: number | null; calibrationDistance: number | null;
-  coveredVerifiable: number | null; meanCrpsVerifiable: number | null; verifiableScored: number;
-  agreementMedianRatio: number | null; outsideInterval: number; unverifiableScored: number; answered: number; gridCoverage: number; costHours: number | null;
-}
-export interface StandingsEntry {
-  /** null: the house baseline, a reference row that is never ranked */
-  id: string; rank: number | null; tiedWithPrevious: boolean; label: string; teamId: string; teamName: string;
-  /** 95% bootstrap interval of the rank (over targets) */
-  rankInterval: [number, number] | null;
-  track: 'hardware' | 'classical'; methodFamily: string; submittedAt: string; isBaseline: boolean; isReference?: boolean; featured: boolean;
-  cost: { cpuCoreHours?: number; gpuHours?: number; qpuSeconds?: number; wallTimeSeconds?: number };
-  metrics: StandingsMetrics; onFront: boolean;
-  coverage?: { overall: Coverage; verifiable: Coverage; agreement: Coverage };
-  /** the baseline's truncation bounds, capped at the observable's bound */
-  bound?: { max: number; median: number } | null;
-  rulesVersion?: string;
-}
-export interface Coverage { answered: number; ranked: number }
-export interface Standings {
-  challenge: string; version: number; checksum: string; status: 'ready' | 'pending' | 'rescoring' | 'none';
-  computedAt: string | null; engineVersion: string | null; estimator: string | null;
-  scoringRulesVersion: string | null; currentScoringRulesVersion: string; exactTolerance: number; minIndependentTeams: number; bootstrapReplicates: number | null;
-  metric: string; metrics: string[]; track: string; asOf: string | null;
-  counts: { targets: number; verifiable: number; unverifiable: number; disputed: number; entries: number } | null;
-  entries: StandingsEntry[];
-}
+import type { StandingsResponse, Wire } from '@shared/api-types';
+
+/** GET /api/challenges/:slug/standings as the client receives it (the type: shared/api-types.ts). */
+export type Standings = Wire<StandingsResponse>;
+export type StandingsEntry = Standings['entries'][number];
+export type StandingsMetrics = StandingsEntry['metrics'];
+export type Coverage = StandingsEntry['coverage']['overall'];
 export interface StandingsQuery { track?: string; metric?: string; asOf?: string }
 
 export const getStandings = (slug: string, q: StandingsQuery, signal?: AbortSignal) =>

@@ -7,8 +7,8 @@
 import type { ChallengeDetail } from '@/features/challenges/api/get-challenge';
 import { Headline, UtcTime, useServerNow } from '@/features/challenges/components/submissions-status';
 import { FormMessage, isTrack } from '@/components/ui';
+import { TRACKS } from '@shared/vocabulary';
 
-const TRACKS = ['hardware', 'classical'] as const;
 
 /** whether this entry (new or a draft, in this track) can be submitted for review now */
 export function takesSubmission(c: ChallengeDetail, track: string): boolean {

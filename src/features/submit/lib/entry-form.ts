@@ -7,26 +7,20 @@
  */
 import schema from '../../../../schemas/entry.schema.json';
 import type { EntryDocument, EntryDocumentEstimate } from '@/features/entries/api/get-entry';
+import { ENTRY_FORMAT_LIMITS, METHOD_FAMILIES as VOCABULARY_METHOD_FAMILIES, TRACKS as VOCABULARY_TRACKS, UNCERTAINTY_KINDS as VOCABULARY_UNCERTAINTY_KINDS, type MethodFamily, type Track, type UncertaintyKind } from '@shared/vocabulary';
 
 type Obj = Record<string, unknown>;
 const props = schema.properties;
-const estimateProps = schema.$defs.estimate.properties;
 
-export const TRACKS = props.track.enum as readonly string[];
-export const METHOD_FAMILIES = props.method.properties.family.enum as readonly string[];
-export const UNCERTAINTY_KINDS = estimateProps.uncertaintyKind.enum as readonly string[];
-export const LIMITS = {
-  label: props.label.maxLength,
-  description: props.method.properties.description.maxLength,
-  settings: props.method.properties.settings.maxProperties,
-  estimates: props.estimates.maxItems,
-  notes: props.notes.maxLength,
-  license: props.license.maxLength,
-};
+// the lists hold strings here: the form keeps whatever was typed or loaded, known or not
+export const TRACKS: readonly string[] = VOCABULARY_TRACKS;
+export const METHOD_FAMILIES: readonly string[] = VOCABULARY_METHOD_FAMILIES;
+export const UNCERTAINTY_KINDS: readonly string[] = VOCABULARY_UNCERTAINTY_KINDS;
+export const LIMITS = ENTRY_FORMAT_LIMITS;
 /** above this many estimates the table is not editable in the browser (fix the file instead) */
 export const EDITABLE_ROWS = 2000;
 
-export const FAMILY_LABELS: Record<string, string> = {
+export const FAMILY_LABELS: Record<MethodFamily, string> & Record<string, string | undefined> = {
   'error-mitigated-hardware': 'Error-mitigated hardware',
   'tensor-network': 'Tensor network',
   'pauli-propagation': 'Pauli propagation',
@@ -35,8 +29,8 @@ export const FAMILY_LABELS: Record<string, string> = {
   exact: 'Exact',
   other: 'Other',
 };
-export const TRACK_LABELS: Record<string, string> = { hardware: 'Quantum hardware', classical: 'Classical simulation' };
-export const KIND_HINT: Record<string, string> = {
+export const TRACK_LABELS: Record<Track, string> & Record<string, string | undefined> = { hardware: 'Quantum hardware', classical: 'Classical simulation' };
+export const KIND_HINT: Record<UncertaintyKind, string> & Record<string, string | undefined> = {
   statistical: 'statistical (shots, sampling)',
   systematic: 'systematic (truncation, extrapolation)',
   bound: 'bound (a rigorous error bound)',

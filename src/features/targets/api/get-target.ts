@@ -1,31 +1,12 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import type { Reference } from '@/features/challenges/api/get-targets';
-import type { ObservableSpec } from '@/features/challenges/api/get-challenge';
+import type { TargetConsensusDetail as TargetConsensusDetailShared, TargetDetail as TargetDetailShared, TargetEstimate as TargetEstimateShared, Wire, ZneFit as ZneFitShared } from '@shared/api-types';
 
-export interface ZneFit { model: string; ok: boolean; value: number | null; uncertainty: number | null; reason: string | null; chi2: number | null; nu: number | null }
-export interface TargetEstimate {
-  entry: { id: string; label: string; teamId: string; teamName: string; track: 'hardware' | 'classical'; methodFamily: string; isBaseline: boolean; publishedAt: string | null };
-  value: number; uncertainty: number; kind: string;
-  /** against the exact reference (u² = u_i² + u_ref²) or the consensus (server/presenters' rule); U = 2u */
-  equivalence: { against: 'reference' | 'consensus'; d: number; u: number; U: number; included: boolean } | null;
-  zne: { points: { scale: number; value: number; uncertainty: number }[]; unmitigated: number | null; fits: ZneFit[] } | null;
-}
-export interface TargetConsensusDetail {
-  estimator: string; entries: number; includedCount: number; excluded: string[];
-  value: number | null; uncertainty: number | null; chi2: number | null; nu: number | null; p: number | null; birgeRatio: number | null; tau2: number | null; I2: number | null;
-  disputed: boolean; computedAt: string; engineVersion: string;
-}
-export interface TargetDetail {
-  version: number; checksum: string; engineVersion: string;
-  key: string; instance: string; params: { steps?: number; thetaH?: number; thetaJ?: number; family?: string };
-  observable: { key: string; spec: ObservableSpec; bound: number | null };
-  disputed: boolean; disputeNote: string | null;
-  reference: Reference;
-  consensus: TargetConsensusDetail | null;
-  estimates: TargetEstimate[];
-  siblings: { key: string; steps: number | null; thetaH: number | null }[];
-}
+// GET /api/challenges/:slug/targets/:key as the client receives it (server/routes/public-data.ts; the types: shared/api-types.ts)
+export type ZneFit = ZneFitShared;
+export type TargetEstimate = Wire<TargetEstimateShared>;
+export type TargetConsensusDetail = Wire<TargetConsensusDetailShared>;
+export type TargetDetail = Wire<TargetDetailShared>;
 
 export const getTarget = (slug: string, key: string, signal?: AbortSignal) =>
   api.get<TargetDetail>(`/challenges/${encodeURIComponent(slug)}/targets/${encodeURIComponent(key)}`, { signal });

@@ -1,7 +1,8 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Track } from '@shared/vocabulary';
 
-export type Track = 'hardware' | 'classical';
+export type { Track };
 export interface TeamSummary {
   id: string;
   name: string;

@@ -4,6 +4,7 @@ import { slugify, useCreateTeam } from '@/features/teams/api/create-team';
 import type { Track } from '@/features/teams/api/get-teams';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { Button, Field, FormMessage, TextAreaField, TrackMark, TRACK_LABEL, cx } from '@/components/ui';
+import { TRACKS } from '@shared/vocabulary';
 
 export function CreateTeamForm() {
   const navigate = useNavigate();
@@ -47,7 +48,7 @@ export function CreateTeamForm() {
       <fieldset>
         <legend className="mb-1 text-sm font-medium">Track</legend>
         <div className="grid gap-2 sm:grid-cols-2 lg:grid-cols-1">
-          {(['hardware', 'classical'] as const).map((t) => (
+          {TRACKS.map((t) => (
             <label
               key={t}
               className={cx(
