@@ -1,5 +1,5 @@
 /** The house baseline of a challenge version: truncated Pauli propagation of every target, published as an unranked entry. */
-import { and, eq, isNull } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
 import { ENGINE_VERSION } from '@shared/physics/reference';
 import { entries, observables, targets } from '../db/schema';
 import { createSystemEntry } from '../services/create-system-entry';
@@ -15,8 +15,12 @@ export const BASELINE_SETTINGS = { delta: 5e-3, maxTerms: 20_000 };
 export const baselineJob: JobHandler = async (job, w) => {
   const versionId = String((job.payload as { versionId: string }).versionId);
   const v = await versionSpec(w.db, versionId);
-  const [have] = await w.db.select({ id: entries.id }).from(entries).where(and(eq(entries.versionId, versionId), eq(entries.isBaseline, true), isNull(entries.supersedesId)));
-  if (have) return { skipped: 'baseline exists' };
+  // the newest baseline of the version: kept while this engine made it; an older engine's is
+  // replaced by a new revision (the old one stays visible as an earlier revision)
+  const [have] = await w.db.select({ id: entries.id, lineageId: entries.lineageId, revision: entries.revision, document: entries.document })
+    .from(entries).where(and(eq(entries.versionId, versionId), eq(entries.isBaseline, true))).orderBy(desc(entries.revision)).limit(1);
+  const madeBy = (have?.document as { resources?: { software?: { name?: string }[] } } | undefined)?.resources?.software?.[0]?.name;
+  if (have && madeBy === ENGINE_VERSION) return { skipped: 'baseline exists' };
   const ts = await w.db.select({ key: targets.key, bound: observables.bound }).from(targets).innerJoin(observables, eq(observables.id, targets.observableId)).where(eq(targets.versionId, versionId));
   const keys = ts.map((t) => t.key);
   // the truncation bound (sum of the dropped |c|) is stated as a bound, capped at the observable's own
@@ -40,7 +44,8 @@ export const baselineJob: JobHandler = async (job, w) => {
       resources: { wallTimeSeconds: wallMs / 1000, cpuCoreHours: wallMs / 3.6e6, hardware: 'one CPU core of the Parallax server', software: [{ name: ENGINE_VERSION }] },
       uncertaintyNote: 'Each uncertainty is the triangle-inequality bound: the sum of |c| over every dropped term.',
     },
-    estimates: rows, actorLabel: 'house baseline', auditDetails: { baseline: true, versionId }, at: w.now(),
+    estimates: rows, actorLabel: 'house baseline', auditDetails: { baseline: true, versionId, ...(have ? { replaces: have.id, engineBefore: madeBy ?? 'unversioned' } : {}) }, at: w.now(),
+    ...(have ? { supersedes: { id: have.id, lineageId: have.lineageId ?? have.id, revision: have.revision } } : {}),
   });
   return { estimates: rows.length, wallMs, effects };
 };

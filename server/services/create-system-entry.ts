@@ -7,6 +7,7 @@
  * effect (server/effects.ts).
  */
 import { randomUUID } from 'node:crypto';
+import { and, eq, ne } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { entries, estimates } from '../db/schema';
 import { enqueueJob } from '../jobs/queue';
@@ -29,16 +30,22 @@ export interface SystemEntry {
   auditDetails: Record<string, unknown>;
   /** the injected clock's time (the demo dates its entries after the challenge's opening) */
   at: Date;
+  /** a new revision of this entry (same lineage, revision + 1; the standings use the newest) */
+  supersedes?: { id: string; lineageId: string; revision: number };
 }
 
 export async function createSystemEntry(db: Db, e: SystemEntry): Promise<WithEffects<{ id: string; jobId: string | null }>> {
   const result = await db.transaction(async (tx) => {
     const id = randomUUID();
     await tx.insert(entries).values({
-      id, lineageId: id, challengeSlug: e.slug, versionId: e.versionId, teamId: e.teamId, state: e.state, track: e.track, methodFamily: e.methodFamily,
+      id, lineageId: e.supersedes?.lineageId ?? id, supersedesId: e.supersedes?.id ?? null, revision: e.supersedes ? e.supersedes.revision + 1 : 1, challengeSlug: e.slug, versionId: e.versionId, teamId: e.teamId, state: e.state, track: e.track, methodFamily: e.methodFamily,
       isBaseline: e.isBaseline ?? false, label: e.label, document: e.document,
       submittedAt: e.at, publishedAt: e.state === 'published' ? e.at : null, createdAt: e.at, updatedAt: e.at,
     });
+    // a published revision supersedes the published one before it (as publishEntry does for teams)
+    if (e.supersedes && e.state === 'published') {
+      await tx.update(entries).set({ state: 'superseded', updatedAt: e.at }).where(and(eq(entries.lineageId, e.supersedes.lineageId), eq(entries.state, 'published'), ne(entries.id, id)));
+    }
     for (let i = 0; i < e.estimates.length; i += 1000) await tx.insert(estimates).values(e.estimates.slice(i, i + 1000).map((x) => ({ ...x, entryId: id })));
     await recordAudit(tx, { actor: { kind: 'system', label: e.actorLabel }, action: e.state === 'published' ? 'entry.publish' : 'entry.submit', subjectType: 'entry', subjectId: id, at: e.at, details: e.auditDetails });
     const jobId = e.state === 'published' ? await enqueueJob(tx, 'standings', { versionId: e.versionId }, `standings:${e.versionId}`) : null;

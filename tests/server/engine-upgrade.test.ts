@@ -6,11 +6,12 @@
  * changes.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { and, eq, ne } from 'drizzle-orm';
+import { and, asc, eq, ne } from 'drizzle-orm';
 import { ENGINE_VERSION } from '../../shared/physics/reference';
 import { agent } from './helpers';
 import { makeEntryWorld, settle, type EntryWorld } from './entries-fixtures';
-import { auditLog, references, standings, targets } from '../../server/db/schema';
+import { auditLog, entries, estimates, references, standings, targets } from '../../server/db/schema';
+import { enqueueJob } from '../../server/jobs/queue';
 import { ENGINE_CHANGE, upgradeEngine } from '../../server/jobs/engine-upgrade';
 
 let w: EntryWorld;
@@ -61,4 +62,36 @@ describe('engine version change', () => {
     expect(kinds.some((e) => e.kind === 'standings')).toBe(true);
     expect(kinds.some((e) => e.kind === 'rescoring')).toBe(false);
   });
+  it('the house baseline of an older engine is replaced by a new revision at the next baseline job; the old one stays as an earlier revision', async () => {
+    const db = w.t.database.db;
+    const baselines = async () => db.select().from(entries).where(eq(entries.isBaseline, true)).orderBy(asc(entries.revision));
+    const [b] = await baselines();
+    expect(b).toBeDefined();
+    const doc = b.document as { resources: { software: { name: string }[] } };
+    expect(doc.resources.software[0].name).toBe(ENGINE_VERSION);
+    // the same engine: the job keeps it
+    await enqueueJob(db, 'baseline', { versionId: b.versionId }, `baseline:${b.versionId}`);
+    w.worker.kick();
+    await settle(w.t, w.worker);
+    expect(await baselines()).toHaveLength(1);
+    // made by an "older engine": replaced
+    await db.update(entries).set({ document: { ...(b.document as object), resources: { ...doc.resources, software: [{ name: OLD }] } } }).where(eq(entries.id, b.id));
+    w.t.clock.advance(60_000);
+    await enqueueJob(db, 'baseline', { versionId: b.versionId }, `baseline:${b.versionId}`);
+    w.worker.kick();
+    await settle(w.t, w.worker);
+    const all = await baselines();
+    expect(all.map((e) => [e.revision, e.state])).toEqual([[1, 'superseded'], [2, 'published']]);
+    expect(all[1].supersedesId).toBe(b.id);
+    expect(all[1].lineageId).toBe(b.lineageId);
+    expect((all[1].document as typeof doc).resources.software[0].name).toBe(ENGINE_VERSION);
+    const count = async (id: string) => (await db.select({ id: estimates.id }).from(estimates).where(eq(estimates.entryId, id))).length;
+    expect(await count(all[1].id)).toBe(await count(b.id));
+    // the standings list the new revision, not the old one
+    const s = await agent(w.t).get('/api/challenges/chain-12/standings');
+    expect(s.status).toBe(200);
+    const ids = (s.body.entries as { id: string }[]).map((e) => e.id);
+    expect(ids).toContain(all[1].id);
+    expect(ids).not.toContain(b.id);
+  }, 180_000);
 });
