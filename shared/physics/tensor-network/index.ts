@@ -117,36 +117,6 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
 export interface ContractOptions {
   /** called before every pairwise step (throw from it to stop the contraction) */
   onStep?: () => void;
-  /** arrays of dead intermediates for later outputs (one per thread, shared by its slices) */
-  pool?: ArrayPool;
-}
-
-/**
- * Dead intermediate arrays kept for reuse by length (the contraction's sizes are powers of two, so
- * lengths repeat): a fresh array costs its first-touch page faults, about a quarter of a width-23
- * contraction's time. At most `capBytes` are kept (the plan's peak estimate), so the pool never
- * doubles the memory a contraction needs.
- */
-export class ArrayPool {
-  private free = new Map<number, Float64Array[]>();
-  private bytes = 0;
-  constructor(private readonly capBytes: number) {}
-  take = (length: number): Float64Array => {
-    const list = this.free.get(length);
-    const a = list?.pop();
-    if (a) {
-      this.bytes -= a.byteLength;
-      return a;
-    }
-    return new Float64Array(length);
-  };
-  give(a: Float64Array): void {
-    if (a.length < 1024 || this.bytes + a.byteLength > this.capBytes) return;
-    const list = this.free.get(a.length);
-    if (list) list.push(a);
-    else this.free.set(a.length, [a]);
-    this.bytes += a.byteLength;
-  }
 }
 
 export function contractSlice(plan: TnTermPlan, i: number, opts: ContractOptions = {}): [number, number] {
@@ -154,19 +124,13 @@ export function contractSlice(plan: TnTermPlan, i: number, opts: ContractOptions
   const fixed = new Map<number, number>();
   plan.sliced.forEach((leg, j) => fixed.set(leg, (i >> j) & 1));
   const ts: (Tensor | null)[] = plan.leaves.map((t) => (fixed.size ? sliceTensor(t, fixed) : t));
-  const nLeaves = plan.leaves.length;
-  const pool = opts.pool ?? new ArrayPool(plan.memoryBytes);
   plan.pairs.forEach(([a, b], s) => {
     opts.onStep?.();
     const A = ts[a] as Tensor, B = ts[b] as Tensor;
     const sum = new Set(plan.sumLegs[s]);
     ts[a] = null;
     ts[b] = null;
-    const C = contractPair(A, B, pairLayout(A.legs, B.legs, (l) => sum.has(l)), pool.take);
-    // inputs made by this slice (intermediates, sliced leaves) are dead now: their arrays serve later outputs
-    if (a >= nLeaves || A !== plan.leaves[a]) pool.give(A.data);
-    if (b >= nLeaves || B !== plan.leaves[b]) pool.give(B.data);
-    ts.push(C);
+    ts.push(contractPair(A, B, pairLayout(A.legs, B.legs, (l) => sum.has(l))));
   });
   const last = ts[ts.length - 1] as Tensor | null;
   if (!last || last.legs.length !== 0) {
@@ -198,9 +162,8 @@ export function sliceBlocks(slices: number): [number, number][] {
 export function contractSliceRange(plan: TnTermPlan, start: number, end: number, opts: ContractOptions = {}): [number, number] {
   if (plan.leaves.length === 0) return start === 0 && end > 0 ? [plan.scalar[0], plan.scalar[1]] : [0, 0];
   let re = 0, im = 0;
-  const withPool = { ...opts, pool: opts.pool ?? new ArrayPool(plan.memoryBytes) };
   for (let i = start; i < end; i++) {
-    const [a, b] = contractSlice(plan, i, withPool);
+    const [a, b] = contractSlice(plan, i, opts);
     re += a;
     im += b;
   }
