@@ -3,6 +3,7 @@ import { defineConfig } from 'vite';
 import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
 import { fileURLToPath } from 'node:url';
+import LongFirstSequencer from './tests/support/sequencer';
 
 const here = (p: string) => fileURLToPath(new URL(p, import.meta.url));
 
@@ -17,6 +18,15 @@ export default defineConfig({
   resolve: { alias },
   build: { outDir: 'dist', sourcemap: false, chunkSizeWarningLimit: 900 },
   test: {
+    // Two test files at a time (vitest's default is one fewer than the cores: a single worker on
+    // CI's 2 cores). Most server files wait on I/O, timers or child processes (the kill -9 loop
+    // sleeps and restarts a server), so two share the cores well. The browser specs run after
+    // everything else, one at a time (group 1), while the demo data directory they start from is
+    // prepared in the background from the start of the run (tests/e2e/global-setup.ts).
+    // TEST_WORKERS overrides the figure.
+    maxWorkers: Number(process.env.TEST_WORKERS ?? 2),
+    // the long files first (the kill -9 loop), so that they run beside the others (tests/support/sequencer.ts)
+    sequence: { sequencer: LongFirstSequencer },
     projects: [
       {
         resolve: { alias },
@@ -55,8 +65,13 @@ export default defineConfig({
           include: ['tests/e2e/**/*.spec.ts'],
           environment: 'node',
           testTimeout: 120_000,
-          hookTimeout: 180_000,
+          // a spec's beforeAll may wait for the demo data directory still being prepared in the
+          // background (about 3 min when a spec is run alone; far longer on a crowded machine; the
+          // preparation gives up after 10 min of jobs, tests/e2e/prepare-demo.ts)
+          hookTimeout: 900_000,
           fileParallelism: false,
+          maxWorkers: 1,
+          sequence: { groupOrder: 1 },
           globalSetup: ['tests/e2e/global-setup.ts'],
         },
       },
