@@ -24,7 +24,7 @@ export interface RunningServer { url: string; dataDir: string; output: () => str
  * Waits until the demo data directory that tests/e2e/global-setup.ts prepares in the background is
  * ready (its process exited 0); throws with that process's output if it failed.
  */
-export async function waitForDemo(timeoutMs = 870_000): Promise<string> {
+export async function waitForDemo(timeoutMs = 1_680_000): Promise<string> {
   const demo = inject('demoDataDir');
   const work = path.dirname(demo);
   const deadline = Date.now() + timeoutMs;

@@ -8,7 +8,7 @@
 import { BaseSequencer, type TestSpecification } from 'vitest/node';
 
 /** the longest files of the run, longest first (test-output/vitest.json of a CI run) */
-const LONG_FIRST = ['tests/server/durability.test.ts', 'tests/server/fuzz.test.ts', 'tests/server/backup.test.ts', 'tests/server/abuse.test.ts'];
+const LONG_FIRST = ['tests/server/durability.test.ts', 'tests/server/backup.test.ts', 'tests/server/abuse.test.ts', 'tests/server/uploads.test.ts'];
 
 const rank = (spec: TestSpecification) => {
   const file = spec.moduleId.replaceAll('\\', '/');
