@@ -2,7 +2,8 @@
  * Validating and storing one entry of 100,000 estimates (the format's limit) on an in-memory
  * PGlite: strict JSON parse of the text, JSON Schema, challenge checks (target ids, duplicates,
  * bounds, coverage) and the one-transaction write. Target (the issue): under 3 s.
- * Run: node --import tsx bench/entries.bench.ts
+ * Run: node --import tsx bench/entries.bench.ts. Exits 1 on a MISS. Short form (BENCH_SHORT=1): the
+ * same (two entries of 100,000 estimates; it takes seconds).
  */
 import { openDatabase } from '../server/db/client';
 import { applyMigrations } from '../server/db/migrate';

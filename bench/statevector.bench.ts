@@ -1,6 +1,9 @@
 /**
  * Statevector engine speed against a plain copy of the same state (same arrays, same run).
- * Run: node --import tsx --expose-gc bench/statevector.bench.ts
+ * Run: node --import tsx --expose-gc bench/statevector.bench.ts. Exits 1 when a target of the
+ * default (WebAssembly) engine is missed. Short form (BENCH_SHORT=1): the same 24-qubit state and
+ * the same paired timings against the copy, with fewer repetitions (3 instead of 7 per gate, 3
+ * instead of 5 per step), and without the plain JavaScript engine (for comparison only, no targets).
  * Targets (brief): one single-qubit gate pass over 2^24 amplitudes <= 1.3 x copy;
  * a whole kicked-Ising step on a 24-qubit chain (24 RX + 23 RZZ) <= 0.6 x 47 copy times.
  *
@@ -63,7 +66,8 @@ console.log(`statevector bench: ${N_QUBITS} qubits, 2^${N_QUBITS} amplitudes, ${
 const results: Record<string, number> = {};
 let stepMs = 0;
 let stepMedianMs = 0;
-for (const engine of ['wasm', 'js'] as const) {
+const SHORT = process.env.BENCH_SHORT === '1';
+for (const engine of SHORT ? (['wasm'] as const) : (['wasm', 'js'] as const)) {
   const sv = new Statevector(N_QUBITS, { engine });
   sv.apply(step(N_QUBITS, 0.7, 0.4, true)); // a generic state
   const copy = new Float64Array(sv.data.length);
@@ -72,7 +76,7 @@ for (const engine of ['wasm', 'js'] as const) {
   console.log(`\n--- engine: ${sv.engine}${main ? ' (default: WebAssembly SIMD kernels)' : ' (plain typed-array fallback, for comparison; targets not counted)'} ---`);
   const rxm = gateMatrix({ name: 'rx', qubits: [0], params: [0.37] });
   const hm = gateMatrix({ name: 'h', qubits: [0] });
-  const reps = main ? 7 : 3;
+  const reps = main ? (SHORT ? 3 : 7) : 3;
   for (const q of [0, 12, 23]) {
     for (const [label, m] of [['RX', rxm], ['H (general 2x2 kernel)', hm]] as [string, Mat2][]) {
       const t = timeVsCopy(sv, copy, () => sv.applyMatrix(q, m), reps);
@@ -80,7 +84,7 @@ for (const engine of ['wasm', 'js'] as const) {
     }
   }
   const ki = step(N_QUBITS, 0.7, 0.4, true);
-  const t = timeVsCopy(sv, copy, () => sv.apply(ki), main ? 5 : 2);
+  const t = timeVsCopy(sv, copy, () => sv.apply(ki), main ? (SHORT ? 3 : 5) : 2);
   if (main) {
     stepMs = t.min;
     stepMedianMs = t.median;
@@ -114,6 +118,7 @@ console.log(`  chain Z-site cone (k = 2t - 1 qubits after t steps): ${zCone.k} q
 console.log(`  a cone of k qubits after 20 steps: ${fixed20.k} qubits, ~${(fixed20.ms / 1000).toFixed(1)} s, ${statevectorBytes(fixed20.k) / 2 ** 20} MiB`);
 console.log(`  (1 GiB alone caps any cone at 26 qubits, the engine's default limit)`);
 console.log(`\nbench total ${((performance.now() - t00) / 1000).toFixed(1)} s; default engine: ${allPass ? 'all targets PASS' : 'some targets MISS'}`);
+if (!allPass) process.exitCode = 1;
 
 // Planner calibration (shared/physics/planner/rates.ts STATEVECTOR_RATE, amplitude-gate updates/s):
 // the layered kicked-Ising step on the default (WebAssembly) kernel, 2^24 amplitudes x 47 gates /

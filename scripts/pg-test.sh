@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # The API test suite on a real PostgreSQL server: starts a throwaway server (initdb into a temporary
 # directory, a free local port, its socket in that directory), runs
-# `TEST_DATABASE_URL=postgres://... vitest run --project server` (each test app gets its own database,
+# `TEST_DATABASE_URL=postgres://... vitest run --project server --project server-timed` (each test app gets its own database,
 # see tests/server/helpers.ts; tests/server/workers.test.ts runs only here), then stops it.
 # As root the server runs as the 'postgres' user (created if missing). Installs Debian's postgresql
 # when no server binary exists and we are root. Extra arguments go to vitest.
@@ -42,7 +42,7 @@ echo "pg-test: PostgreSQL $("$PGBIN/postgres" --version | awk '{print $3}') on 1
 # running them again here would test nothing new. Everything else runs on PostgreSQL, each test
 # database copied from a migrated template (CREATE DATABASE ... TEMPLATE, tests/server/helpers.ts).
 status=0
-TEST_DATABASE_URL="postgres://parallax@127.0.0.1:$PORT/postgres" node node_modules/vitest/vitest.mjs run --project server \
+TEST_DATABASE_URL="postgres://parallax@127.0.0.1:$PORT/postgres" node node_modules/vitest/vitest.mjs run --project server --project server-timed \
   --exclude tests/server/durability.test.ts --exclude tests/server/backup.test.ts --exclude tests/server/uploads.test.ts "$@" || status=$?
 if [ $status -ne 0 ]; then echo "pg-test: the API tests failed on PostgreSQL (server log: last lines below)" >&2; tail -20 "$TMP/server.log" >&2 || true; fi
 exit $status

@@ -4,7 +4,7 @@
  * Debian's chromium driven by playwright-core. Screenshots go to test-output/screenshots/.
  */
 import { spawn, execFileSync } from 'node:child_process';
-import { cpSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { inject } from 'vitest';
 import os from 'node:os';
 import path from 'node:path';
@@ -19,6 +19,23 @@ export const DEMO_PASSWORD = 'parallax-demo-2026';
 export { freePort };
 
 export interface RunningServer { url: string; dataDir: string; output: () => string; stop(): Promise<void> }
+
+/**
+ * Waits until the demo data directory that tests/e2e/global-setup.ts prepares in the background is
+ * ready (its process exited 0); throws with that process's output if it failed.
+ */
+export async function waitForDemo(timeoutMs = 1_680_000): Promise<string> {
+  const demo = inject('demoDataDir');
+  const work = path.dirname(demo);
+  const deadline = Date.now() + timeoutMs;
+  while (!existsSync(path.join(work, 'exit.txt'))) {
+    if (Date.now() > deadline) throw new Error(`the demo data directory was not prepared in ${timeoutMs / 1000} s`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  const status = readFileSync(path.join(work, 'exit.txt'), 'utf8');
+  if (status !== '0') throw new Error(`preparing the demo data directory failed (${status}):\n${readFileSync(path.join(work, 'prepare.log'), 'utf8').slice(-4000)}`);
+  return demo;
+}
 
 /**
  * A real server on a fresh data directory (a copy of the prepared demo one unless SEED_DEMO=0);
@@ -37,7 +54,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
 async function startServerOnce(env: Record<string, string>): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = mkdtempSync(path.join(os.tmpdir(), 'parallax-e2e-'));
-  if (env.SEED_DEMO !== '0') cpSync(inject('demoDataDir'), dataDir, { recursive: true });
+  if (env.SEED_DEMO !== '0') cpSync(await waitForDemo(), dataDir, { recursive: true });
   const url = `http://127.0.0.1:${port}`;
   const child = spawn(process.execPath, [inject('serverBundle')], {
     cwd: root,

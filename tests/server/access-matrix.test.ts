@@ -21,7 +21,7 @@ const ADMIN = (ok: number): Row => ({ anon: 401, memberA: 403, leadA: 403, membe
 const TEAM_A = (ok: number): Row => ({ anon: 401, memberA: ok, leadA: ok, memberB: 403, moderator: 403, admin: 403, keyA: ok });
 
 interface Probe { row: Row; path: (ids: Ids) => string; body?: (ids: Ids) => object }
-interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string; entryReview: string; entryDelete: string }
+interface Ids { teamA: string; teamB: string; memberBUserId: string; messageId: string; jobId: string; checksum: string; spareKeyId: string; adminFollowId: string; unfollowToken: string; entryDraft: string; entrySubmit: string; entryWithdraw: string; entryPublished: string; entryReview: string; entryDelete: string }
 // a spec the moderators' routes accept (400 for everyone else never happens: access is checked first)
 const SPEC = { id: 'matrix-chain', version: 1, title: 'Matrix chain', description: 'x', lattice: { kind: 'chain', n: 4 }, circuit: { family: 'kicked-ising', steps: [1], thetaH: [0.1] }, observables: [{ id: 'z1', pauli: 'Z1' }] };
 
@@ -36,7 +36,9 @@ const MATRIX: Record<string, Probe> = {
   'GET /teams/:teamId/invitations': { row: LEAD_A(200), path: (i) => `/api/teams/${i.teamA}/invitations` },
   'GET /teams/:teamId/api-keys': { row: LEAD_A(200), path: (i) => `/api/teams/${i.teamA}/api-keys` },
   'POST /teams/:teamId/api-keys': { row: LEAD_A(201), path: (i) => `/api/teams/${i.teamA}/api-keys`, body: () => ({ name: 'matrix' }) },
-  'DELETE /teams/:teamId/api-keys/:keyId': { row: LEAD_A(404), path: (i) => `/api/teams/${i.teamA}/api-keys/no-such-key` },
+  // an existing second key of team A (not the one keyA uses): everyone but the lead is refused on it, so a
+  // wrong decision for an earlier caller revokes it and the lead's call then fails with 404
+  'DELETE /teams/:teamId/api-keys/:keyId': { row: LEAD_A(200), path: (i) => `/api/teams/${i.teamA}/api-keys/${i.spareKeyId}` },
   'GET /admin/users': { row: ADMIN(200), path: () => '/api/admin/users' },
   'POST /admin/users/:userId/role': { row: ADMIN(200), path: (i) => `/api/admin/users/${i.memberBUserId}/role`, body: () => ({ role: 'user' }) },
   'POST /admin/users/:userId/ban': { row: ADMIN(200), path: (i) => `/api/admin/users/${i.memberBUserId}/ban`, body: () => ({ banned: false }) },
@@ -102,8 +104,11 @@ const MATRIX: Record<string, Probe> = {
   // following: signed-in users only; API keys are for entries
   'GET /me/follows': { row: { anon: 401, memberA: 200, leadA: 200, memberB: 200, moderator: 200, admin: 200, keyA: 403 }, path: () => '/api/me/follows' },
   'POST /follows': { row: { anon: 401, memberA: 201, leadA: 201, memberB: 201, moderator: 201, admin: 201, keyA: 403 }, path: () => '/api/follows', body: () => ({ subjectType: 'challenge', subjectId: 'seeded-chain' }) },
-  'DELETE /follows/:followId': { row: { anon: 401, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 403 }, path: () => '/api/follows/00000000-0000-0000-0000-000000000000' },
-  'POST /follows/unfollow': { row: { anon: 404, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/follows/unfollow', body: () => ({ token: 'no-such-token-at-all' }) },
+  // an existing follow of the admin (the last signed-in caller): the others' calls meet a follow that
+  // exists but is not theirs (404, and it must stay: the admin's own call then removes it)
+  'DELETE /follows/:followId': { row: { anon: 401, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 200, keyA: 403 }, path: (i) => `/api/follows/${i.adminFollowId}` },
+  // the token of an existing follow of member B: whoever holds it unfollows (anon first, 200); used once, later calls find nothing
+  'POST /follows/unfollow': { row: { anon: 200, memberA: 404, leadA: 404, memberB: 404, moderator: 404, admin: 404, keyA: 404 }, path: () => '/api/follows/unfollow', body: (i) => ({ token: i.unfollowToken }) },
   'GET /challenges/:slug/feed.atom': { row: ALL_200, path: () => '/api/challenges/seeded-chain/feed.atom' },
 };
 
@@ -141,7 +146,19 @@ beforeAll(async () => {
   expect((await as.moderator.post('/api/challenges', seeded)).status).toBe(201);
   const pub = await as.moderator.post('/api/challenges/seeded-chain/publish', {});
   expect(pub.status).toBe(200);
-  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '', entryReview: '', entryDelete: '' };
+  ids = { teamA: a.teamId, teamB: b.teamId, memberBUserId: users.find((u) => u.email === 'member-b@m.test')!.id, messageId: outbox[0].id, jobId: pub.body.jobId, checksum: pub.body.checksum, spareKeyId: '', adminFollowId: '', unfollowToken: '', entryDraft: '', entrySubmit: '', entryWithdraw: '', entryPublished: '', entryReview: '', entryDelete: '' };
+  // existing objects for the routes that act on one: a second API key of team A, a follow of the
+  // admin (team B), and a follow of member B (team A) whose unfollow token is read from the database
+  const spare = await as.leadA.post(`/api/teams/${a.teamId}/api-keys`, { name: 'spare key' });
+  expect(spare.status).toBe(201);
+  ids.spareKeyId = spare.body.id;
+  const adminFollow = await as.admin.post('/api/follows', { subjectType: 'team', subjectId: b.teamId });
+  expect(adminFollow.status).toBe(201);
+  ids.adminFollowId = adminFollow.body.id;
+  const bFollow = await as.memberB.post('/api/follows', { subjectType: 'team', subjectId: a.teamId });
+  expect(bFollow.status).toBe(201);
+  const bRow = await t.database.db.query.follows.findFirst({ where: (f, { eq }) => eq(f.id, bFollow.body.id as string) });
+  ids.unfollowToken = bRow!.token;
   // team A's entries in the states the entry routes need
   const newEntry = async () => {
     const r = await as.memberA!.post('/api/challenges/seeded-chain/entries', ENTRY(ids));

@@ -62,13 +62,15 @@ describe('kill -9 loop', () => {
     let s = await spawnServer(dir);
     for (let cycle = 0; cycle < CYCLES; cycle++) {
       let stop = false;
+      let firstAck!: () => void;
+      const acknowledged = new Promise<void>((r) => { firstAck = r; });
       // three writers, each posting entries back to back until the process dies
       const writer = async (w: number) => {
         for (let i = 0; !stop; i++) {
           attempts++;
           try {
             const r = await postEntry(s, `c${cycle}-w${w}-${i}`);
-            if (r.status === 201) acked.push(((await r.json()) as { id: string }).id);
+            if (r.status === 201) { acked.push(((await r.json()) as { id: string }).id); firstAck(); }
             else { await r.text(); if (!stop) throw new Error(`unexpected ${r.status}`); }
           } catch (e) {
             if (!stop) throw e;
@@ -76,7 +78,11 @@ describe('kill -9 loop', () => {
         }
       };
       const writers = [0, 1, 2].map(writer);
-      await new Promise((r) => setTimeout(r, 200 + Math.random() * 1300));
+      // the kill comes at a random moment after this cycle's first acknowledged entry (writes are
+      // in flight then): every cycle tests something however slow the machine is (a fixed window
+      // from the start could pass with nothing acknowledged at all on a crowded machine)
+      await Promise.race([acknowledged, Promise.all(writers)]);
+      await new Promise((r) => setTimeout(r, Math.random() * 1000));
       stop = true;
       const exit = await s.kill('SIGKILL');
       expect(exit.signal).toBe('SIGKILL');
@@ -93,6 +99,7 @@ describe('kill -9 loop', () => {
       }
     }
     await s.kill('SIGTERM');
+    expect(acked.length, 'at least one acknowledged entry per cycle').toBeGreaterThanOrEqual(CYCLES);
 
     // the invariants, on the directory itself
     const db = await openDatabase({ dataDir: path.join(dir, 'pglite') });
