@@ -158,15 +158,54 @@ export interface GreedyParams {
   temperature: number;
 }
 
+/**
+ * The live tensors of a tree being built: their legs, which tensor holds each leg, and the SSA
+ * pairs so far. Shared by the greedy and the elimination builders.
+ */
+class Builder {
+  readonly total: Int32Array;
+  readonly legs: (Legs | null)[];
+  readonly holders: Set<number>[];
+  readonly pairs: [number, number][] = [];
+  live: number;
+  constructor(leaves: readonly (readonly number[])[], nLegs: number) {
+    this.total = totals(leaves, nLegs);
+    this.legs = leaves.map(leafLegs);
+    this.holders = Array.from({ length: nLegs }, () => new Set<number>());
+    this.legs.forEach((l, i) => {
+      for (const x of (l as Legs).ids) this.holders[x].add(i);
+    });
+    this.live = leaves.length;
+  }
+  /** contract u and v into a new id (returned) */
+  contract(u: number, v: number): number {
+    const a = this.legs[u] as Legs, b = this.legs[v] as Legs;
+    const { out } = mergeLegs(a, b, this.total);
+    const w = this.legs.length;
+    this.legs.push(out);
+    this.legs[u] = null;
+    this.legs[v] = null;
+    for (const x of a.ids) this.holders[x].delete(u);
+    for (const x of b.ids) this.holders[x].delete(v);
+    for (const x of out.ids) this.holders[x].add(w);
+    this.pairs.push([u, v]);
+    this.live--;
+    return w;
+  }
+  /** pieces not linked by any index (scalars, disconnected parts): the two smallest next */
+  contractSmallestTwo(): number {
+    const rest: number[] = [];
+    this.legs.forEach((l, i) => { if (l) rest.push(i); });
+    rest.sort((x, y) => (this.legs[x] as Legs).ids.length - (this.legs[y] as Legs).ids.length);
+    return this.contract(rest[0], rest[1]);
+  }
+}
+
 /** One greedy run. */
 export function greedyTree(leaves: readonly (readonly number[])[], nLegs: number, p: GreedyParams, random: () => number): ContractionTree {
   const T = leaves.length;
-  const total = totals(leaves, nLegs);
-  const legs: (Legs | null)[] = leaves.map(leafLegs);
-  const holders: Set<number>[] = Array.from({ length: nLegs }, () => new Set<number>());
-  legs.forEach((l, i) => {
-    for (const x of (l as Legs).ids) holders[x].add(i);
-  });
+  const st = new Builder(leaves, nLegs);
+  const { total, legs, holders } = st;
   const heap = new Heap();
   const score = (a: Legs, b: Legs): number => {
     const { rank } = mergeRank(a, b, total);
@@ -188,41 +227,19 @@ export function greedyTree(leaves: readonly (readonly number[])[], nLegs: number
     }
   };
   for (let i = 0; i < T; i++) pushPairsOf(i);
-  const pairs: [number, number][] = [];
-  let live = T;
-  const contract = (u: number, v: number) => {
-    const a = legs[u] as Legs, b = legs[v] as Legs;
-    const { out } = mergeLegs(a, b, total);
-    const w = legs.length;
-    legs.push(out);
-    legs[u] = null;
-    legs[v] = null;
-    for (const x of a.ids) holders[x].delete(u);
-    for (const x of b.ids) holders[x].delete(v);
-    for (const x of out.ids) holders[x].add(w);
-    pairs.push([u, v]);
-    live--;
-    pushPairsOf(w);
-  };
-  while (live > 1) {
+  while (st.live > 1) {
     let done = false;
     while (heap.size) {
       const [u, v] = heap.pop();
       if (legs[u] && legs[v]) {
-        contract(u, v);
+        pushPairsOf(st.contract(u, v));
         done = true;
         break;
       }
     }
-    if (!done) {
-      // disconnected components left: outer products, smallest first
-      const rest: number[] = [];
-      legs.forEach((l, i) => { if (l) rest.push(i); });
-      rest.sort((x, y) => (legs[x] as Legs).ids.length - (legs[y] as Legs).ids.length);
-      contract(rest[0], rest[1]);
-    }
+    if (!done) pushPairsOf(st.contractSmallestTwo());
   }
-  return { nLeaves: T, pairs };
+  return { nLeaves: T, pairs: st.pairs };
 }
 
 // ------------------------------------------------------------------------------------------------
@@ -249,12 +266,8 @@ export interface EliminationParams {
  */
 export function eliminationTree(leaves: readonly (readonly number[])[], nLegs: number, p: EliminationParams, random: () => number): ContractionTree | null {
   const T = leaves.length;
-  const total = totals(leaves, nLegs);
-  const legs: (Legs | null)[] = leaves.map(leafLegs);
-  const holders: Set<number>[] = Array.from({ length: nLegs }, () => new Set<number>());
-  legs.forEach((l, i) => {
-    for (const x of (l as Legs).ids) holders[x].add(i);
-  });
+  const st = new Builder(leaves, nLegs);
+  const { total, legs, holders } = st;
   const adj: Set<number>[] = Array.from({ length: nLegs }, () => new Set<number>());
   for (const l of leaves) {
     for (const a of l) for (const b of l) if (a !== b) adj[a].add(b);
@@ -276,22 +289,6 @@ export function eliminationTree(leaves: readonly (readonly number[])[], nLegs: n
     return f + nb.length / 1024;
   };
   const noise = (): number => (p.temperature > 0 ? p.temperature * -Math.log(-Math.log(random() || 1e-300)) : 0);
-  const pairs: [number, number][] = [];
-  let live = T;
-  const contract = (u: number, v: number): number => {
-    const a = legs[u] as Legs, b = legs[v] as Legs;
-    const { out } = mergeLegs(a, b, total);
-    const w = legs.length;
-    legs.push(out);
-    legs[u] = null;
-    legs[v] = null;
-    for (const x of a.ids) holders[x].delete(u);
-    for (const x of b.ids) holders[x].delete(v);
-    for (const x of out.ids) holders[x].add(w);
-    pairs.push([u, v]);
-    live--;
-    return w;
-  };
   let remaining = aliveList.length;
   while (remaining > 0) {
     // the alive index with the lowest (noisy) score
@@ -316,7 +313,7 @@ export function eliminationTree(leaves: readonly (readonly number[])[], nLegs: n
     const bucket = [...holders[v]];
     while (bucket.length > 1) {
       bucket.sort((x, y) => (legs[x] as Legs).ids.length - (legs[y] as Legs).ids.length);
-      const w = contract(bucket[0], bucket[1]);
+      const w = st.contract(bucket[0], bucket[1]);
       bucket.splice(0, 2, w);
     }
     // indices summed away by these contractions (v and any whose last holders met) leave the graph
@@ -346,13 +343,8 @@ export function eliminationTree(leaves: readonly (readonly number[])[], nLegs: n
     }
   }
   // what is left (scalars, or pieces not linked by any index): smallest first
-  while (live > 1) {
-    const rest: number[] = [];
-    legs.forEach((l, i) => { if (l) rest.push(i); });
-    rest.sort((x, y) => (legs[x] as Legs).ids.length - (legs[y] as Legs).ids.length);
-    contract(rest[0], rest[1]);
-  }
-  return { nLeaves: T, pairs };
+  while (st.live > 1) st.contractSmallestTwo();
+  return { nLeaves: T, pairs: st.pairs };
 }
 
 /** Width, flops and memory of a tree, with the legs in `sliced` fixed (flops over all slices). */
