@@ -24,7 +24,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { TN_RATE } from '../shared/physics/planner/rates';
+import { TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS, tnSeconds } from '../shared/physics/planner/rates';
 import { checkRate } from './rate-check';
 import type { PauliFactor } from '../shared/physics/circuit';
 import { kickedIsing } from '../shared/physics/kicked-ising';
@@ -244,23 +244,57 @@ if (process.argv.includes('--heavy')) {
 }
 
 // ------------------------------------------------------------------------------------------------
-// Planner calibration (shared/physics/planner/rates.ts TN_RATE, real flops/s): the default
-// contraction (contractPlan as the runner calls it) on each unsliced network up to 2^33 flops,
-// best of 3; the median of the rates.
+// Planner calibration (shared/physics/planner/rates.ts TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS):
+// the default contraction (contractPlan as the runner calls it) on kicked-Ising light-cone networks
+// of 2^20 to 2^34 flops (best of 2 or 3), the three constants of tnSeconds fitted by least squares
+// on relative error, each checked against its constant; and the model with the constants in use
+// against every network.
 {
-  const tnRates: number[] = [];
-  for (const { plan } of cases) {
-    if (plan.slices > 1 || plan.flops > 2 ** 33) continue;
+  const calib: { label: string; plan: TnTermPlan }[] = [];
+  const sq6 = square(6, 6);
+  const pick = (label: string, g: Graph, steps: number, q: number, w: number) => {
+    const factors: PauliFactor[] = ball(g, q, w).map((qubit, i) => ({ qubit, op: w === 1 ? 'Z' : (['X', 'Y', 'Z'] as const)[i % 3] }));
+    const plan = planTerm(kickedIsing(g.n, edgeColouring(g.n, g.edges), { steps, thetaH: 0.7, thetaJ: 0.3 }), factors);
+    if (plan.slices === 1 && plan.flops >= 2 ** 20 && plan.flops <= 2 ** 34) calib.push({ label, plan });
+  };
+  for (const [s, w] of [[4, 10], [4, 17], [5, 10], [5, 17]]) pick(`heavy-hex ${s} steps, weight ${w}`, hh, s, 20, w);
+  for (const [s, w] of [[3, 2], [3, 5], [4, 2], [5, 1]]) pick(`square 7x7 ${s} steps, weight ${w}`, sq, s, 24, w);
+  for (const [s, w] of [[4, 2], [5, 1], [5, 2]]) pick(`square 6x6 ${s} steps, weight ${w}`, sq6, s, 14, w);
+  const rows: { label: string; x: [number, number, number]; t: number }[] = [];
+  for (const { label, plan } of calib) {
     let best = Infinity;
-    for (let i = 0; i < 3; i++) {
+    for (let i = 0; i < (plan.flops < 2 ** 28 ? 3 : 2); i++) {
       const t0 = performance.now();
       contractPlan(plan);
       best = Math.min(best, performance.now() - t0);
     }
-    tnRates.push(plan.flops / (best / 1000));
+    rows.push({ label, x: [plan.flops, plan.moves, plan.steps], t: best / 1000 });
   }
-  console.log(`\nplanner calibration: contraction rates ${tnRates.map((r) => r.toExponential(2)).join(', ')} real flops/s`);
-  allPass = checkRate('TN_RATE', TN_RATE, [...tnRates].sort((a, b) => a - b)[Math.floor(tnRates.length / 2)], 'real flops/s') && allPass;
+  // weighted least squares (weights 1/t: relative error) through the 3x3 normal equations
+  const N = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const r = [0, 0, 0];
+  for (const { x, t } of rows) {
+    const w = 1 / (t * t);
+    for (let i = 0; i < 3; i++) {
+      r[i] += w * x[i] * t;
+      for (let j = 0; j < 3; j++) N[i][j] += w * x[i] * x[j];
+    }
+  }
+  const det = (m: number[][]) => m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+  const d = det(N);
+  const fit = [0, 1, 2].map((k) => det(N.map((row, i) => row.map((v, j) => (j === k ? r[i] : v)))) / d);
+  console.log(`\nplanner calibration: ${rows.length} networks; fitted ${(1 / fit[0]).toExponential(2)} flops/s, ${(1 / fit[1]).toExponential(2)} elements/s, ${(fit[2] * 1e6).toFixed(2)} us per step`);
+  for (const { label, x, t } of rows) {
+    const model = tnSeconds({ flops: x[0], moves: x[1], steps: x[2] });
+    console.log(`  ${label.padEnd(32)} 2^${Math.log2(x[0]).toFixed(1)} flops, measured ${(t * 1000).toFixed(1)} ms, model ${(model * 1000).toFixed(1)} ms (model / measured ${(model / t).toFixed(2)})`);
+  }
+  allPass = checkRate('TN_GEMM_RATE', TN_GEMM_RATE, 1 / fit[0], 'real flops/s') && allPass;
+  allPass = checkRate('TN_MOVE_RATE', TN_MOVE_RATE, 1 / fit[1], 'elements/s') && allPass;
+  console.log(`planner constant TN_STEP_SECONDS = ${TN_STEP_SECONDS.toExponential(2)} s; fitted ${fit[2].toExponential(2)} s (printed, not a target: the step term matters only for networks of a few milliseconds)`);
+  // the model with the constants in use: the median ratio within the tolerance
+  const ratios = rows.map(({ x, t }) => tnSeconds({ flops: x[0], moves: x[1], steps: x[2] }) / t).sort((a, b) => a - b);
+  const median = ratios[Math.floor(ratios.length / 2)];
+  allPass = checkRate('tnSeconds (1 / median of model / measured)', 1, 1 / median, 'x') && allPass;
 }
 
 console.log(allPass ? '\ntensor-network bench: all targets PASS' : '\ntensor-network bench: a target was MISSED');

@@ -46,8 +46,8 @@ export interface Config {
   teamLimits: { teamsPerUser: number; invitesPerSenderPerHour: number; invitesPerRecipientPerDay: number };
   /** better-auth's own per-address limits per minute: sign-up, reset and verification requests */
   authRateLimits: { signUpPerMinute: number; mailPerMinute: number };
-  /** exact-reference planner limits: estimated seconds per target, light-cone qubits */
-  referenceBudget: { secondsPerTarget: number; coneQubitLimit: number };
+  /** exact-reference planner limits: estimated seconds per target, light-cone qubits, slice threads (= referenceThreads) */
+  referenceBudget: { secondsPerTarget: number; coneQubitLimit: number; tnThreads: number };
   /** run reference jobs in this process */
   runWorker: boolean;
   /** worker threads that share the slices of one sliced tensor-network contraction (REFERENCE_THREADS) */
@@ -76,6 +76,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const port = Number(env.PORT ?? 3000);
   const host = env.HOST ?? '127.0.0.1';
   const dataDir = path.resolve(env.DATA_DIR ?? './data');
+  const referenceThreads = Math.max(1, Math.floor(Number(env.REFERENCE_THREADS ?? Math.max(2, availableParallelism() - 1))) || 1);
   return {
     port,
     host,
@@ -100,9 +101,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signInThrottle: { windowMs: 10_000, maxFailures: 3, perAddressFailures: 30, maxDelayMs: 15 * 60_000, forgetAfterMs: 86_400_000 },
     teamLimits: { teamsPerUser: 5, invitesPerSenderPerHour: 20, invitesPerRecipientPerDay: 3 },
     authRateLimits: { signUpPerMinute: 10, mailPerMinute: 5 },
-    referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? DEFAULT_REFERENCE_BUDGET.secondsPerTarget), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? DEFAULT_REFERENCE_BUDGET.coneQubitLimit) },
+    referenceBudget: { secondsPerTarget: Number(env.REFERENCE_SECONDS_BUDGET ?? DEFAULT_REFERENCE_BUDGET.secondsPerTarget), coneQubitLimit: Number(env.REFERENCE_CONE_QUBITS ?? DEFAULT_REFERENCE_BUDGET.coneQubitLimit), tnThreads: referenceThreads },
     runWorker: env.RUN_WORKER !== '0',
-    referenceThreads: Math.max(1, Math.floor(Number(env.REFERENCE_THREADS ?? Math.max(2, availableParallelism() - 1))) || 1),
+    referenceThreads,
     tnSliceJobs: {
       above: env.TN_SLICE_JOBS_ABOVE === '0' ? null : env.TN_SLICE_JOBS_ABOVE ? Number(env.TN_SLICE_JOBS_ABOVE) : env.DATABASE_URL ? 64 : null,
       perTerm: Math.max(1, Number(env.TN_SLICE_JOBS_PER_TERM ?? 8) || 8),

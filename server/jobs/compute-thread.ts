@@ -77,7 +77,7 @@ function computeTargets() {
   // the same planner options as /plan and the preview (server/planner-options.ts); a sliced
   // tensor-network term spreads its slice blocks over the slice threads
   const runner = new ReferenceRunner(challenge, {
-    ...plannerOptions(req.planner ? { secondsPerTarget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit, tnMemoryBytes: req.planner.tnMemoryBytes } : DEFAULT_REFERENCE_BUDGET),
+    ...plannerOptions({ ...(req.planner ? { secondsPerTarget: req.planner.secondsBudget, coneQubitLimit: req.planner.coneQubitLimit, tnMemoryBytes: req.planner.tnMemoryBytes } : DEFAULT_REFERENCE_BUDGET), tnThreads: req.sliceThreads ?? 1 }),
     contractTerm: (plan, at) => pool.contract(plan, {
       onStep: at.onStep,
       onBlock: blockProgress(done + at.term / at.terms, 1 / at.terms, req.targetIds.length, `${current}: tensor network, term ${at.term + 1} of ${at.terms}`),

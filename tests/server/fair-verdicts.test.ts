@@ -216,7 +216,7 @@ describe('fair verdicts: a small game through the API', () => {
 describe('one planner, one configured budget', () => {
   it('/plan and the authoring preview plan with REFERENCE_* budget the reference job uses', async () => {
     // a budget too small for any exact method: the public plan must not promise one
-    const small = await makeTestApp({ referenceBudget: { secondsPerTarget: 1e-12, coneQubitLimit: 1 } });
+    const small = await makeTestApp({ referenceBudget: { secondsPerTarget: 1e-12, coneQubitLimit: 1, tnThreads: 1 } });
     try {
       const mod = await signUpVerified(small, 'mod@plan.test');
       await setRole(small, 'mod@plan.test', 'moderator');

@@ -19,6 +19,11 @@ export interface PlannerOptions {
   tnSearch?: boolean;
   /** largest estimated time per target in seconds (default 600) */
   secondsBudget?: number;
+  /**
+   * threads that share the slices of one sliced contraction (default 1): a term of s slices is
+   * costed at its contraction time / min(s, tnThreads)
+   */
+  tnThreads?: number;
 }
 
 /** The cone limits sit where the WebAssembly kernel ends: past it the plain JavaScript kernel is about 3.5x slower per amplitude. */
@@ -29,6 +34,7 @@ export const DEFAULT_PLANNER_OPTIONS: Required<PlannerOptions> = {
   tnMemoryBytes: DEFAULT_TN_MEMORY_BYTES,
   tnSearch: false,
   secondsBudget: 600,
+  tnThreads: 1,
 };
 
 /** The given options over the defaults (undefined and unknown keys ignored). */

@@ -32,13 +32,30 @@ export const PROPAGATION_RATE = 4e7;
 export const STATEVECTOR_RATE = 1e9;
 
 /**
- * Tensor-network contraction: real flops per second (8 per complex multiply-add). Measured by
- * bench/tensor-network.bench.ts: the median of the contraction rates on its five networks: 5.0e8
- * at load 15 (2026-12-05; 0.3 to 1.2 GFlop/s per network, numpy with OpenBLAS 0.07 to 0.96 on the
- * same networks and paths); 0.8 to 1.4 GFlop/s at lower load; with the WebAssembly GEMM kernels of
- * branch h-tnsimd: median 6.2e8, 0.1 to 2.2 GFlop/s per network (2026-12-05, under load).
+ * Tensor-network contraction, a three-part cost model of a contraction path (tnSeconds): the
+ * products at TN_GEMM_RATE real flops per second (8 per complex multiply-add), the permutes and
+ * copies of every step's inputs and output at TN_MOVE_RATE complex elements per second, and a fixed
+ * TN_STEP_SECONDS per pairwise step. One flop rate alone was wrong by 10x both ways: small steps are
+ * bound by the permutes and the per-step work, wide ones run at the WebAssembly GEMM's speed (a
+ * single constant of 7e8 flops/s, the median over small networks, put a 2^39-flop contraction at 16
+ * minutes; it runs in 90 s).
+ * Measured by bench/tensor-network.bench.ts ("planner calibration"): the three constants fitted by
+ * least squares on relative error over kicked-Ising light-cone networks of 2^20 to 2^34 flops,
+ * each contracted on one core. On 2026-12-05 at load 1: 6.4e9 flops/s, 2.5e8 elements/s, 2.8 us
+ * per step, every network within 2x of the model above a millisecond; a width-24 slice of 2^36.3
+ * flops ran in 11.2 s (the model says 14 s at these constants). The constants sit below the quiet
+ * figures, for ordinary load (about half the speed at load 15).
  */
-export const TN_RATE = 7e8;
+export const TN_GEMM_RATE = 4e9;
+/** See TN_GEMM_RATE: complex elements permuted or copied per second (both inputs and the output of each step); fitted by bench/tensor-network.bench.ts with it. */
+export const TN_MOVE_RATE = 1.5e8;
+/** See TN_GEMM_RATE: fixed seconds per pairwise step (layout, allocation, the call itself). */
+export const TN_STEP_SECONDS = 4e-6;
+
+/** Seconds of a contraction path on one core, from its flops, moved elements and steps (TN_GEMM_RATE). */
+export function tnSeconds(c: { flops: number; moves: number; steps: number }): number {
+  return c.flops / TN_GEMM_RATE + c.moves / TN_MOVE_RATE + c.steps * TN_STEP_SECONDS;
+}
 
 /**
  * Free-fermion solver: multiply-adds per second of freeFermionCost's operation count. Measured by

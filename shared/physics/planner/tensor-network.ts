@@ -1,14 +1,15 @@
 /**
  * Tensor-network contraction, term by term on each term's light-cone network: costed from the
  * order search (width, flops) only when nothing cheaper is known to finish quickly (the search
- * itself takes milliseconds to seconds); seconds = search time + flops / TN_RATE.
+ * itself takes milliseconds to seconds); seconds = search time + the path's cost (tnSeconds: flops, moved elements, steps), the contraction divided among the slice
+ * threads (tnThreads) when the plan has several slices.
  */
 import type { ObservableSpec } from '../circuit';
 import type { Instance } from '../compile';
 import { planTerm } from '../tensor-network/index';
 import { termKey, type PlannerCones, type EstimateInput } from './cones';
 import { TN_CONSIDER_SECONDS, TN_MAX_CONE_GATES, tnOptions, type PlannerOptions } from './options';
-import { OTHER_OVERHEAD_S, TN_RATE } from './rates';
+import { OTHER_OVERHEAD_S, tnSeconds } from './rates';
 import type { MethodCost, Reason, TnTermCost } from './types';
 
 const nowMs = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
@@ -75,14 +76,14 @@ export class TensorNetworkEstimator {
         // budget even after slicing) stops there; otherwise the runner's own full search, so the
         // estimate is the plan that will run (same seed, same options)
         const quick = planTerm(sub.circuit, sub.observable.terms[0].factors, { ...tnOptions(o), restarts: 1, reconfigureK: 0 });
-        const hopeless = quick.flops / TN_RATE > 1000 * o.secondsBudget || quick.memoryBytes > o.tnMemoryBytes;
+        const hopeless = tnSeconds(quick) > 1000 * o.secondsBudget || quick.memoryBytes > o.tnMemoryBytes;
         const plan = hopeless ? quick : planTerm(sub.circuit, sub.observable.terms[0].factors, tnOptions(o));
-        c = { width: plan.width, flops: plan.flops, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
+        c = { width: plan.width, flops: plan.flops, moves: plan.moves, steps: plan.steps, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
         if (this.cache.size > 4096) this.cache.clear();
         this.cache.set(key, c);
       }
       terms.push({ ...c, index });
-      seconds += OTHER_OVERHEAD_S + c.searchSeconds + c.flops / TN_RATE;
+      seconds += OTHER_OVERHEAD_S + c.searchSeconds + tnSeconds(c) / Math.max(1, Math.min(c.slices, Math.floor(o.tnThreads)));
       width = Math.max(width, c.width);
       flops += c.flops;
       slices = Math.max(slices, c.slices);

@@ -31,7 +31,8 @@ export interface TnEstimate {
   flops: number;
   slices: number;
   memoryBytes: number;
-  terms: { index: number; width: number; flops: number; slices: number; coneQubits: number }[];
+  /** per term: the path's figures (moves and steps: the cost model's other parts) and the order search's own time */
+  terms: { index: number; width: number; flops: number; moves: number; steps: number; slices: number; coneQubits: number; searchSeconds: number }[];
 }
 
 /** What one estimator returns: a cost, and `why` when the method is not (known to be) feasible. */
@@ -94,6 +95,9 @@ export interface TargetPlan {
 export interface TnTermCost {
   width: number;
   flops: number;
+  /** complex elements moved and pairwise steps, over all slices (the cost model's other two parts) */
+  moves: number;
+  steps: number;
   slices: number;
   memoryBytes: number;
   coneQubits: number;

@@ -18,14 +18,24 @@ import type { CompiledCircuit, ObservableSpec, PauliFactor } from '../circuit';
 import { lightCone } from '../light-cone';
 import { contractPair, pairLayout, sliceTensor, type Tensor } from './kernels';
 import { buildNetwork, simplifyNetwork } from './network';
-import { chooseSlices, searchOrder, treeCost, type SearchOptions, type TreeCost } from './path';
+import { chooseSlices, sliceForParallel, searchOrder, treeCost, type SearchOptions, type TreeCost } from './path';
 
 export { contractPair, gemmSplit, pairLayout, permuteSplit, type Tensor } from './kernels';
 export { buildNetwork, simplifyNetwork, type Network } from './network';
-export { chooseSlices, eliminationTree, greedyTree, reconfigure, rng, searchOrder, treeCost, type ContractionTree, type EliminationParams, type TreeCost } from './path';
+export { chooseSlices, eliminationTree, sliceForParallel, greedyTree, reconfigure, rng, searchOrder, treeCost, type ContractionTree, type EliminationParams, type TreeCost } from './path';
 
 /** Most indices sliced in one plan (2^16 slices). */
 export const MAX_SLICED = 16;
+
+/**
+ * A contraction of more than PARALLEL_FLOPS flops (about half a minute on one core) is cut into at
+ * least PARALLEL_SLICES slices when that adds at most PARALLEL_OVERHEAD of work, so slice threads
+ * and slice jobs can share it. The rule does not depend on the machine: a plan (and so the summation
+ * order of a reference) is the same for every thread count.
+ */
+export const PARALLEL_FLOPS = 2 ** 34;
+export const PARALLEL_SLICES = 8;
+export const PARALLEL_OVERHEAD = 1.15;
 
 /** Default memory budget for one contraction: 2 GiB (width about 26 after the scratch copies). */
 export const DEFAULT_TN_MEMORY_BYTES = 2 * 1024 ** 3;
@@ -50,6 +60,9 @@ export interface TnTermPlan {
   width: number;
   flops: number;
   memoryBytes: number;
+  /** complex elements moved outside the products and pairwise steps, over all slices (the planner's cost model) */
+  moves: number;
+  steps: number;
   /** the scalar collected during simplification */
   scalar: [number, number];
   /** light-cone qubits of the term */
@@ -90,6 +103,10 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
     // their memory estimate then exceeds the budget and the planner refuses them
     if (s.cost.width - maxWidth <= MAX_SLICED) sliced = chooseSlices(legs, net.nLegs, s.tree, maxWidth, MAX_SLICED);
     cost = sliced.length ? treeCost(legs, net.nLegs, s.tree, sliced) : s.cost;
+    if (cost.flops > PARALLEL_FLOPS && sliced.length < MAX_SLICED && cost.width <= maxWidth) {
+      sliced = sliceForParallel(legs, net.nLegs, s.tree, sliced, PARALLEL_SLICES, PARALLEL_OVERHEAD);
+      cost = treeCost(legs, net.nLegs, s.tree, sliced);
+    }
   } else if (leaves.length === 1) {
     cost = { width: leaves[0].legs.length, flops: 0, memoryBytes: 16 * 2 ** leaves[0].legs.length };
   }
@@ -108,7 +125,7 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
   }
   return {
     leaves, nLegs: net.nLegs, pairs, sumLegs, sliced, slices: 2 ** sliced.length,
-    width: cost.width, flops: cost.flops, memoryBytes: cost.memoryBytes, scalar: net.scalar,
+    width: cost.width, flops: cost.flops, memoryBytes: cost.memoryBytes, moves: cost.moves ?? 0, steps: cost.steps ?? 0, scalar: net.scalar,
     coneQubits: circuit.nQubits, greedyWidth,
   };
 }

@@ -34,6 +34,10 @@ export interface TreeCost {
   flops: number;
   /** estimated peak bytes: inputs, output and split scratch copies of the largest step */
   memoryBytes: number;
+  /** complex elements read or written outside the products (both inputs and the output of every step), over all slices */
+  moves?: number;
+  /** pairwise steps, over all slices */
+  steps?: number;
 }
 
 /** Deterministic uniform generator: the project's seeded mulberry32 (shared/scoring/prng.ts), same sequence. */
@@ -358,14 +362,18 @@ export function treeCost(leaves: readonly (readonly number[])[], nLegs: number, 
   for (const l of legs) width = Math.max(width, l.ids.length);
   let flops = 0;
   let mem = 0;
+  let moves = 0;
   for (const [u, v] of tree.pairs) {
     const { out, union } = mergeLegs(legs[u], legs[v], tot);
     legs.push(out);
     width = Math.max(width, out.ids.length);
     flops += 8 * 2 ** union;
-    mem = Math.max(mem, 32 * (2 ** legs[u].ids.length + 2 ** legs[v].ids.length + 2 ** out.ids.length));
+    const elements = 2 ** legs[u].ids.length + 2 ** legs[v].ids.length + 2 ** out.ids.length;
+    moves += elements;
+    mem = Math.max(mem, 32 * elements);
   }
-  return { width, flops: flops * 2 ** sliced.length, memoryBytes: mem };
+  const n = 2 ** sliced.length;
+  return { width, flops: flops * n, memoryBytes: mem, moves: moves * n, steps: tree.pairs.length * n };
 }
 
 // ------------------------------------------------------------------------------------------------
@@ -536,6 +544,45 @@ export function chooseSlices(leaves: readonly (readonly number[])[], nLegs: numb
     if (best < 0) return sliced;
     sliced.push(best);
   }
+}
+
+/**
+ * Slices for parallel work: more legs fixed after the memory budget's (`sliced`) until there are at
+ * least `minSlices` slices, each pick the one that adds the fewest flops, and only while the total
+ * stays within `maxOverhead` times the flops of `sliced`. A long contraction cut this way runs its
+ * slices on several threads (or slice jobs) with little extra work; legs of the widest
+ * intermediates are the candidates, as in chooseSlices (fixing a leg the big steps share halves
+ * those steps, so the total barely moves).
+ */
+export function sliceForParallel(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, sliced: readonly number[], minSlices: number, maxOverhead: number): number[] {
+  const out = [...sliced];
+  const total = totals(leaves, nLegs);
+  const base = treeCost(leaves, nLegs, tree, out).flops;
+  while (2 ** out.length < minSlices) {
+    const cost = treeCost(leaves, nLegs, tree, out);
+    const cut = new Uint8Array(nLegs);
+    for (const s of out) cut[s] = 1;
+    const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
+    const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
+    const cand = new Set<number>();
+    for (const [u, v] of tree.pairs) {
+      const { out: o } = mergeLegs(legs[u], legs[v], tot);
+      legs.push(o);
+      if (o.ids.length >= cost.width - 1) for (const x of o.ids) cand.add(x);
+    }
+    let best = -1;
+    let bestFlops = Infinity;
+    for (const x of cand) {
+      const f = treeCost(leaves, nLegs, tree, [...out, x]).flops;
+      if (f < bestFlops) {
+        bestFlops = f;
+        best = x;
+      }
+    }
+    if (best < 0 || bestFlops > maxOverhead * base) break;
+    out.push(best);
+  }
+  return out;
 }
 
 // ------------------------------------------------------------------------------------------------

@@ -25,8 +25,10 @@ import { Planner, reasonText } from '../../../shared/physics/planner';
 import { ReferenceRunner, type ReferenceValue } from '../../../shared/physics/reference';
 import { statevectorExpectation } from '../../../shared/physics/statevector';
 import {
-  contractPlan, contractSlice, eliminationTree, greedyTree, planTerm, rng, searchOrder, tensorNetworkExpectation, treeCost,
+  contractPlan, contractSlice, eliminationTree, greedyTree, planTerm, rng, searchOrder, sliceForParallel, tensorNetworkExpectation, treeCost,
+  PARALLEL_FLOPS, PARALLEL_OVERHEAD, PARALLEL_SLICES,
 } from '../../../shared/physics/tensor-network/index';
+import { OTHER_OVERHEAD_S, tnSeconds } from '../../../shared/physics/planner';
 import { qcExpectation } from './qc-reference';
 
 const HALF_PI = Math.PI / 2;
@@ -265,6 +267,12 @@ describe('elimination orders (min-fill and min-degree on the index graph)', () =
     expect(plan.width).toBeLessThanOrEqual(33);
     expect(plan.width).toBeLessThanOrEqual(greedy.width - 8);
     expect(Math.log2(plan.flops)).toBeLessThanOrEqual(Math.log2(greedy.flops) - 6);
+    // past PARALLEL_FLOPS the plan is cut for the slice threads: at least PARALLEL_SLICES slices,
+    // at most PARALLEL_OVERHEAD times the work of the same tree unsliced
+    const unsliced = treeCost(legs, plan.nLegs, { nLeaves: legs.length, pairs: plan.pairs });
+    expect(unsliced.flops).toBeGreaterThan(PARALLEL_FLOPS);
+    expect(plan.slices).toBeGreaterThanOrEqual(PARALLEL_SLICES);
+    expect(plan.flops).toBeLessThanOrEqual(PARALLEL_OVERHEAD * unsliced.flops);
   });
 });
 
@@ -283,6 +291,26 @@ describe('slicing', () => {
     const lc = lightCone(c, { id: 'o', terms: [{ coef: 1, factors }] });
     expect(Math.abs(want - lightConeStatevectorValue(lc.circuit, lc.observable as ObservableSpec).value)).toBeLessThan(TOL);
     expect(() => contractSlice(small, small.slices)).toThrow(/out of range/);
+  });
+
+  it('slices for parallel work stay within the allowed extra flops and sum to the unsliced value', () => {
+    const { c } = kiCircuit({ kind: 'square', rows: 4, cols: 4 }, 4, 0.77, 0.3);
+    const full = planTerm(c, [{ qubit: 5, op: 'X' }, { qubit: 6, op: 'Y' }]);
+    expect(full.slices).toBe(1);
+    const legs = full.leaves.map((t) => t.legs);
+    const tree = { nLeaves: legs.length, pairs: full.pairs };
+    const base = treeCost(legs, full.nLegs, tree).flops;
+    for (const overhead of [1, 1.15, 4]) {
+      const sliced = sliceForParallel(legs, full.nLegs, tree, [], 8, overhead);
+      expect(sliced.length).toBeLessThanOrEqual(3); // stops at 8 slices
+      expect(new Set(sliced).size).toBe(sliced.length);
+      expect(treeCost(legs, full.nLegs, tree, sliced).flops).toBeLessThanOrEqual(overhead * base);
+      if (overhead === 4) expect(sliced.length).toBe(3);
+      const plan = { ...full, sliced, slices: 2 ** sliced.length };
+      let re = 0;
+      for (let i = 0; i < plan.slices; i++) re += contractSlice(plan, i)[0];
+      expect(Math.abs(re - contractPlan(full)[0])).toBeLessThan(TOL);
+    }
   });
 });
 
@@ -307,6 +335,27 @@ describe('planner and reference runner with the tensor-network rung', () => {
     expect(r.width).toBe(est?.tn?.width);
     expect(r.flops).toBe(est?.tn?.flops);
     expect(r.detail).toMatch(/^tensor-network contraction of the light cone, width \d+, 2\^[\d.]+ flops/);
+  });
+
+  it('a sliced term is costed at its contraction time shared by the slice threads; the plan itself does not depend on them', () => {
+    const ch = ki({ kind: 'heavy-hex', rows: 3, cols: 5 }, [5], [0.7], [{ id: 'zs', pauli: 'Z20 Z5 Z25 Z26 Z6 Z47 Z21 Z4' }]);
+    const width = new Planner(ch, { tnSearch: true }).plan(ch.targets[0]).estimates.find((e) => e.method === 'tensor-network')!.tn!.width;
+    const est = (tnThreads: number) => {
+      // a memory budget three below the unsliced width: 8 or more slices
+      const p = new Planner(ch, { tnSearch: true, tnMemoryBytes: 96 * 2 ** (width - 3), tnThreads }).plan(ch.targets[0]);
+      return p.estimates.find((e) => e.method === 'tensor-network')!;
+    };
+    const one = est(1), four = est(4);
+    expect(one.tn!.slices).toBeGreaterThan(4);
+    expect(four.tn!.flops).toBe(one.tn!.flops);
+    expect(four.tn!.slices).toBe(one.tn!.slices);
+    for (const [e, threads] of [[one, 1], [four, 4]] as const) {
+      const want = e.tn!.terms.reduce((s, t) => s + OTHER_OVERHEAD_S + t.searchSeconds + tnSeconds(t) / Math.min(t.slices, threads), 0);
+      expect(e.seconds).toBeCloseTo(want, 9);
+    }
+    // the contraction part shrinks four-fold (the search time is measured, so compare without it)
+    const work = (e: typeof one) => e.seconds - e.tn!.terms.reduce((s, t) => s + OTHER_OVERHEAD_S + t.searchSeconds, 0);
+    expect(work(four)).toBeCloseTo(work(one) / 4, 9);
   });
 
   it('small cones are cross-checked by a second exact method and the agreement recorded', () => {
