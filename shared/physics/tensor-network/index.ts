@@ -18,14 +18,12 @@ import type { CompiledCircuit, ObservableSpec, PauliFactor } from '../circuit';
 import { lightCone } from '../light-cone';
 import { contractPair, pairLayout, sliceTensor, type Tensor } from './kernels';
 import { buildNetwork, simplifyNetwork } from './network';
-import { chooseSlices, sliceForParallel, searchOrder, treeCost, type SearchOptions, type TreeCost } from './path';
+import { chooseSlices, MAX_SLICED, sliceForParallel, searchOrder, treeCost, type SearchOptions, type TreeCost } from './path';
 
 export { contractPair, gemmSplit, pairLayout, permuteSplit, type Tensor } from './kernels';
 export { buildNetwork, simplifyNetwork, type Network } from './network';
-export { chooseSlices, eliminationTree, sliceForParallel, greedyTree, reconfigure, rng, searchOrder, treeCost, type ContractionTree, type EliminationParams, type TreeCost } from './path';
+export { chooseSlices, MAX_SLICED, eliminationTree, sliceForParallel, greedyTree, reconfigure, rng, searchOrder, treeCost, type ContractionTree, type EliminationParams, type TreeCost } from './path';
 
-/** Most indices sliced in one plan (2^16 slices). */
-export const MAX_SLICED = 16;
 
 /**
  * A contraction of more than PARALLEL_FLOPS flops (about half a minute on one core) is cut into at
