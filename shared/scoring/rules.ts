@@ -124,13 +124,19 @@ export function bootstrapRankIntervals(scores: readonly Float64Array[], order: (
   const means = new Float64Array(nE);
   const idx = Array.from({ length: nE }, (_, i) => i);
   const ranks = scores.map(() => new Int32Array(reps));
+  // the drawn targets of a replicate, in ascending order with their counts (each entry's sum runs
+  // over them in the same order as over all targets, so the means are the same numbers)
+  const drawn = new Int32Array(nT);
+  const times = new Float64Array(nT);
   for (let r = 0; r < reps; r++) {
     counts.fill(0);
     for (let k = 0; k < nT; k++) counts[Math.floor(rng.uniform() * nT)]++;
+    let nd = 0;
+    for (let t = 0; t < nT; t++) if (counts[t]) { drawn[nd] = t; times[nd++] = counts[t]; }
     for (let e = 0; e < nE; e++) {
       const s = scores[e];
       let sum = 0;
-      for (let t = 0; t < nT; t++) if (counts[t]) sum += counts[t] * s[t];
+      for (let k = 0; k < nd; k++) sum += times[k] * s[drawn[k]];
       means[e] = sum / nT;
     }
     idx.sort((a, b) => means[a] - means[b] || order(a, b));

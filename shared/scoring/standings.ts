@@ -236,13 +236,16 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
   const worst = new Float64Array(nT);
   const baselineBounds: number[][] = E.map(() => []);
 
+  // each entry's estimate of the current target, looked up once per target
+  const at: (StandingsEstimate | undefined)[] = new Array(nE);
   input.targets.forEach((t, ti) => {
+    for (let i = 0; i < nE; i++) at[i] = E[i].estimates.get(t.key);
     const B = boundOf(t.bound);
     worst[ti] = 2 * B;
     const cands: { i: number; entryId: string; teamId: string; submittedAt: string; value: number; uncertainty: number }[] = [];
     let answeredBy = 0;
     for (let i = 0; i < nE; i++) {
-      const e = E[i].estimates.get(t.key);
+      const e = at[i];
       if (!e || !Number.isFinite(e.value)) continue;
       answeredBy++;
       answeredAt[i][ti] = 1;
@@ -275,12 +278,12 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     const chosenSet = new Set(chosen.map((x) => x.i));
     const others: number[] = [];
     for (let i = 0; i < nE; i++) if (answeredAt[i][ti] && !chosenSet.has(i)) others.push(i);
-    const doeList: Measurement[] = ok ? [...ms, ...others.map((i) => { const e = E[i].estimates.get(t.key)!; return { value: e.value, uncertainty: E[i].isBaseline ? 0 : effectiveUncertainty(e.uncertainty, B) }; })] : [];
+    const doeList: Measurement[] = ok ? [...ms, ...others.map((i) => { const e = at[i]!; return { value: e.value, uncertainty: E[i].isBaseline ? 0 : effectiveUncertainty(e.uncertainty, B) }; })] : [];
     const doe = ok ? degreesOfEquivalence(doeList, c) : [];
     const doeOwner = [...chosen.map((x) => x.i), ...others];
 
     for (let i = 0; i < nE; i++) {
-      const e = E[i].estimates.get(t.key);
+      const e = at[i];
       const has = answeredAt[i][ti] === 1;
       // the baseline's uncertainty is a truncation bound, not a standard uncertainty: scored as u = 0
       const u = has ? (E[i].isBaseline ? 0 : e!.uncertainty) : 0;
@@ -297,8 +300,12 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     if (t.reference === null) {
       const idx: number[] = [];
       for (let i = 0; i < nE; i++) if (answeredAt[i][ti]) idx.push(i);
-      const xv = Float64Array.from(idx, (i) => E[i].estimates.get(t.key)!.value);
-      const uv = Float64Array.from(idx, (i) => effectiveUncertainty(E[i].estimates.get(t.key)!.uncertainty, B));
+      const xv = new Float64Array(idx.length);
+      const uv = new Float64Array(idx.length);
+      for (let k = 0; k < idx.length; k++) {
+        xv[k] = at[idx[k]]!.value;
+        uv[k] = effectiveUncertainty(at[idx[k]]!.uncertainty, B);
+      }
       for (let a = 0; a < idx.length; a++) {
         for (let b = a + 1; b < idx.length; b++) {
           const ua = uv[a];
@@ -368,7 +375,12 @@ export function computeStandings(input: StandingsInput, metric: PrimaryMetric = 
     for (const tv of TRACK_VIEWS) {
       const members = rows.filter((r) => !r.isBaseline && (tv === 'all' || r.e.track === tv));
       if (!members.length) continue;
-      const mat = members.map((r) => Float64Array.from(tis, (ti) => score[r.i][ti]));
+      const mat = members.map((r) => {
+        const row = new Float64Array(tis.length);
+        const s = score[r.i];
+        for (let k = 0; k < tis.length; k++) row[k] = s[tis[k]];
+        return row;
+      });
       const b = bootstrapRankIntervals(mat, (a, c) => tie(members[a], members[c]));
       replicates = Math.max(replicates, b.replicates);
       members.forEach((r, k) => (rankIntervals[r.i][`${m}|${tv}`] = b.intervals[k]));
