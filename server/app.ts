@@ -28,6 +28,7 @@ import { registerAllRoutes } from './routes';
 import { ThreadPool } from './jobs/thread-pool';
 import { VersionCache } from './services/version-cache';
 import { effectApplier } from './effects';
+import { StandingsCache } from './services/standings-cache';
 
 export interface AppDeps {
   database: Database;
@@ -51,10 +52,10 @@ export async function createApp(deps: AppDeps) {
   const { config, log, database } = deps;
   const mailQueue = createMailQueue(log);
   const auth = createAuth({ db: database.db, config, mailer: deps.mailer, mailQueue, log, now });
-  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots), threads: new ThreadPool({ size: config.documentThreads }), versionCache: new VersionCache(),
+  const ctx: AppContext = { database, db: database.db, auth, mailer: deps.mailer, mailQueue, config, log, now, jobs: { kick: () => {} }, documentSlots: new Slots(config.documentSlots), threads: new ThreadPool({ size: config.documentThreads }), versionCache: new VersionCache(), standingsCache: new StandingsCache(),
     // the one applier of after-commit effects (kicks read ctx.jobs at the time: boot and tests set the worker's kick later)
     applyEffects: (effects) => apply(effects) };
-  const apply = effectApplier({ db: database.db, log, mail: { mailer: deps.mailer, baseUrl: config.baseUrl }, kick: () => ctx.jobs.kick() });
+  const apply = effectApplier({ db: database.db, log, mail: { mailer: deps.mailer, baseUrl: config.baseUrl }, standingsCache: ctx.standingsCache, kick: () => ctx.jobs.kick() });
   const routes = new RouteTable();
   registerAllRoutes(routes, ctx);
 

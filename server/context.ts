@@ -3,6 +3,7 @@
  * log, the injected clock, the worker's kick and the shared document slots. It lives apart from the
  * app factory (server/app.ts) so that nothing which app.ts imports needs to import app.ts back.
  */
+import type { StandingsCache } from './services/standings-cache';
 import type { Slots } from './util/document-body';
 import type { Config } from './config';
 import type { Database } from './db/client';
@@ -32,6 +33,8 @@ export interface AppContext {
   threads: ThreadPool;
   /** results of public computations per challenge version (a stored version never changes) */
   versionCache: VersionCache;
+  /** serialised standings responses of this app (dropped by the 'invalidate' effect) */
+  standingsCache: StandingsCache;
   /** applies the after-commit effects services and jobs return (server/effects.ts): the one place that kicks, invalidates and mails */
   applyEffects: EffectApplier;
 }

@@ -21,7 +21,7 @@ import { member, user } from './db/schema';
 import type { Mailer } from './mail/mailer';
 import type { Logger } from './log';
 import { notifyFollowers, type FollowEvent } from './services/notify-followers';
-import { standingsCache } from './services/standings-cache';
+import type { StandingsCache } from './services/standings-cache';
 
 export type MailLine = string | (string | { path: string })[];
 
@@ -46,6 +46,8 @@ export interface EffectDeps {
   log: Logger;
   /** absent in a worker process without an app: mail effects are then skipped (logged) */
   mail?: { mailer: Mailer; baseUrl: string };
+  /** the app's standings cache (AppContext.standingsCache); absent in a worker process without an app, which has none to drop */
+  standingsCache?: StandingsCache;
   kick(): void;
 }
 
@@ -76,7 +78,8 @@ export async function applyEffects(deps: EffectDeps, effects: readonly Effect[])
     if (e.kind !== 'invalidate') continue;
     // the wider drop covers the narrower one
     if (e.versionId !== null && seen.has('invalidate:standings:*')) continue;
-    standingsCache.invalidate(e.versionId ?? undefined);
+    if (!deps.standingsCache) continue;
+    deps.standingsCache.invalidate(e.versionId ?? undefined);
     out.invalidated++;
   }
   if (seen.has('kick')) {
@@ -126,7 +129,7 @@ async function sendAll(mailer: Mailer, log: Logger, to: string[], subject: strin
 /**
  * The applier of each app, by database handle, for the worker: jobs run without an app context,
  * and a worker in a process with an app applies through that app's applier (its mailer, base URL
- * and worker kick); a worker process without an app drops caches and mails nobody.
+ * and worker kick); a worker process without an app has no cache to drop and mails nobody.
  */
 const appliers = new WeakMap<Db, EffectApplier>();
 

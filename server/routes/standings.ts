@@ -12,7 +12,6 @@ import { latestStandings, privateView, type StandingsPayload } from '../services
 import { loadChallengeVersion } from '../queries/challenge-version';
 import { isEstimateWithheld, PUBLIC_VIEWER, seesSealedValues, viewerOf, visibleReferences, type Viewer } from '../queries/visibility';
 import type { RouteTable } from './registry';
-import { standingsCache } from '../services/standings-cache';
 import { TRACK_VIEWS } from '@shared/vocabulary';
 import type { StandingsResponse } from '@shared/api-types';
 
@@ -44,7 +43,7 @@ function send(req: Request, res: Response, body: string | Buffer, etag: string) 
 }
 
 export function registerStandingsRoutes(routes: RouteTable, ctx: AppContext): void {
-  const { db } = ctx;
+  const { db, standingsCache } = ctx;
 
   routes.add({
     method: 'get', path: '/challenges/:slug/standings', access: 'public', summary: 'Ranked standings (?track=hardware|classical, ?metric=, ?asOf= a past date, ?version=)',

@@ -1,7 +1,8 @@
 /**
  * In-process cache of serialised standings responses, keyed by challenge, caller class and query. Invalidated
  * when this process recomputes; entries also expire after a short time so that several processes
- * on one PostgreSQL server converge within `ttlMs`.
+ * on one PostgreSQL server converge within `ttlMs`. One per app (AppContext.standingsCache), so two
+ * apps in one process (the test suite makes many) never answer from each other's cache.
  */
 export class StandingsCache {
   private map = new Map<string, { at: number; body: Buffer; etag: string; versionId: string }>();
@@ -23,5 +24,3 @@ export class StandingsCache {
   }
   clear(): void { this.map.clear(); }
 }
-
-export const standingsCache = new StandingsCache();

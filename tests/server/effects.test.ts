@@ -10,7 +10,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, count, eq, sql } from 'drizzle-orm';
 import { applyEffects, renderLine, type Effect } from '../../server/effects';
-import { standingsCache } from '../../server/services/standings-cache';
+import { StandingsCache } from '../../server/services/standings-cache';
 import { decideEntry } from '../../server/services/decide-entry';
 import { withdrawEntry } from '../../server/services/withdraw-entry';
 import { enqueueJob } from '../../server/jobs/queue';
@@ -23,7 +23,7 @@ const silent = { info: () => {}, warn: () => {}, error: () => {} } as never;
 
 describe('the applier', () => {
   it('kicks once however many kicks were asked, drops each cache once, and mails nobody without a mailer', async () => {
-    standingsCache.clear();
+    const standingsCache = new StandingsCache();
     standingsCache.set('a', '{}', 'e1', 'v1');
     standingsCache.set('b', '{}', 'e2', 'v2');
     let kicks = 0;
@@ -34,17 +34,19 @@ describe('the applier', () => {
       { kind: 'invalidate', cache: 'standings', versionId: 'v1' },
       { kind: 'notify-followers', slug: 'x', event: 'entry.published', subject: 's', lines: ['l'] },
     ];
-    const out = await applyEffects({ db: {} as never, log, kick: () => { kicks++; } }, fx);
+    const out = await applyEffects({ db: {} as never, log, standingsCache, kick: () => { kicks++; } }, fx);
     expect(out).toEqual({ kicked: 1, invalidated: 1, mailed: 0, notified: 0 });
     expect(kicks).toBe(1);
     expect(standingsCache.get('a')).toBeUndefined();
     expect(standingsCache.get('b')).toBeDefined();
     expect(warned).toEqual(['effects.no-mailer']);
     // every version at once (a challenge's current version changed); the narrower drop is not counted again
-    const all = await applyEffects({ db: {} as never, log: silent, kick: () => { kicks++; } }, [{ kind: 'invalidate', cache: 'standings', versionId: 'v2' }, { kind: 'invalidate', cache: 'standings', versionId: null }]);
+    const all = await applyEffects({ db: {} as never, log: silent, standingsCache, kick: () => { kicks++; } }, [{ kind: 'invalidate', cache: 'standings', versionId: 'v2' }, { kind: 'invalidate', cache: 'standings', versionId: null }]);
     expect(all.invalidated).toBe(1);
     expect(standingsCache.get('b')).toBeUndefined();
     expect(kicks).toBe(1);
+    // a worker process without an app has no cache: nothing is dropped, nothing counted
+    expect((await applyEffects({ db: {} as never, log: silent, kick: () => {} }, [{ kind: 'invalidate', cache: 'standings', versionId: null }])).invalidated).toBe(0);
   });
 
   it('renders a link part of a mail line on the base URL of the app (with or without its trailing slash)', () => {
@@ -122,6 +124,7 @@ describe('effects of services, applied once', () => {
     await settle(w.t, w.worker);
     await w.worker.stop();
     kicks = 0;
+    const standingsCache = w.t.ctx.standingsCache;
     standingsCache.set('job-key', '{}', 'e', 'job-version');
     const worker = await startWorker(w.t.database.db, w.t.ctx.log, { now: w.t.ctx.now, pollMs: 50, kinds: ['effects-probe' as never], extraHandlers: {
       'effects-probe': async () => ({ done: true, effects: [{ kind: 'kick-jobs' }, { kind: 'kick-jobs' }, { kind: 'invalidate', cache: 'standings', versionId: 'job-version' }] }),
