@@ -16,7 +16,8 @@
  *   and k, printed as speed-ups; WASM_GEMM_MIN_MKN in kernels.ts comes from this table.
  * - the order search's width (64 restarts + subtree reconfiguration) within 2 of the best of 64
  *   random greedy restarts (a different seed, temperature 1), on kicked-Ising light-cone networks
- *   of the demo's kinds (heavy-hex and square patches).
+ *   of the demo's kinds (heavy-hex and square patches) and on the demo's own widest networks that
+ *   get exact references (ring, vacancy lattice and braid challenges of server/db/demo-challenges.ts).
  * A missed target exits 1. --heavy also plans (and, when under 2^36 flops, contracts) weight-10 to
  * weight-17 observables on a 106-qubit heavy-hex patch at 5 steps.
  */
@@ -26,6 +27,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS, tnSeconds } from '../shared/physics/planner/rates';
 import { checkRate } from './rate-check';
+import { DEMO_SPECS } from '../server/db/demo-challenges';
+import { validateChallenge } from '../shared/physics/challenge';
+import { Planner } from '../shared/physics/planner';
 import type { PauliFactor } from '../shared/physics/circuit';
 import { kickedIsing } from '../shared/physics/kicked-ising';
 import { edgeColouring, heavyHex, square, type Graph } from '../shared/physics/lattices';
@@ -66,10 +70,27 @@ mk('heavy-hex 106q, 6 steps, Z x1', hh, 6, [{ qubit: 40, op: 'Z' }]);
 mk('square 7x7, 3 steps, X x2', sq, 3, [{ qubit: 24, op: 'X' }, { qubit: 25, op: 'X' }]);
 mk('square 7x7, 4 steps, Z x1', sq, 4, [{ qubit: 24, op: 'Z' }]);
 
+// the demo's widest networks with exact references (one term each, on its light cone)
+const demoCases: Case[] = [];
+for (const [id, target] of [['ring-36-correlators', 't10-h0.250000:zstring6'], ['vacancy-square-6x6', 't6-h0.300000:zz20_21'], ['vacancy-square-6x6', 't8-h0.300000:z35'], ['braid-128', 't8-h0.400000:zz_rung10']] as const) {
+  const v = validateChallenge(DEMO_SPECS.find((s) => s.id === id) as unknown);
+  if (!v.ok) throw new Error(`demo challenge ${id} does not validate`);
+  const planner = new Planner(v.challenge, {});
+  const t = v.challenge.targets.find((x) => x.id === target);
+  if (!t) throw new Error(`demo target ${id} ${target} is missing`);
+  const obs = planner.observable(t.observableId);
+  const sub = planner.restrict(planner.instance(t.instanceId), { id: 'term', terms: [{ coef: 1, factors: obs.terms[0].factors }] });
+  const t0 = performance.now();
+  const plan = planTerm(sub.circuit, sub.observable.terms[0].factors);
+  const label = `demo ${id} ${target}`;
+  console.log(`${label.padEnd(40)} cone ${String(plan.coneQubits).padStart(3)} qubits, ${String(plan.leaves.length).padStart(4)} tensors, width ${plan.width}, 2^${Math.log2(plan.flops).toFixed(1)} flops, ${plan.slices} slice(s), search ${(performance.now() - t0).toFixed(0)} ms`);
+  demoCases.push({ label, plan });
+}
+
 // ------------------------------------------------------------------------------------------------
-// order search vs the best of 64 random greedy restarts
+// order search vs the best of 64 random greedy restarts (unsliced widths on both sides)
 console.log('\norder search: width vs the best of 64 random greedy restarts (seed 12345, temperature 1) [target: within 2]');
-for (const { label, plan } of cases) {
+for (const { label, plan } of [...cases, ...demoCases]) {
   const legs = plan.leaves.map((t) => t.legs);
   const r = rng(12345);
   let best = Infinity;
