@@ -273,6 +273,26 @@ describe('scripts/reference.ts', () => {
     for (const row of rows) expect(typeof row.value).toBe('number');
   });
 
+  it('--threads shares the slices of a sliced contraction among threads: the same values, bit for bit, as one thread', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'parallax-ref-'));
+    const spec = join(dir, 'hex.json');
+    // a light cone past the statevector limit (tensor network, width 12), sliced by a memory budget of width 9
+    writeFileSync(spec, JSON.stringify({ id: 'hex-threads', version: 1, title: 'hex', description: '', lattice: { kind: 'heavy-hex', rows: 3, cols: 5 },
+      circuit: { family: 'kicked-ising', steps: [5], thetaH: [0.7] }, observables: [{ id: 'zs', pauli: 'Z20 Z5 Z25 Z26 Z6 Z47 Z21 Z4' }] }));
+    const rows = (threads: number) => {
+      const out = join(dir, `out-${threads}.json`);
+      const r = run([spec, '--out', out, '--tn-memory-gb', '0.0000458', '--threads', String(threads)]);
+      expect(r.status, r.stderr).toBe(0);
+      return JSON.parse(readFileSync(out, 'utf8')) as { value: number; method: string; slices: number; width: number }[];
+    };
+    const one = rows(1), two = rows(2);
+    expect(one[0].method).toBe('tensor-network');
+    expect(one[0].slices).toBeGreaterThan(1);
+    expect(two[0]).toMatchObject({ method: 'tensor-network', slices: one[0].slices, width: one[0].width });
+    expect(two[0].value).toBe(one[0].value);
+    expect(run([spec, '--threads', '0']).stderr).toMatch(/--threads needs a positive number/);
+  });
+
   it('prints the validation messages and exits 1 on a bad spec', () => {
     const dir = mkdtempSync(join(tmpdir(), 'parallax-ref-'));
     const bad = join(dir, 'bad.json');
