@@ -25,7 +25,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS, tnSeconds } from '../shared/physics/planner/rates';
+import { TN_GEMM_RATE, TN_STEP_RATE, tnSeconds } from '../shared/physics/planner/rates';
 import { checkRate } from './rate-check';
 import { DEMO_SPECS } from '../server/db/demo-challenges';
 import { validateChallenge } from '../shared/physics/challenge';
@@ -265,11 +265,11 @@ if (process.argv.includes('--heavy')) {
 }
 
 // ------------------------------------------------------------------------------------------------
-// Planner calibration (shared/physics/planner/rates.ts TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS):
-// the default contraction (contractPlan as the runner calls it) on kicked-Ising light-cone networks
-// of 2^20 to 2^34 flops (best of 2 or 3), the three constants of tnSeconds fitted by least squares
-// on relative error, each checked against its constant; and the model with the constants in use
-// against every network.
+// Planner calibration (shared/physics/planner/rates.ts TN_GEMM_RATE, TN_STEP_RATE): the default
+// contraction (contractPlan as the runner calls it) on kicked-Ising light-cone networks of 2^20 to
+// 2^34 flops (best of 2 or 3), the two constants of tnSeconds fitted by least squares on relative
+// error, each checked against its constant; and the model with the constants in use against every
+// network.
 {
   const calib: { label: string; plan: TnTermPlan }[] = [];
   const sq6 = square(6, 6);
@@ -281,7 +281,7 @@ if (process.argv.includes('--heavy')) {
   for (const [s, w] of [[4, 10], [4, 17], [5, 10], [5, 17]]) pick(`heavy-hex ${s} steps, weight ${w}`, hh, s, 20, w);
   for (const [s, w] of [[3, 2], [3, 5], [4, 2], [5, 1]]) pick(`square 7x7 ${s} steps, weight ${w}`, sq, s, 24, w);
   for (const [s, w] of [[4, 2], [5, 1], [5, 2]]) pick(`square 6x6 ${s} steps, weight ${w}`, sq6, s, 14, w);
-  const rows: { label: string; x: [number, number, number]; t: number }[] = [];
+  const rows: { label: string; x: [number, number]; t: number }[] = [];
   for (const { label, plan } of calib) {
     let best = Infinity;
     for (let i = 0; i < (plan.flops < 2 ** 28 ? 3 : 2); i++) {
@@ -289,31 +289,26 @@ if (process.argv.includes('--heavy')) {
       contractPlan(plan);
       best = Math.min(best, performance.now() - t0);
     }
-    rows.push({ label, x: [plan.flops, plan.moves, plan.steps], t: best / 1000 });
+    rows.push({ label, x: [plan.flops, plan.steps], t: best / 1000 });
   }
-  // weighted least squares (weights 1/t: relative error) through the 3x3 normal equations
-  const N = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
-  const r = [0, 0, 0];
+  // weighted least squares (weights 1/t: relative error) through the 2x2 normal equations
+  let n00 = 0, n01 = 0, n11 = 0, r0 = 0, r1 = 0;
   for (const { x, t } of rows) {
     const w = 1 / (t * t);
-    for (let i = 0; i < 3; i++) {
-      r[i] += w * x[i] * t;
-      for (let j = 0; j < 3; j++) N[i][j] += w * x[i] * x[j];
-    }
+    n00 += w * x[0] * x[0]; n01 += w * x[0] * x[1]; n11 += w * x[1] * x[1];
+    r0 += w * x[0] * t; r1 += w * x[1] * t;
   }
-  const det = (m: number[][]) => m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
-  const d = det(N);
-  const fit = [0, 1, 2].map((k) => det(N.map((row, i) => row.map((v, j) => (j === k ? r[i] : v)))) / d);
-  console.log(`\nplanner calibration: ${rows.length} networks; fitted ${(1 / fit[0]).toExponential(2)} flops/s, ${(1 / fit[1]).toExponential(2)} elements/s, ${(fit[2] * 1e6).toFixed(2)} us per step`);
+  const det = n00 * n11 - n01 * n01;
+  const fit = [(r0 * n11 - r1 * n01) / det, (n00 * r1 - n01 * r0) / det];
+  console.log(`\nplanner calibration: ${rows.length} networks; fitted ${(1 / fit[0]).toExponential(2)} flops/s, ${(1 / fit[1]).toExponential(2)} steps/s (${(fit[1] * 1e6).toFixed(2)} us per step)`);
   for (const { label, x, t } of rows) {
-    const model = tnSeconds({ flops: x[0], moves: x[1], steps: x[2] });
-    console.log(`  ${label.padEnd(32)} 2^${Math.log2(x[0]).toFixed(1)} flops, measured ${(t * 1000).toFixed(1)} ms, model ${(model * 1000).toFixed(1)} ms (model / measured ${(model / t).toFixed(2)})`);
+    const model = tnSeconds({ flops: x[0], steps: x[1] });
+    console.log(`  ${label.padEnd(32)} 2^${Math.log2(x[0]).toFixed(1)} flops, ${x[1]} steps, measured ${(t * 1000).toFixed(1)} ms, model ${(model * 1000).toFixed(1)} ms (model / measured ${(model / t).toFixed(2)})`);
   }
   allPass = checkRate('TN_GEMM_RATE', TN_GEMM_RATE, 1 / fit[0], 'real flops/s') && allPass;
-  allPass = checkRate('TN_MOVE_RATE', TN_MOVE_RATE, 1 / fit[1], 'elements/s') && allPass;
-  console.log(`planner constant TN_STEP_SECONDS = ${TN_STEP_SECONDS.toExponential(2)} s; fitted ${fit[2].toExponential(2)} s (printed, not a target: the step term matters only for networks of a few milliseconds)`);
+  allPass = checkRate('TN_STEP_RATE', TN_STEP_RATE, 1 / fit[1], 'steps/s') && allPass;
   // the model with the constants in use: the median ratio within the tolerance
-  const ratios = rows.map(({ x, t }) => tnSeconds({ flops: x[0], moves: x[1], steps: x[2] }) / t).sort((a, b) => a - b);
+  const ratios = rows.map(({ x, t }) => tnSeconds({ flops: x[0], steps: x[1] }) / t).sort((a, b) => a - b);
   const median = ratios[Math.floor(ratios.length / 2)];
   allPass = checkRate('tnSeconds (1 / median of model / measured)', 1, 1 / median, 'x') && allPass;
 }

@@ -15,7 +15,7 @@ import { freeFermionSites, METHOD_NAMES, Planner, tnOptions, ATTEMPT_SHARE, type
 import { statevectorExpectation } from './statevector';
 import { contractPlan, planTerm, type TnTermPlan } from './tensor-network/index';
 
-/** 0.2.0: the tensor-network rung, cross-checks recorded with references, recalibrated planner. 0.3.0: elimination orders in the contraction-order search (far narrower trees on deep 2D cones), the WebAssembly GEMM kernel, sliced contractions on threads and as slice jobs; ten-minute default budget. 0.4.0: contractions costed from flops, moved elements and steps (planner/rates.ts tnSeconds) and shared among the slice threads; plans past 2^34 flops cut into 8 or more slices (docs/decisions/0008). */
+/** 0.2.0: the tensor-network rung, cross-checks recorded with references, recalibrated planner. 0.3.0: elimination orders in the contraction-order search (far narrower trees on deep 2D cones), the WebAssembly GEMM kernel, sliced contractions on threads and as slice jobs; ten-minute default budget. 0.4.0: contractions costed from flops and pairwise steps (planner/rates.ts tnSeconds) and shared among the slice threads; plans past 2^34 flops cut into 8 or more slices (docs/decisions/0008). */
 export const ENGINE_VERSION = 'parallax-engine 0.4.0';
 
 /** Cross-check with a second exact method when the light cone has at most this many qubits. */

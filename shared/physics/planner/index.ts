@@ -31,7 +31,7 @@ import { METHOD_ORDER, type ConeStats, type MethodCost, type MethodEstimate, typ
 export type { ConeStats, ExactMethod, MethodCost, MethodEstimate, Reason, TargetPlan, TnEstimate, TnTermCost } from './types';
 export { METHOD_ORDER } from './types';
 export { ATTEMPT_SHARE, DEFAULT_PLANNER_OPTIONS, TN_CONSIDER_SECONDS, TN_MAX_CONE_GATES, tnOptions, type PlannerOptions } from './options';
-export { OTHER_OVERHEAD_S, PROPAGATION_RATE, STATEVECTOR_OVERHEAD_S, STATEVECTOR_RATE, TN_GEMM_RATE, TN_MOVE_RATE, TN_STEP_SECONDS, tnSeconds, FREE_FERMION_RATE, RATE_TOLERANCE } from './rates';
+export { OTHER_OVERHEAD_S, PROPAGATION_RATE, STATEVECTOR_OVERHEAD_S, STATEVECTOR_RATE, TN_GEMM_RATE, TN_STEP_RATE, tnSeconds, FREE_FERMION_RATE, RATE_TOLERANCE } from './rates';
 export { fmtBytes, fmtInt, fmtSeconds, METHOD_NAMES, reasonText } from './reasons';
 export { freeFermionSites } from './free-fermion';
 export { isCliffordInstance } from './pauli-propagation';

@@ -32,32 +32,27 @@ export const PROPAGATION_RATE = 4e7;
 export const STATEVECTOR_RATE = 1e9;
 
 /**
- * Tensor-network contraction, a three-part cost model of a contraction path (tnSeconds): the
- * products at TN_GEMM_RATE real flops per second (8 per complex multiply-add), the permutes and
- * copies of every step's inputs and output at TN_MOVE_RATE complex elements per second, and a fixed
- * TN_STEP_SECONDS per pairwise step. One flop rate alone was wrong by 10x both ways: small steps are
- * bound by the permutes and the per-step work, wide ones run at the WebAssembly GEMM's speed (a
- * single constant of 7e8 flops/s, the median over small networks, put a 2^39-flop contraction at 16
- * minutes; it runs in 90 s).
- * Measured by bench/tensor-network.bench.ts ("planner calibration"): the three constants fitted by
+ * Tensor-network contraction, a two-part cost model of a contraction path (tnSeconds): its flops
+ * at TN_GEMM_RATE real flops per second (8 per complex multiply-add), plus its pairwise steps at
+ * TN_STEP_RATE steps per second (a step's permutes, allocation and call). One flop rate alone was
+ * wrong by 10x both ways: small networks are bound by the per-step work, wide ones run at the
+ * WebAssembly GEMM's speed (a single constant of 7e8 flops/s, the median over small networks, put
+ * a 2^39-flop contraction at 16 minutes; it runs in 90 s on one thread).
+ * Measured by bench/tensor-network.bench.ts ("planner calibration"): both constants fitted by
  * least squares on relative error over kicked-Ising light-cone networks of 2^20 to 2^34 flops,
- * each contracted on one core. On 2026-12-05 at load 1: 6.4e9 flops/s, 2.5e8 elements/s, 2.8 us
- * per step, every network within 2x of the model above a millisecond; a width-24 slice of 2^36.3
- * flops ran in 11.2 s (the model says 14 s at these constants). A second quiet run fitted 4.9e9
- * flops/s, 4.0e8 elements/s, 4.4 us: the flops and moves columns are correlated over these
- * networks, so their split wobbles while the model's total holds (every network within 1.8x). The
- * GEMM constant sits below the quiet figures, for ordinary load (about half the speed at load 15);
- * the moves constant at the lower quiet fit.
+ * each contracted on one core. On 2026-12-05 at load 1: 4.3e9 flops/s and 1.9e5 steps/s, every
+ * network above a millisecond within 0.37x to 1.32x of the fit. A third part for the elements
+ * each step moves fitted no better (0.34x to 1.32x) and its rate wobbled 4x between runs (its
+ * column is correlated with the flops), so it was dropped. The GEMM constant sits a little below
+ * the quiet figure, for ordinary load (about half the speed at load 15).
  */
 export const TN_GEMM_RATE = 4e9;
-/** See TN_GEMM_RATE: complex elements permuted or copied per second (both inputs and the output of each step); fitted by bench/tensor-network.bench.ts with it. */
-export const TN_MOVE_RATE = 2.5e8;
-/** See TN_GEMM_RATE: fixed seconds per pairwise step (layout, allocation, the call itself). */
-export const TN_STEP_SECONDS = 4e-6;
+/** See TN_GEMM_RATE: pairwise steps per second (about 4 us each); fitted by bench/tensor-network.bench.ts with it. */
+export const TN_STEP_RATE = 2.5e5;
 
-/** Seconds of a contraction path on one core, from its flops, moved elements and steps (TN_GEMM_RATE). */
-export function tnSeconds(c: { flops: number; moves: number; steps: number }): number {
-  return c.flops / TN_GEMM_RATE + c.moves / TN_MOVE_RATE + c.steps * TN_STEP_SECONDS;
+/** Seconds of a contraction path on one core, from its flops and pairwise steps (TN_GEMM_RATE). */
+export function tnSeconds(c: { flops: number; steps: number }): number {
+  return c.flops / TN_GEMM_RATE + c.steps / TN_STEP_RATE;
 }
 
 /**

@@ -1,7 +1,7 @@
 /**
  * Tensor-network contraction, term by term on each term's light-cone network: costed from the
  * order search (width, flops) only when nothing cheaper is known to finish quickly (the search
- * itself takes milliseconds to seconds); seconds = search time + the path's cost (tnSeconds: flops, moved elements, steps), the contraction divided among the slice
+ * itself takes milliseconds to seconds); seconds = search time + the path's cost (tnSeconds: flops and pairwise steps), the contraction divided among the slice
  * threads (tnThreads) when the plan has several slices.
  */
 import type { ObservableSpec } from '../circuit';
@@ -78,7 +78,7 @@ export class TensorNetworkEstimator {
         const quick = planTerm(sub.circuit, sub.observable.terms[0].factors, { ...tnOptions(o), restarts: 1, reconfigureK: 0 });
         const hopeless = tnSeconds(quick) > 1000 * o.secondsBudget || quick.memoryBytes > o.tnMemoryBytes;
         const plan = hopeless ? quick : planTerm(sub.circuit, sub.observable.terms[0].factors, tnOptions(o));
-        c = { width: plan.width, flops: plan.flops, moves: plan.moves, steps: plan.steps, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
+        c = { width: plan.width, flops: plan.flops, steps: plan.steps, slices: plan.slices, memoryBytes: plan.memoryBytes, coneQubits: plan.coneQubits, searchSeconds: (nowMs() - t0) / 1000 };
         if (this.cache.size > 4096) this.cache.clear();
         this.cache.set(key, c);
       }

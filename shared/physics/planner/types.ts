@@ -31,8 +31,8 @@ export interface TnEstimate {
   flops: number;
   slices: number;
   memoryBytes: number;
-  /** per term: the path's figures (moves and steps: the cost model's other parts) and the order search's own time */
-  terms: { index: number; width: number; flops: number; moves: number; steps: number; slices: number; coneQubits: number; searchSeconds: number }[];
+  /** per term: the path's figures (steps: the cost model's other part) and the order search's own time */
+  terms: { index: number; width: number; flops: number; steps: number; slices: number; coneQubits: number; searchSeconds: number }[];
 }
 
 /** What one estimator returns: a cost, and `why` when the method is not (known to be) feasible. */
@@ -95,8 +95,7 @@ export interface TargetPlan {
 export interface TnTermCost {
   width: number;
   flops: number;
-  /** complex elements moved and pairwise steps, over all slices (the cost model's other two parts) */
-  moves: number;
+  /** pairwise steps over all slices (the cost model's other part) */
   steps: number;
   slices: number;
   memoryBytes: number;

@@ -58,8 +58,7 @@ export interface TnTermPlan {
   width: number;
   flops: number;
   memoryBytes: number;
-  /** complex elements moved outside the products and pairwise steps, over all slices (the planner's cost model) */
-  moves: number;
+  /** pairwise steps over all slices (the planner's cost model) */
   steps: number;
   /** the scalar collected during simplification */
   scalar: [number, number];
@@ -123,7 +122,7 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
   }
   return {
     leaves, nLegs: net.nLegs, pairs, sumLegs, sliced, slices: 2 ** sliced.length,
-    width: cost.width, flops: cost.flops, memoryBytes: cost.memoryBytes, moves: cost.moves ?? 0, steps: cost.steps ?? 0, scalar: net.scalar,
+    width: cost.width, flops: cost.flops, memoryBytes: cost.memoryBytes, steps: cost.steps ?? 0, scalar: net.scalar,
     coneQubits: circuit.nQubits, greedyWidth,
   };
 }

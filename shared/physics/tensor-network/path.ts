@@ -34,8 +34,6 @@ export interface TreeCost {
   flops: number;
   /** estimated peak bytes: inputs, output and split scratch copies of the largest step */
   memoryBytes: number;
-  /** complex elements read or written outside the products (both inputs and the output of every step), over all slices */
-  moves?: number;
   /** pairwise steps, over all slices */
   steps?: number;
 }
@@ -362,18 +360,15 @@ export function treeCost(leaves: readonly (readonly number[])[], nLegs: number, 
   for (const l of legs) width = Math.max(width, l.ids.length);
   let flops = 0;
   let mem = 0;
-  let moves = 0;
   for (const [u, v] of tree.pairs) {
     const { out, union } = mergeLegs(legs[u], legs[v], tot);
     legs.push(out);
     width = Math.max(width, out.ids.length);
     flops += 8 * 2 ** union;
-    const elements = 2 ** legs[u].ids.length + 2 ** legs[v].ids.length + 2 ** out.ids.length;
-    moves += elements;
-    mem = Math.max(mem, 32 * elements);
+    mem = Math.max(mem, 32 * (2 ** legs[u].ids.length + 2 ** legs[v].ids.length + 2 ** out.ids.length));
   }
   const n = 2 ** sliced.length;
-  return { width, flops: flops * n, memoryBytes: mem, moves: moves * n, steps: tree.pairs.length * n };
+  return { width, flops: flops * n, memoryBytes: mem, steps: tree.pairs.length * n };
 }
 
 // ------------------------------------------------------------------------------------------------

@@ -45,7 +45,7 @@ describe('planner structure', () => {
   it('every rate constant names its benchmark, which imports it and checks it against the measurement', () => {
     const source = readFileSync(`${DIR}/rates.ts`, 'utf8');
     const names = Object.keys(rates).filter((k) => k.endsWith('_RATE'));
-    expect(names.sort()).toEqual(['FREE_FERMION_RATE', 'PROPAGATION_RATE', 'STATEVECTOR_RATE', 'TN_GEMM_RATE', 'TN_MOVE_RATE']);
+    expect(names.sort()).toEqual(['FREE_FERMION_RATE', 'PROPAGATION_RATE', 'STATEVECTOR_RATE', 'TN_GEMM_RATE', 'TN_STEP_RATE']);
     for (const name of names) {
       // the doc comment right above the constant names the bench file
       const doc = source.slice(0, source.indexOf(`export const ${name} =`)).split('/**').pop() as string;
