@@ -104,7 +104,7 @@ export function planNetwork(circuit: CompiledCircuit, factors: readonly PauliFac
     if (s.cost.width > maxWidth && s.cost.width - maxWidth <= MAX_SLICED) {
       // the search steered by the memory width can settle on a tree that slices badly; a search for
       // the fewest flops whatever the width, sliced afterwards, is sometimes far cheaper (the braid's
-      // 8-step energy term: 2^48.5 flops over 8192 slices steered, 2^40 this way)
+      // 8-step energy term: 2^48.5 flops over 8192 slices steered, 2^39.6 over 16 this way)
       const free = searchOrder(legs, net.nLegs, { ...opts, restarts, targetWidth: Number.MAX_SAFE_INTEGER });
       const alt = sliceTo(free.tree, free.cost);
       const fits = (x: typeof pick) => x.cost.width <= maxWidth;
