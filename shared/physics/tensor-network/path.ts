@@ -510,6 +510,25 @@ export function reconfigure(leaves: readonly (readonly number[])[], nLegs: numbe
 /** Most indices sliced in one plan (2^16 slices): past it slicing is hopeless (each doubles the work). */
 export const MAX_SLICED = 16;
 
+/**
+ * The slicing candidates: legs of the tensors with at least `minWidth` legs once the legs in
+ * `sliced` are fixed, intermediates (and leaves, with `withLeaves`), in the order met.
+ */
+function wideLegs(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, sliced: readonly number[], total: Int32Array, minWidth: number, withLeaves: boolean): Set<number> {
+  const cut = new Uint8Array(nLegs);
+  for (const s of sliced) cut[s] = 1;
+  const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
+  const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
+  const cand = new Set<number>();
+  if (withLeaves) for (const l of legs) if (l.ids.length >= minWidth) for (const x of l.ids) cand.add(x);
+  for (const [u, v] of tree.pairs) {
+    const { out } = mergeLegs(legs[u], legs[v], tot);
+    legs.push(out);
+    if (out.ids.length >= minWidth) for (const x of out.ids) cand.add(x);
+  }
+  return cand;
+}
+
 /** Choose legs to fix until the width is <= maxWidth; each pick minimises the total flops. */
 export function chooseSlices(leaves: readonly (readonly number[])[], nLegs: number, tree: ContractionTree, maxWidth: number, maxSliced = 40): number[] {
   const sliced: number[] = [];
@@ -517,18 +536,7 @@ export function chooseSlices(leaves: readonly (readonly number[])[], nLegs: numb
   for (;;) {
     const cost = treeCost(leaves, nLegs, tree, sliced);
     if (cost.width <= maxWidth || sliced.length >= maxSliced) return sliced;
-    // legs of the widest intermediates (sliced legs removed)
-    const cut = new Uint8Array(nLegs);
-    for (const s of sliced) cut[s] = 1;
-    const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
-    const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
-    const cand = new Set<number>();
-    for (const l of legs) if (l.ids.length === cost.width) for (const x of l.ids) cand.add(x);
-    for (const [u, v] of tree.pairs) {
-      const { out } = mergeLegs(legs[u], legs[v], tot);
-      legs.push(out);
-      if (out.ids.length === cost.width) for (const x of out.ids) cand.add(x);
-    }
+    const cand = wideLegs(leaves, nLegs, tree, sliced, total, cost.width, true);
     let best = -1;
     let bestKey = Infinity;
     for (const x of cand) {
@@ -557,17 +565,7 @@ export function sliceForParallel(leaves: readonly (readonly number[])[], nLegs: 
   const total = totals(leaves, nLegs);
   const base = treeCost(leaves, nLegs, tree, out).flops;
   while (2 ** out.length < minSlices) {
-    const cost = treeCost(leaves, nLegs, tree, out);
-    const cut = new Uint8Array(nLegs);
-    for (const s of out) cut[s] = 1;
-    const tot = Int32Array.from(total, (t, i) => (cut[i] ? 0x7fffffff : t));
-    const legs: Legs[] = leaves.map((l) => leafLegs(l.filter((x) => !cut[x])));
-    const cand = new Set<number>();
-    for (const [u, v] of tree.pairs) {
-      const { out: o } = mergeLegs(legs[u], legs[v], tot);
-      legs.push(o);
-      if (o.ids.length >= cost.width - 1) for (const x of o.ids) cand.add(x);
-    }
+    const cand = wideLegs(leaves, nLegs, tree, out, total, treeCost(leaves, nLegs, tree, out).width - 1, false);
     let best = -1;
     let bestFlops = Infinity;
     for (const x of cand) {
